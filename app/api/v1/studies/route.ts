@@ -1,0 +1,18 @@
+import { api, parseBody, parseQuery } from '@/lib/api/handler';
+import { studyDto } from '@/lib/api/dto';
+import { createStudy, listStudies } from '@/lib/data/studies';
+import { studyCreateSchema, studyListQuerySchema } from '@/lib/validation/study';
+
+export const GET = api(async ({ req, actor }) => {
+  const query = parseQuery(req, studyListQuerySchema);
+  const page = await listStudies(actor, query);
+  return { ...page, items: page.items.map(studyDto) };
+});
+
+export const POST = api(
+  async ({ req, actor }) => {
+    const input = await parseBody(req, studyCreateSchema);
+    return studyDto(await createStudy(actor, input));
+  },
+  { status: 201 },
+);

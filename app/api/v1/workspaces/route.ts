@@ -1,0 +1,13 @@
+import { api, parseBody } from '@/lib/api/handler';
+import { createWorkspace, listMyWorkspaces } from '@/lib/data/workspaces';
+import { workspaceCreateSchema } from '@/lib/validation/workspace';
+
+export const GET = api(async ({ actor }) => ({ items: await listMyWorkspaces(actor) }));
+
+export const POST = api(
+  async ({ req, actor }) => {
+    const input = await parseBody(req, workspaceCreateSchema);
+    return createWorkspace(actor, input);
+  },
+  { status: 201 },
+);

@@ -1,0 +1,10 @@
+/**
+ * Explicit index of migrations, in order. The bundler cannot read a folder at run time, so
+ * every new migration file is added here by hand (DEVELOPERS.md, "Adding a migration").
+ */
+import type { Migration } from 'kysely';
+import * as foundation from './20261201T100000_foundation';
+
+export const migrations: Record<string, Migration> = {
+  '20261201T100000_foundation': foundation,
+};

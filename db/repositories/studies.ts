@@ -1,0 +1,225 @@
+import { sql, type Kysely, type Transaction } from 'kysely';
+import type { Database, StudyRole, StudyStatus } from '../schema';
+
+type Db = Kysely<Database> | Transaction<Database>;
+
+export interface Study {
+  id: string;
+  workspaceId: string;
+  title: string;
+  description: string;
+  status: StudyStatus;
+  currentRevision: number;
+  createdAt: Date;
+  updatedAt: Date;
+  archivedAt: Date | null;
+}
+
+export interface StudyWithRole extends Study {
+  role: StudyRole;
+}
+
+const STUDY_COLUMNS = [
+  'studies.id',
+  'studies.workspace_id',
+  'studies.title',
+  'studies.description',
+  'studies.status',
+  'studies.current_revision',
+  'studies.created_at',
+  'studies.updated_at',
+  'studies.archived_at',
+] as const;
+
+type StudyColumns = {
+  id: string;
+  workspace_id: string;
+  title: string;
+  description: string;
+  status: StudyStatus;
+  current_revision: number;
+  created_at: Date;
+  updated_at: Date;
+  archived_at: Date | null;
+};
+
+export function rowToStudy(r: StudyColumns): Study {
+  return {
+    id: r.id,
+    workspaceId: r.workspace_id,
+    title: r.title,
+    description: r.description,
+    status: r.status,
+    currentRevision: r.current_revision,
+    createdAt: r.created_at,
+    updatedAt: r.updated_at,
+    archivedAt: r.archived_at,
+  };
+}
+
+/** The study and the role of `userId` on it (null when not a member), with the workspace role. */
+export async function findStudyForUser(
+  db: Db,
+  studyId: string,
+  userId: string,
+): Promise<{ study: Study; role: StudyRole | null; workspaceRole: 'admin' | 'member' | null } | undefined> {
+  const row = await db
+    .selectFrom('studies')
+    .leftJoin('study_members', (j) => j.onRef('study_members.study_id', '=', 'studies.id').on('study_members.user_id', '=', userId))
+    .leftJoin('workspace_members', (j) =>
+      j.onRef('workspace_members.workspace_id', '=', 'studies.workspace_id').on('workspace_members.user_id', '=', userId),
+    )
+    .select([...STUDY_COLUMNS, 'study_members.role as role', 'workspace_members.role as workspace_role'])
+    .where('studies.id', '=', studyId)
+    .executeTakeFirst();
+  if (!row) return undefined;
+  return { study: rowToStudy(row), role: row.role, workspaceRole: row.workspace_role };
+}
+
+export interface StudyListFilter {
+  workspaceId: string;
+  userId: string;
+  q?: string;
+  status: 'active' | 'archived' | 'all' | StudyStatus;
+  sort: 'title' | 'status' | 'role' | 'updated' | 'created';
+  dir: 'asc' | 'desc';
+  page: number;
+  pageSize: number;
+}
+
+export async function listStudiesForUser(db: Db, f: StudyListFilter): Promise<{ items: StudyWithRole[]; total: number }> {
+  let q = db
+    .selectFrom('studies')
+    .innerJoin('study_members', 'study_members.study_id', 'studies.id')
+    .where('studies.workspace_id', '=', f.workspaceId)
+    .where('study_members.user_id', '=', f.userId);
+  if (f.status === 'active') q = q.where('studies.status', '!=', 'archived');
+  else if (f.status !== 'all') q = q.where('studies.status', '=', f.status);
+  if (f.q) {
+    const pattern = `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    q = q.where((eb) => eb.or([eb('studies.title', 'ilike', pattern), eb('studies.description', 'ilike', pattern)]));
+  }
+  const totalRow = await q.select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow();
+  const sortColumn = {
+    title: sql`lower(studies.title)`,
+    status: sql`studies.status`,
+    role: sql`array_position(array['owner','editor','consultant','writer','viewer'], study_members.role)`,
+    updated: sql`studies.updated_at`,
+    created: sql`studies.created_at`,
+  }[f.sort];
+  const rows = await q
+    .select([...STUDY_COLUMNS, 'study_members.role as role'])
+    .orderBy(sortColumn, f.dir)
+    .orderBy('studies.id')
+    .limit(f.pageSize)
+    .offset((f.page - 1) * f.pageSize)
+    .execute();
+  return { items: rows.map((r) => ({ ...rowToStudy(r), role: r.role })), total: Number(totalRow.n) };
+}
+
+export async function insertStudy(
+  db: Db,
+  input: { workspaceId: string; title: string; description: string; createdBy: string },
+): Promise<Study> {
+  const row = await db
+    .insertInto('studies')
+    .values({ workspace_id: input.workspaceId, title: input.title, description: input.description, created_by: input.createdBy })
+    .returningAll()
+    .executeTakeFirstOrThrow();
+  return rowToStudy(row);
+}
+
+export async function updateStudyRow(
+  db: Db,
+  studyId: string,
+  patch: { title?: string; description?: string; status?: StudyStatus; archived_at?: Date | null },
+): Promise<Study> {
+  const row = await db
+    .updateTable('studies')
+    .set({ ...patch, updated_at: new Date() })
+    .where('id', '=', studyId)
+    .returningAll()
+    .executeTakeFirstOrThrow();
+  return rowToStudy(row);
+}
+
+export async function upsertStudyMember(db: Db, studyId: string, userId: string, role: StudyRole): Promise<void> {
+  // The owner keeps the owner role whatever an invitation says.
+  await db
+    .insertInto('study_members')
+    .values({ study_id: studyId, user_id: userId, role })
+    .onConflict((oc) =>
+      oc.columns(['study_id', 'user_id']).doUpdateSet({
+        role: sql<StudyRole>`case when study_members.role = 'owner' then 'owner' else excluded.role end`,
+      }),
+    )
+    .execute();
+}
+
+export interface StudyMember {
+  userId: string;
+  name: string | null;
+  email: string;
+  role: StudyRole;
+  since: Date;
+}
+
+export async function listStudyMembers(db: Db, studyId: string): Promise<StudyMember[]> {
+  const rows = await db
+    .selectFrom('study_members')
+    .innerJoin('User', 'User.id', 'study_members.user_id')
+    .select(['User.id', 'User.name', 'User.email', 'study_members.role', 'study_members.created_at'])
+    .where('study_members.study_id', '=', studyId)
+    .orderBy(sql`array_position(array['owner','editor','consultant','writer','viewer'], study_members.role)`)
+    .orderBy('User.name')
+    .execute();
+  return rows.map((r) => ({ userId: r.id, name: r.name, email: r.email, role: r.role, since: r.created_at }));
+}
+
+export async function findStudyMemberRole(db: Db, studyId: string, userId: string): Promise<StudyRole | undefined> {
+  const row = await db
+    .selectFrom('study_members')
+    .select('role')
+    .where('study_id', '=', studyId)
+    .where('user_id', '=', userId)
+    .executeTakeFirst();
+  return row?.role;
+}
+
+export async function setStudyMemberRole(db: Db, studyId: string, userId: string, role: StudyRole): Promise<void> {
+  await db.updateTable('study_members').set({ role }).where('study_id', '=', studyId).where('user_id', '=', userId).execute();
+}
+
+export async function deleteStudyMember(db: Db, studyId: string, userId: string): Promise<void> {
+  await db.deleteFrom('study_members').where('study_id', '=', studyId).where('user_id', '=', userId).execute();
+}
+
+export async function countStudiesOwnedInWorkspace(db: Db, workspaceId: string, userId: string): Promise<number> {
+  const row = await db
+    .selectFrom('study_members')
+    .innerJoin('studies', 'studies.id', 'study_members.study_id')
+    .select((eb) => eb.fn.countAll<string>().as('n'))
+    .where('studies.workspace_id', '=', workspaceId)
+    .where('study_members.user_id', '=', userId)
+    .where('study_members.role', '=', 'owner')
+    .executeTakeFirstOrThrow();
+  return Number(row.n);
+}
+
+/** Appends a revision; the unique (study, number) constraint rejects a concurrent save. */
+export async function insertRevision(
+  db: Db,
+  input: { studyId: string; number: number; design: unknown; authorId: string; note?: string | null },
+): Promise<void> {
+  await db
+    .insertInto('study_revisions')
+    .values({
+      study_id: input.studyId,
+      number: input.number,
+      design: JSON.stringify(input.design),
+      author_id: input.authorId,
+      note: input.note ?? null,
+    })
+    .execute();
+  await db.updateTable('studies').set({ current_revision: input.number, updated_at: new Date() }).where('id', '=', input.studyId).execute();
+}

@@ -1,0 +1,91 @@
+import type { Kysely, Transaction } from 'kysely';
+import type { Database, EmailTokenPurpose } from '../schema';
+
+type Db = Kysely<Database> | Transaction<Database>;
+
+export interface User {
+  id: string;
+  name: string | null;
+  email: string;
+  emailVerified: Date | null;
+}
+
+export async function findUserByEmail(db: Db, email: string): Promise<(User & { passwordHash: string | null }) | undefined> {
+  const row = await db
+    .selectFrom('User')
+    .leftJoin('user_credentials', 'user_credentials.user_id', 'User.id')
+    .select(['User.id', 'User.name', 'User.email', 'User.emailVerified', 'user_credentials.password_hash'])
+    .where('User.email', '=', email.toLowerCase())
+    .executeTakeFirst();
+  if (!row) return undefined;
+  return { id: row.id, name: row.name, email: row.email, emailVerified: row.emailVerified, passwordHash: row.password_hash };
+}
+
+export async function findUserById(db: Db, id: string): Promise<User | undefined> {
+  return db.selectFrom('User').select(['id', 'name', 'email', 'emailVerified']).where('id', '=', id).executeTakeFirst();
+}
+
+export async function insertUser(db: Db, user: { name: string; email: string; emailVerified?: Date | null }): Promise<User> {
+  return db
+    .insertInto('User')
+    .values({ id: crypto.randomUUID(), name: user.name, email: user.email.toLowerCase(), emailVerified: user.emailVerified ?? null })
+    .returning(['id', 'name', 'email', 'emailVerified'])
+    .executeTakeFirstOrThrow();
+}
+
+export async function setPasswordHash(db: Db, userId: string, hash: string): Promise<void> {
+  await db
+    .insertInto('user_credentials')
+    .values({ user_id: userId, password_hash: hash })
+    .onConflict((oc) => oc.column('user_id').doUpdateSet({ password_hash: hash, updated_at: new Date() }))
+    .execute();
+}
+
+export async function markEmailVerified(db: Db, userId: string): Promise<void> {
+  await db.updateTable('User').set({ emailVerified: new Date() }).where('id', '=', userId).where('emailVerified', 'is', null).execute();
+}
+
+export async function insertEmailToken(
+  db: Db,
+  token: { userId: string; purpose: EmailTokenPurpose; hash: string; expiresAt: Date },
+): Promise<void> {
+  await db
+    .insertInto('email_tokens')
+    .values({ user_id: token.userId, purpose: token.purpose, token_hash: token.hash, expires_at: token.expiresAt })
+    .execute();
+}
+
+/**
+ * Marks a token used and returns its user, in one statement, so two clicks on the same link
+ * cannot both succeed. Returns undefined for unknown, used or expired tokens.
+ */
+export async function useEmailToken(db: Db, purpose: EmailTokenPurpose, hash: string): Promise<{ userId: string } | undefined> {
+  const row = await db
+    .updateTable('email_tokens')
+    .set({ used_at: new Date() })
+    .where('token_hash', '=', hash)
+    .where('purpose', '=', purpose)
+    .where('used_at', 'is', null)
+    .where('expires_at', '>', new Date())
+    .returning('user_id')
+    .executeTakeFirst();
+  return row ? { userId: row.user_id } : undefined;
+}
+
+export async function deleteSessionsOfUser(db: Db, userId: string): Promise<void> {
+  await db.deleteFrom('Session').where('userId', '=', userId).execute();
+}
+
+export async function insertSession(db: Db, session: { userId: string; sessionToken: string; expires: Date }): Promise<void> {
+  await db.insertInto('Session').values(session).execute();
+}
+
+export async function findSessionUser(db: Db, sessionToken: string): Promise<User | undefined> {
+  return db
+    .selectFrom('Session')
+    .innerJoin('User', 'User.id', 'Session.userId')
+    .select(['User.id', 'User.name', 'User.email', 'User.emailVerified'])
+    .where('Session.sessionToken', '=', sessionToken)
+    .where('Session.expires', '>', new Date())
+    .executeTakeFirst();
+}

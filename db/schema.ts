@@ -1,0 +1,185 @@
+/**
+ * Table types for Kysely. One interface per table, collected into `Database`.
+ *
+ * The four authentication tables ("User", "Account", "Session", "VerificationToken") keep the
+ * names and camelCase columns that @auth/kysely-adapter expects; every table of our own is
+ * snake_case. pg returns bigint and numeric as strings, so such columns are typed as strings
+ * and parsed on purpose where they are used.
+ */
+import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+
+type Timestamp = ColumnType<Date, Date | string | undefined, Date | string>;
+type NullableTimestamp = ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
+type Json<T> = ColumnType<T, string, string>;
+
+export const WORKSPACE_ROLES = ['admin', 'member'] as const;
+export type WorkspaceRole = (typeof WORKSPACE_ROLES)[number];
+
+export const STUDY_ROLES = ['owner', 'editor', 'consultant', 'writer', 'viewer'] as const;
+export type StudyRole = (typeof STUDY_ROLES)[number];
+
+export const STUDY_STATUSES = ['draft', 'in-review', 'signed-off', 'archived'] as const;
+export type StudyStatus = (typeof STUDY_STATUSES)[number];
+
+export const EMAIL_TOKEN_PURPOSES = ['verify-email', 'reset-password'] as const;
+export type EmailTokenPurpose = (typeof EMAIL_TOKEN_PURPOSES)[number];
+
+export interface UserTable {
+  id: string;
+  name: string | null;
+  email: string;
+  emailVerified: NullableTimestamp;
+  image: string | null;
+  createdAt: Generated<Date>;
+}
+
+export interface AccountTable {
+  id: Generated<string>;
+  userId: string;
+  type: string;
+  provider: string;
+  providerAccountId: string;
+  refresh_token: string | null;
+  access_token: string | null;
+  expires_at: number | null;
+  token_type: string | null;
+  scope: string | null;
+  id_token: string | null;
+  session_state: string | null;
+}
+
+export interface SessionTable {
+  id: Generated<string>;
+  sessionToken: string;
+  userId: string;
+  expires: Timestamp;
+}
+
+export interface VerificationTokenTable {
+  identifier: string;
+  token: string;
+  expires: Timestamp;
+}
+
+export interface UserCredentialTable {
+  user_id: string;
+  password_hash: string;
+  updated_at: Generated<Date>;
+}
+
+export interface EmailTokenTable {
+  id: Generated<string>;
+  user_id: string;
+  purpose: EmailTokenPurpose;
+  token_hash: string;
+  expires_at: Timestamp;
+  used_at: NullableTimestamp;
+  created_at: Generated<Date>;
+}
+
+export interface WorkspaceTable {
+  id: Generated<string>;
+  name: string;
+  slug: string;
+  created_by: string | null;
+  created_at: Generated<Date>;
+}
+
+export interface WorkspaceMemberTable {
+  workspace_id: string;
+  user_id: string;
+  role: WorkspaceRole;
+  created_at: Generated<Date>;
+}
+
+export interface InvitationTable {
+  id: Generated<string>;
+  workspace_id: string;
+  study_id: string | null;
+  email: string;
+  workspace_role: WorkspaceRole;
+  study_role: StudyRole | null;
+  token_hash: string;
+  invited_by: string | null;
+  expires_at: Timestamp;
+  accepted_at: NullableTimestamp;
+  accepted_by: string | null;
+  revoked_at: NullableTimestamp;
+  created_at: Generated<Date>;
+}
+
+export interface StudyTable {
+  id: Generated<string>;
+  workspace_id: string;
+  title: string;
+  description: Generated<string>;
+  status: Generated<StudyStatus>;
+  /** Number of the newest revision; 0 before the first save. */
+  current_revision: Generated<number>;
+  created_by: string | null;
+  created_at: Generated<Date>;
+  updated_at: Generated<Date>;
+  archived_at: NullableTimestamp;
+}
+
+export interface StudyMemberTable {
+  study_id: string;
+  user_id: string;
+  role: StudyRole;
+  created_at: Generated<Date>;
+}
+
+export interface StudyRevisionTable {
+  id: Generated<string>;
+  study_id: string;
+  number: number;
+  design: Json<unknown>;
+  note: string | null;
+  author_id: string | null;
+  created_at: Generated<Date>;
+}
+
+export interface ActivityTable {
+  /** bigserial: returned by pg as a string. */
+  id: Generated<string>;
+  workspace_id: string | null;
+  study_id: string | null;
+  actor_id: string | null;
+  action: string;
+  details: Json<Record<string, unknown>>;
+  created_at: Generated<Date>;
+}
+
+export interface RateLimitTable {
+  key: string;
+  window_start: Timestamp;
+  count: number;
+}
+
+export interface Database {
+  User: UserTable;
+  Account: AccountTable;
+  Session: SessionTable;
+  VerificationToken: VerificationTokenTable;
+  user_credentials: UserCredentialTable;
+  email_tokens: EmailTokenTable;
+  workspaces: WorkspaceTable;
+  workspace_members: WorkspaceMemberTable;
+  invitations: InvitationTable;
+  studies: StudyTable;
+  study_members: StudyMemberTable;
+  study_revisions: StudyRevisionTable;
+  activity_log: ActivityTable;
+  rate_limits: RateLimitTable;
+}
+
+export type UserRow = Selectable<UserTable>;
+export type NewUser = Insertable<UserTable>;
+export type WorkspaceRow = Selectable<WorkspaceTable>;
+export type InvitationRow = Selectable<InvitationTable>;
+export type NewInvitation = Insertable<InvitationTable>;
+export type StudyRow = Selectable<StudyTable>;
+export type NewStudy = Insertable<StudyTable>;
+export type StudyUpdate = Updateable<StudyTable>;
+export type StudyRevisionRow = Selectable<StudyRevisionTable>;
+export type ActivityRow = Selectable<ActivityTable>;

@@ -1,0 +1,229 @@
+/**
+ * The OpenAPI 3.1 document of /api/v1, generated from the same zod schemas that validate the
+ * requests (@asteasolutions/zod-to-openapi). Every route handler under app/api/v1 has an entry
+ * here; tests/integration/openapi.test.ts checks that the two lists agree.
+ */
+import { OpenAPIRegistry, OpenApiGeneratorV31, type RouteConfig } from '@asteasolutions/zod-to-openapi';
+import { z } from 'zod';
+import { studyCreateSchema, studyListQuerySchema, studySchema, studyUpdateSchema } from '@/lib/validation/study';
+import { memberRoleUpdateSchema, studyInvitationCreateSchema } from '@/lib/validation/member';
+import {
+  invitationAcceptSchema,
+  workspaceCreateSchema,
+  workspaceInvitationCreateSchema,
+  workspaceMemberRoleUpdateSchema,
+  workspaceSchema,
+} from '@/lib/validation/workspace';
+import { activityDtoSchema, errorSchema, invitationDtoSchema, studyMemberDtoSchema, workspaceMemberDtoSchema } from './dto';
+
+const json = <T extends z.ZodType>(schema: T, description: string) => ({ description, content: { 'application/json': { schema } } });
+const err = (description: string) => json(errorSchema, description);
+const list = <T extends z.ZodType>(item: T) => z.object({ items: z.array(item) });
+
+const standardErrors = {
+  401: err('Not signed in.'),
+  403: err('Signed in, but the role does not allow this; or a cross-site write.'),
+  404: err('Not found, or not visible to you (another workspace, or a study you are not a member of).'),
+};
+const writeErrors = { ...standardErrors, 400: err('Invalid input: see error.fields.'), 409: err('Conflicts with the current state.'), 429: err('Rate limited.') };
+
+const p = (name: string) => z.string().meta({ param: { name, in: 'path' } });
+const studyParams = z.object({ studyId: p('studyId') });
+const workspaceParams = z.object({ workspaceId: p('workspaceId') });
+
+export const API_ROUTES: RouteConfig[] = [
+  {
+    method: 'get',
+    path: '/api/v1/workspaces',
+    summary: 'Workspaces the signed-in user belongs to',
+    responses: { 200: json(list(workspaceSchema), 'Workspaces with your role'), 401: standardErrors[401] },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/workspaces',
+    summary: 'Create a workspace (you become its admin)',
+    request: { body: { content: { 'application/json': { schema: workspaceCreateSchema } } } },
+    responses: { 201: json(workspaceSchema, 'The new workspace'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/workspaces/{workspaceId}/members',
+    summary: 'Members of a workspace',
+    request: { params: workspaceParams },
+    responses: { 200: json(list(workspaceMemberDtoSchema), 'Members'), ...standardErrors },
+  },
+  {
+    method: 'patch',
+    path: '/api/v1/workspaces/{workspaceId}/members/{userId}',
+    summary: 'Change a workspace member’s role (admins)',
+    request: {
+      params: z.object({ workspaceId: p('workspaceId'), userId: p('userId') }),
+      body: { content: { 'application/json': { schema: workspaceMemberRoleUpdateSchema } } },
+    },
+    responses: { 200: json(list(workspaceMemberDtoSchema), 'Members after the change'), ...writeErrors },
+  },
+  {
+    method: 'delete',
+    path: '/api/v1/workspaces/{workspaceId}/members/{userId}',
+    summary: 'Remove a member from a workspace (admins)',
+    request: { params: z.object({ workspaceId: p('workspaceId'), userId: p('userId') }) },
+    responses: { 204: { description: 'Removed' }, ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/workspaces/{workspaceId}/invitations',
+    summary: 'Invitations to a workspace (admins)',
+    request: { params: workspaceParams },
+    responses: { 200: json(list(invitationDtoSchema), 'Invitations'), ...standardErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/workspaces/{workspaceId}/invitations',
+    summary: 'Invite someone to a workspace by e-mail (admins)',
+    request: { params: workspaceParams, body: { content: { 'application/json': { schema: workspaceInvitationCreateSchema } } } },
+    responses: { 201: json(invitationDtoSchema, 'The invitation; the link goes by e-mail only'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies',
+    summary: 'Studies of a workspace that you are a member of',
+    request: { query: studyListQuerySchema },
+    responses: {
+      200: json(
+        z.object({ items: z.array(studySchema), total: z.number().int(), page: z.number().int(), pageSize: z.number().int() }),
+        'One page of studies',
+      ),
+      400: err('Invalid query'),
+      ...standardErrors,
+    },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies',
+    summary: 'Create a study (you become its owner)',
+    request: { body: { content: { 'application/json': { schema: studyCreateSchema } } } },
+    responses: { 201: json(studySchema, 'The new study'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}',
+    summary: 'Read a study',
+    request: { params: studyParams },
+    responses: { 200: json(studySchema, 'The study with your role'), ...standardErrors },
+  },
+  {
+    method: 'patch',
+    path: '/api/v1/studies/{studyId}',
+    summary: 'Update a study’s title or description (owner, editor)',
+    request: { params: studyParams, body: { content: { 'application/json': { schema: studyUpdateSchema } } } },
+    responses: { 200: json(studySchema, 'The updated study'), ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/archive',
+    summary: 'Archive a study (owner)',
+    request: { params: studyParams },
+    responses: { 200: json(studySchema, 'The archived study'), ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/restore',
+    summary: 'Restore an archived study (owner)',
+    request: { params: studyParams },
+    responses: { 200: json(studySchema, 'The restored study'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/members',
+    summary: 'Members of a study with their roles',
+    request: { params: studyParams },
+    responses: { 200: json(list(studyMemberDtoSchema), 'Members'), ...standardErrors },
+  },
+  {
+    method: 'patch',
+    path: '/api/v1/studies/{studyId}/members/{userId}',
+    summary: 'Change a member’s role (owner)',
+    request: {
+      params: z.object({ studyId: p('studyId'), userId: p('userId') }),
+      body: { content: { 'application/json': { schema: memberRoleUpdateSchema } } },
+    },
+    responses: { 200: json(list(studyMemberDtoSchema), 'Members after the change'), ...writeErrors },
+  },
+  {
+    method: 'delete',
+    path: '/api/v1/studies/{studyId}/members/{userId}',
+    summary: 'Remove a member from a study (owner)',
+    request: { params: z.object({ studyId: p('studyId'), userId: p('userId') }) },
+    responses: { 204: { description: 'Removed' }, ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/invitations',
+    summary: 'Invitations to a study (owner)',
+    request: { params: studyParams },
+    responses: { 200: json(list(invitationDtoSchema), 'Invitations'), ...standardErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/invitations',
+    summary: 'Invite someone to a study with a role (owner)',
+    request: { params: studyParams, body: { content: { 'application/json': { schema: studyInvitationCreateSchema } } } },
+    responses: { 201: json(invitationDtoSchema, 'The invitation; the link goes by e-mail only'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/activity',
+    summary: 'Recent activity on a study',
+    request: { params: studyParams },
+    responses: { 200: json(list(activityDtoSchema), 'Newest first, at most 50'), ...standardErrors },
+  },
+  {
+    method: 'delete',
+    path: '/api/v1/invitations/{invitationId}',
+    summary: 'Revoke a pending invitation (workspace admins; study owner for study invitations)',
+    request: { params: z.object({ invitationId: p('invitationId') }) },
+    responses: { 204: { description: 'Revoked' }, ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/invitations/accept',
+    summary: 'Accept an invitation with the token from its e-mail (the invited address only)',
+    request: { body: { content: { 'application/json': { schema: invitationAcceptSchema } } } },
+    responses: {
+      200: json(z.object({ workspaceId: z.uuid(), studyId: z.uuid().nullable() }), 'Joined'),
+      410: err('Expired, revoked or already used.'),
+      ...writeErrors,
+    },
+  },
+];
+
+export function openApiDocument() {
+  const registry = new OpenAPIRegistry();
+  registry.registerComponent('securitySchemes', 'session', {
+    type: 'apiKey',
+    in: 'cookie',
+    name: 'authjs.session-token',
+    description: 'The session cookie set by signing in (named __Secure-authjs.session-token over https).',
+  });
+  for (const route of API_ROUTES) registry.registerPath({ security: [{ session: [] }], ...route });
+  registry.registerPath({
+    method: 'get',
+    path: '/api/health',
+    summary: 'Liveness and database reachability',
+    security: [],
+    responses: {
+      200: json(z.object({ status: z.literal('ok'), database: z.literal('ok') }), 'Healthy'),
+      503: json(z.object({ status: z.literal('degraded'), database: z.literal('unreachable') }), 'Database unreachable'),
+    },
+  });
+  return new OpenApiGeneratorV31(registry.definitions).generateDocument({
+    openapi: '3.1.0',
+    info: {
+      title: 'Unitwise API',
+      version: '1.0.0',
+      description:
+        'JSON API of Unitwise. Errors are {"error": {"code", "message", "fields"?}}. Writes from another site are refused. Sign in through the web app; the API uses the same session cookie.',
+    },
+    servers: [{ url: '/' }],
+  });
+}

@@ -1,0 +1,96 @@
+import 'server-only';
+import NextAuth, { CredentialsSignin } from 'next-auth';
+import type { Adapter } from 'next-auth/adapters';
+import { encode as defaultEncode } from 'next-auth/jwt';
+import Credentials from 'next-auth/providers/credentials';
+import Nodemailer from 'next-auth/providers/nodemailer';
+import { KyselyAdapter } from '@auth/kysely-adapter';
+import { randomBytes } from 'node:crypto';
+import { insertSession } from '@/db/repositories/users';
+import { logActivity } from '@/db/repositories/activity';
+import { db } from '@/lib/db';
+import { env } from '@/lib/env';
+import { enforce, LIMITS } from '@/lib/rate-limit';
+import { sendMail } from '@/lib/mail/send';
+import { magicLinkMail } from '@/lib/mail/templates';
+import { signInSchema } from '@/lib/validation/auth';
+import { checkCredentials, createPersonalWorkspace } from './accounts';
+
+/**
+ * next-auth: e-mail + password (Credentials) and e-mail magic links (Nodemailer), both ending in
+ * a database session in the "Session" table. next-auth writes Credentials sign-ins as JWTs; the
+ * `jwt.encode` hook below writes a database session for them instead, so that every session can
+ * be listed, revoked on sign-out and on password reset, and resolved by one query.
+ */
+export const SESSION_MAX_AGE_SECONDS = 30 * 24 * 60 * 60;
+
+export class UnverifiedEmail extends CredentialsSignin {
+  code = 'unverified';
+}
+export class TooManyAttempts extends CredentialsSignin {
+  code = 'rate_limited';
+}
+
+export const { handlers, signIn, signOut } = NextAuth(() => {
+  const e = env();
+  return {
+    adapter: KyselyAdapter(db() as never) as Adapter,
+    secret: e.AUTH_SECRET,
+    trustHost: true,
+    session: { strategy: 'database', maxAge: SESSION_MAX_AGE_SECONDS, updateAge: 24 * 60 * 60 },
+    pages: { signIn: '/sign-in', verifyRequest: '/sign-in/check-email', error: '/sign-in/problem' },
+    providers: [
+      Credentials({
+        credentials: { email: {}, password: {} },
+        async authorize(raw, request) {
+          const parsed = signInSchema.safeParse(raw);
+          if (!parsed.success) return null;
+          const outcome = await checkCredentials(parsed.data.email, parsed.data.password, request.headers);
+          if (outcome.kind === 'rate_limited') throw new TooManyAttempts();
+          if (outcome.kind === 'unverified') throw new UnverifiedEmail();
+          if (outcome.kind !== 'ok') return null;
+          return { id: outcome.user.id, name: outcome.user.name, email: outcome.user.email };
+        },
+      }),
+      Nodemailer({
+        server: { host: e.SMTP_HOST, port: e.SMTP_PORT, secure: e.SMTP_SECURE },
+        from: e.MAIL_FROM,
+        maxAge: 15 * 60,
+        async sendVerificationRequest({ identifier, url }) {
+          await enforce(db(), `magic:${identifier}`, LIMITS.magicLinkPerEmail, 'sign-in links for this address');
+          await sendMail(magicLinkMail(identifier, url));
+        },
+      }),
+    ],
+    callbacks: {
+      jwt({ token, account, user }) {
+        if (account?.provider === 'credentials' && user?.id) token.credentialsUserId = user.id;
+        return token;
+      },
+    },
+    jwt: {
+      async encode(params) {
+        const userId = params.token?.credentialsUserId;
+        if (typeof userId === 'string') {
+          const sessionToken = randomBytes(32).toString('base64url');
+          await insertSession(db(), {
+            userId,
+            sessionToken,
+            expires: new Date(Date.now() + SESSION_MAX_AGE_SECONDS * 1000),
+          });
+          return sessionToken;
+        }
+        return defaultEncode(params);
+      },
+    },
+    events: {
+      async createUser({ user }) {
+        // Accounts made by a first magic link get a personal workspace like sign-ups do.
+        if (user.id) await createPersonalWorkspace(db(), user.id, user.name ?? user.email ?? 'My');
+      },
+      async signIn({ user, account }) {
+        if (user.id) await logActivity(db(), { actorId: user.id, action: 'auth.sign-in', details: { method: account?.provider ?? 'unknown' } });
+      },
+    },
+  };
+});

@@ -1,0 +1,59 @@
+import 'server-only';
+import type { StudyRole, WorkspaceRole } from '@/db/schema';
+import { findStudyForUser, type Study } from '@/db/repositories/studies';
+import { findMembership } from '@/db/repositories/workspaces';
+import { canStudy, canWorkspace, type StudyAction, type WorkspaceAction } from '@/lib/auth/permissions';
+import type { Actor } from '@/lib/auth/session';
+import { db } from '@/lib/db';
+import { AppError, forbidden, notFound, unauthorized } from '@/lib/errors';
+
+/**
+ * The checks every data-access function makes first. Order matters and is the same everywhere:
+ * no actor → 401; a study or workspace the actor does not belong to → 404, so that nobody learns
+ * what exists elsewhere; a member whose role lacks the right → 403.
+ */
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export function requireActor(actor: Actor | null): Actor {
+  if (!actor) throw unauthorized();
+  return actor;
+}
+
+const ACTION_WORDS: Partial<Record<StudyAction | WorkspaceAction, string>> = {
+  'study.update': 'edit this study',
+  'study.archive': 'archive this study',
+  'members.manage': 'manage the members of this study',
+  'workspace.members.manage': 'manage the members of this workspace',
+  'workspace.invite': 'invite people to this workspace',
+  'design.edit': 'edit the design',
+};
+
+export async function requireStudy(
+  actor: Actor | null,
+  studyId: string,
+  action: StudyAction,
+): Promise<{ actor: Actor; study: Study; role: StudyRole }> {
+  const a = requireActor(actor);
+  if (!UUID.test(studyId)) throw notFound('The study');
+  const found = await findStudyForUser(db(), studyId, a.id);
+  if (!found || !found.role || !found.workspaceRole) throw notFound('The study');
+  if (!canStudy(found.role, action)) throw forbidden(ACTION_WORDS[action] ?? 'do that');
+  if (found.study.status === 'archived' && action !== 'study.read' && action !== 'study.archive' && action !== 'members.read' && action !== 'activity.read' && action !== 'justification.export') {
+    throw new AppError('conflict', 'This study is archived. Restore it before changing it.');
+  }
+  return { actor: a, study: found.study, role: found.role };
+}
+
+export async function requireWorkspace(
+  actor: Actor | null,
+  workspaceId: string,
+  action: WorkspaceAction,
+): Promise<{ actor: Actor; role: WorkspaceRole }> {
+  const a = requireActor(actor);
+  if (!UUID.test(workspaceId)) throw notFound('The workspace');
+  const role = await findMembership(db(), workspaceId, a.id);
+  if (!role) throw notFound('The workspace');
+  if (!canWorkspace(role, action)) throw forbidden(ACTION_WORDS[action] ?? 'do that');
+  return { actor: a, role };
+}

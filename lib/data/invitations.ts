@@ -1,0 +1,178 @@
+import 'server-only';
+import {
+  claimInvitation,
+  findInvitationById,
+  findInvitationByTokenHash,
+  insertInvitation,
+  invitationState,
+  listInvitations,
+  revokeInvitationRow,
+  type Invitation,
+  type InvitationState,
+} from '@/db/repositories/invitations';
+import { upsertStudyMember } from '@/db/repositories/studies';
+import { findMembership, upsertWorkspaceMember } from '@/db/repositories/workspaces';
+import { logActivity } from '@/db/repositories/activity';
+import { canStudy, canWorkspace, STUDY_ROLE_DESCRIPTIONS } from '@/lib/auth/permissions';
+import type { Actor } from '@/lib/auth/session';
+import { findStudyForUser } from '@/db/repositories/studies';
+import { hashToken, newToken, TOKEN_LIFETIME } from '@/lib/auth/tokens';
+import { db } from '@/lib/db';
+import { env } from '@/lib/env';
+import { AppError, forbidden, notFound } from '@/lib/errors';
+import { sendMail } from '@/lib/mail/send';
+import { invitationMail } from '@/lib/mail/templates';
+import { enforce, LIMITS } from '@/lib/rate-limit';
+import type { StudyInvitationCreateInput } from '@/lib/validation/member';
+import type { WorkspaceInvitationCreateInput } from '@/lib/validation/workspace';
+import { requireActor, requireStudy, requireWorkspace } from './access';
+
+/**
+ * Invitations by e-mail: an expiring (7 days), single-use link. A workspace invitation makes the
+ * person a workspace member or admin; a study invitation also gives them a role on one study.
+ * Only the invited address can accept.
+ */
+
+export interface InvitationView extends Invitation {
+  state: InvitationState;
+}
+
+function view(i: Invitation): InvitationView {
+  return { ...i, state: invitationState(i) };
+}
+
+function expiry(): Date {
+  return new Date(Date.now() + TOKEN_LIFETIME.invitationDays * 24 * 3600_000);
+}
+
+export async function inviteToWorkspace(
+  actor: Actor | null,
+  workspaceId: string,
+  input: WorkspaceInvitationCreateInput,
+): Promise<InvitationView> {
+  const { actor: a } = await requireWorkspace(actor, workspaceId, 'workspace.invite');
+  await enforce(db(), `invite:${a.id}`, LIMITS.invitationsPerUser, 'invitations');
+  const { token, hash } = newToken();
+  const inv = await db()
+    .transaction()
+    .execute(async (trx) => {
+      const created = await insertInvitation(trx, {
+        workspaceId,
+        studyId: null,
+        email: input.email,
+        workspaceRole: input.role,
+        studyRole: null,
+        tokenHash: hash,
+        invitedBy: a.id,
+        expiresAt: expiry(),
+      });
+      await logActivity(trx, { workspaceId, actorId: a.id, action: 'invitation.created', details: { email: input.email, role: input.role } });
+      return created;
+    });
+  const roleSentence =
+    input.role === 'admin'
+      ? 'As a workspace admin you will manage its members and invitations.'
+      : 'As a workspace member you can create studies and join the ones you are invited to.';
+  await sendMail(invitationMail(input.email, a.name ?? a.email, `the workspace “${inv.workspaceName}”`, roleSentence, link(token)));
+  return view(inv);
+}
+
+export async function inviteToStudy(actor: Actor | null, studyId: string, input: StudyInvitationCreateInput): Promise<InvitationView> {
+  const { actor: a, study } = await requireStudy(actor, studyId, 'members.manage');
+  await enforce(db(), `invite:${a.id}`, LIMITS.invitationsPerUser, 'invitations');
+  const { token, hash } = newToken();
+  const inv = await db()
+    .transaction()
+    .execute(async (trx) => {
+      const created = await insertInvitation(trx, {
+        workspaceId: study.workspaceId,
+        studyId,
+        email: input.email,
+        workspaceRole: 'member',
+        studyRole: input.role,
+        tokenHash: hash,
+        invitedBy: a.id,
+        expiresAt: expiry(),
+      });
+      await logActivity(trx, { workspaceId: study.workspaceId, studyId, actorId: a.id, action: 'invitation.created', details: { email: input.email, role: input.role } });
+      return created;
+    });
+  await sendMail(
+    invitationMail(
+      input.email,
+      a.name ?? a.email,
+      `the study “${study.title}”`,
+      `Your role will be ${input.role}: ${STUDY_ROLE_DESCRIPTIONS[input.role].toLowerCase()}`,
+      link(token),
+    ),
+  );
+  return view(inv);
+}
+
+function link(token: string): string {
+  return new URL(`/invitations/${token}`, env().APP_URL).toString();
+}
+
+export async function listWorkspaceInvitations(actor: Actor | null, workspaceId: string): Promise<InvitationView[]> {
+  await requireWorkspace(actor, workspaceId, 'workspace.invite');
+  return (await listInvitations(db(), { workspaceId })).map(view);
+}
+
+export async function listStudyInvitations(actor: Actor | null, studyId: string): Promise<InvitationView[]> {
+  const { study } = await requireStudy(actor, studyId, 'members.manage');
+  return (await listInvitations(db(), { workspaceId: study.workspaceId, studyId })).map(view);
+}
+
+export async function revokeInvitation(actor: Actor | null, invitationId: string): Promise<void> {
+  const a = requireActor(actor);
+  if (!/^[0-9a-f-]{36}$/i.test(invitationId)) throw notFound('The invitation');
+  const inv = await findInvitationById(db(), invitationId);
+  if (!inv) throw notFound('The invitation');
+  const wsRole = await findMembership(db(), inv.workspaceId, a.id);
+  if (!wsRole) throw notFound('The invitation');
+  let allowed = canWorkspace(wsRole, 'workspace.invite');
+  if (!allowed && inv.studyId) {
+    const s = await findStudyForUser(db(), inv.studyId, a.id);
+    allowed = canStudy(s?.role, 'members.manage');
+  }
+  if (!allowed) throw forbidden('revoke this invitation');
+  if (!(await revokeInvitationRow(db(), invitationId))) {
+    throw new AppError('conflict', 'This invitation was already accepted or revoked.');
+  }
+  await logActivity(db(), { workspaceId: inv.workspaceId, studyId: inv.studyId, actorId: a.id, action: 'invitation.revoked', details: { email: inv.email } });
+}
+
+/** What the invitation page shows before accepting. Knowing the token is the permission. */
+export async function previewInvitation(token: string): Promise<InvitationView | undefined> {
+  if (token.length < 20 || token.length > 200) return undefined;
+  const inv = await findInvitationByTokenHash(db(), hashToken(token));
+  return inv && view(inv);
+}
+
+export async function acceptInvitation(actor: Actor | null, token: string): Promise<{ workspaceId: string; studyId: string | null }> {
+  const a = requireActor(actor);
+  const inv = await previewInvitation(token);
+  if (!inv) throw notFound('The invitation');
+  if (inv.state !== 'pending') {
+    throw new AppError('gone', inv.state === 'accepted' ? 'This invitation was already used.' : `This invitation is ${inv.state}. Ask for a new one.`);
+  }
+  if (inv.email !== a.email.toLowerCase()) {
+    throw new AppError('forbidden', `This invitation was sent to ${inv.email}. Sign in with that address to accept it.`);
+  }
+  return db()
+    .transaction()
+    .execute(async (trx) => {
+      const id = await claimInvitation(trx, hashToken(token), a.id);
+      if (!id) throw new AppError('gone', 'This invitation was already used.');
+      await upsertWorkspaceMember(trx, inv.workspaceId, a.id, inv.workspaceRole);
+      if (inv.studyId && inv.studyRole) await upsertStudyMember(trx, inv.studyId, a.id, inv.studyRole);
+      await logActivity(trx, {
+        workspaceId: inv.workspaceId,
+        studyId: inv.studyId,
+        actorId: a.id,
+        action: 'invitation.accepted',
+        details: { role: inv.studyRole ?? inv.workspaceRole },
+      });
+      return { workspaceId: inv.workspaceId, studyId: inv.studyId };
+    });
+}

@@ -1,0 +1,35 @@
+import 'server-only';
+import nodemailer, { type Transporter } from 'nodemailer';
+import { env } from '@/lib/env';
+
+/**
+ * Outgoing mail through any SMTP server (SMTP_HOST, SMTP_PORT, SMTP_SECURE, SMTP_USER,
+ * SMTP_PASSWORD). In development and tests these point at the local mail sink.
+ */
+let transporter: Transporter | undefined;
+
+function transport(): Transporter {
+  if (transporter) return transporter;
+  const e = env();
+  transporter = nodemailer.createTransport({
+    host: e.SMTP_HOST,
+    port: e.SMTP_PORT,
+    secure: e.SMTP_SECURE,
+    auth: e.SMTP_USER ? { user: e.SMTP_USER, pass: e.SMTP_PASSWORD ?? '' } : undefined,
+    // The local sink has no certificate; a real provider on port 587 upgrades with STARTTLS.
+    ignoreTLS: e.SMTP_HOST === '127.0.0.1' || e.SMTP_HOST === 'localhost',
+    connectionTimeout: 5_000,
+  });
+  return transporter;
+}
+
+export interface Mail {
+  to: string;
+  subject: string;
+  text: string;
+  html: string;
+}
+
+export async function sendMail(mail: Mail): Promise<void> {
+  await transport().sendMail({ from: env().MAIL_FROM, ...mail });
+}

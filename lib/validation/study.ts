@@ -1,0 +1,51 @@
+import { z } from 'zod';
+import { STUDY_STATUSES } from '@/db/schema';
+import { idSchema, text } from './common';
+
+export const studyCreateSchema = z
+  .object({
+    workspaceId: idSchema,
+    title: text('Title', 1, 200).meta({ example: 'Reading-support programme, randomised by classroom' }),
+    description: text('Description', 0, 2000).default(''),
+  })
+  .meta({ id: 'StudyCreate' });
+export type StudyCreateInput = z.infer<typeof studyCreateSchema>;
+
+export const studyUpdateSchema = studyCreateSchema
+  .pick({ title: true, description: true })
+  .partial()
+  .refine((v) => v.title !== undefined || v.description !== undefined, {
+    message: 'Send at least one of title or description.',
+  })
+  .meta({ id: 'StudyUpdate' });
+export type StudyUpdateInput = z.infer<typeof studyUpdateSchema>;
+
+export const STUDY_SORTS = ['title', 'status', 'role', 'updated', 'created'] as const;
+
+export const studyListQuerySchema = z
+  .object({
+    workspaceId: idSchema,
+    q: z.string().trim().max(200).optional(),
+    status: z.enum(['active', 'archived', 'all', ...STUDY_STATUSES]).default('active'),
+    sort: z.enum(STUDY_SORTS).default('updated'),
+    dir: z.enum(['asc', 'desc']).default('desc'),
+    page: z.coerce.number().int().min(1).max(10_000).default(1),
+    pageSize: z.coerce.number().int().min(1).max(100).default(20),
+  })
+  .meta({ id: 'StudyListQuery' });
+export type StudyListQuery = z.infer<typeof studyListQuerySchema>;
+
+export const studySchema = z
+  .object({
+    id: idSchema,
+    workspaceId: idSchema,
+    title: z.string(),
+    description: z.string(),
+    status: z.enum(STUDY_STATUSES),
+    currentRevision: z.number().int(),
+    role: z.enum(['owner', 'editor', 'consultant', 'writer', 'viewer']),
+    createdAt: z.string().meta({ format: 'date-time' }),
+    updatedAt: z.string().meta({ format: 'date-time' }),
+    archivedAt: z.string().nullable(),
+  })
+  .meta({ id: 'Study' });
