@@ -1,0 +1,22 @@
+import type { Metadata } from 'next';
+import { ConfirmEmail } from '@/components/auth/confirm-email';
+
+export const metadata: Metadata = { title: 'Confirm your e-mail address' };
+
+export default async function VerifyEmailPage({ searchParams }: { searchParams: Promise<{ token?: string }> }) {
+  const { token } = await searchParams;
+  return (
+    <>
+      <h1 className="text-2xl font-bold">Confirm your e-mail address</h1>
+      {token ? (
+        <div className="mt-4">
+          <ConfirmEmail token={token} />
+        </div>
+      ) : (
+        <p role="alert" className="mt-3 text-sm">
+          This link is incomplete. Open the link from the e-mail again.
+        </p>
+      )}
+    </>
+  );
+}

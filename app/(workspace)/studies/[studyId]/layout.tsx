@@ -1,0 +1,33 @@
+import Link from 'next/link';
+import type { ReactNode } from 'react';
+import { StudyTabs } from '@/components/studies/study-tabs';
+import { Badge } from '@/components/ui/badge';
+import { currentActor } from '@/lib/auth/session';
+import { getStudy } from '@/lib/data/studies';
+import { getWorkspace } from '@/lib/data/workspaces';
+import { load } from '@/lib/page-guard';
+
+export default async function StudyLayout({ children, params }: { children: ReactNode; params: Promise<{ studyId: string }> }) {
+  const { studyId } = await params;
+  const actor = await currentActor();
+  const study = await load(getStudy(actor, studyId), `/studies/${studyId}`);
+  const ws = await getWorkspace(actor, study.workspaceId);
+  return (
+    <div className="space-y-5">
+      <div>
+        <p className="text-sm">
+          <Link href={`/workspaces/${ws.id}`} className="text-brand underline">
+            {ws.name}
+          </Link>
+        </p>
+        <div className="mt-1 flex flex-wrap items-center gap-2">
+          <h1 className="text-2xl font-bold">{study.title}</h1>
+          <Badge tone="brand">Your role: {study.role}</Badge>
+          {study.status === 'archived' && <Badge>Archived</Badge>}
+        </div>
+      </div>
+      <StudyTabs studyId={study.id} />
+      <div>{children}</div>
+    </div>
+  );
+}

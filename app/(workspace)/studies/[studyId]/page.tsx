@@ -1,0 +1,96 @@
+import type { Metadata } from 'next';
+import { InvitationsList } from '@/components/members/invitations-list';
+import { InviteForm } from '@/components/members/invite-form';
+import { MembersList } from '@/components/members/members-list';
+import { StudyDetails } from '@/components/studies/study-details';
+import { ASSIGNABLE_STUDY_ROLES, canStudy, STUDY_ROLE_DESCRIPTIONS, STUDY_ROLE_LABELS } from '@/lib/auth/permissions';
+import { currentActor } from '@/lib/auth/session';
+import { getStudy, listStudyActivity } from '@/lib/data/studies';
+import { load } from '@/lib/page-guard';
+
+export const metadata: Metadata = { title: 'Study overview' };
+
+const ACTIVITY_WORDS: Record<string, string> = {
+  'study.created': 'created the study',
+  'study.updated': 'edited the study details',
+  'study.archived': 'archived the study',
+  'study.restored': 'restored the study',
+  'invitation.created': 'sent an invitation',
+  'invitation.accepted': 'accepted an invitation',
+  'invitation.revoked': 'revoked an invitation',
+  'member.role-changed': 'changed a member’s role',
+  'member.removed': 'removed a member',
+};
+
+export default async function StudyOverviewPage({ params }: { params: Promise<{ studyId: string }> }) {
+  const { studyId } = await params;
+  const actor = await currentActor();
+  const study = await load(getStudy(actor, studyId), `/studies/${studyId}`);
+  const activity = await listStudyActivity(actor, studyId);
+  const manage = canStudy(study.role, 'members.manage') && study.status !== 'archived';
+  const roleOptions = ASSIGNABLE_STUDY_ROLES.map((r) => ({ value: r, label: STUDY_ROLE_LABELS[r], description: STUDY_ROLE_DESCRIPTIONS[r] }));
+
+  return (
+    <div className="grid gap-8 lg:grid-cols-[1fr_22rem]">
+      <div className="space-y-8">
+        <section aria-labelledby="about-heading" className="rounded-lg border border-line bg-white p-5">
+          <h2 id="about-heading" className="mb-3 text-lg font-bold">
+            About this study
+          </h2>
+          <StudyDetails
+            study={study}
+            canEdit={canStudy(study.role, 'study.update')}
+            canArchive={canStudy(study.role, 'study.archive')}
+          />
+        </section>
+
+        <section aria-labelledby="team-heading" className="space-y-3">
+          <h2 id="team-heading" className="text-lg font-bold">
+            Team
+          </h2>
+          <MembersList
+            endpoint={`/api/v1/studies/${study.id}/members`}
+            queryKey={['study-members', study.id]}
+            canManage={manage}
+            roleOptions={roleOptions}
+            fixedRoles={['owner']}
+            selfId={actor!.id}
+          />
+        </section>
+
+        {manage && (
+          <section aria-labelledby="invite-heading" className="space-y-3 rounded-lg border border-line bg-white p-5">
+            <h2 id="invite-heading" className="text-lg font-bold">
+              Invite to this study
+            </h2>
+            <InviteForm
+              endpoint={`/api/v1/studies/${study.id}/invitations`}
+              roles={roleOptions}
+              defaultRole="consultant"
+              queryKey={['study-invitations', study.id]}
+            />
+            <h3 className="pt-2 text-base font-bold">Invitations</h3>
+            <InvitationsList endpoint={`/api/v1/studies/${study.id}/invitations`} queryKey={['study-invitations', study.id]} />
+          </section>
+        )}
+      </div>
+
+      <aside aria-labelledby="activity-heading" className="space-y-3">
+        <h2 id="activity-heading" className="text-lg font-bold">
+          Activity
+        </h2>
+        <ol className="space-y-2 text-sm">
+          {activity.map((a) => (
+            <li key={a.id} className="rounded-md border border-line bg-white px-3 py-2">
+              <span className="font-semibold">{a.actorName ?? a.actorEmail ?? 'Someone'}</span> {ACTIVITY_WORDS[a.action] ?? a.action}
+              <br />
+              <time dateTime={a.createdAt.toISOString()} className="text-xs text-muted">
+                {a.createdAt.toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}
+              </time>
+            </li>
+          ))}
+        </ol>
+      </aside>
+    </div>
+  );
+}

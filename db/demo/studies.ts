@@ -1,0 +1,42 @@
+/**
+ * The invented demo of PRODUCT.md: a research team at the fictional Harrow Vale Institute with
+ * three draft studies. All names, e-mail addresses and studies are made up.
+ */
+import type { StudyRole } from '../schema';
+
+export const DEMO_WORKSPACE = 'Harrow Vale Institute';
+
+export interface DemoStudy {
+  title: string;
+  description: string;
+  members: Record<string, StudyRole>;
+}
+
+const PRIYA = 'priya.nair@harrowvale.example';
+const TOM = 'tom.okafor@harrowvale.example';
+const LENA = 'lena.vogel@harrowvale.example';
+const SAM = 'sam.reyes@harrowvale.example';
+const ADA = 'ada.brennan@harrowvale.example';
+
+export const DEMO_ADMINS = [PRIYA];
+
+export const DEMO_STUDIES: DemoStudy[] = [
+  {
+    title: 'Reading-support programme, randomised by classroom',
+    description:
+      'Primary-school classrooms are randomised to a reading-support programme or usual teaching; reading scores are measured on each pupil at the end of the school year. The classroom is the unit of randomisation, the pupil the unit of measurement.',
+    members: { [PRIYA]: 'owner', [TOM]: 'editor', [LENA]: 'consultant', [SAM]: 'writer' },
+  },
+  {
+    title: 'Greenhouse trial of two growing substrates',
+    description:
+      'Two substrates are compared in a greenhouse. Each tray holds several plants and receives one substrate; several leaves are measured on each plant. Trays, plants and leaves are nested levels.',
+    members: { [PRIYA]: 'owner', [LENA]: 'consultant', [ADA]: 'viewer' },
+  },
+  {
+    title: 'Sleep timing and next-day reaction time',
+    description:
+      'Volunteers follow two sleep-timing schedules; reaction time is measured on each of 8 nights per volunteer. The nights of one volunteer are repeated measures, not independent units.',
+    members: { [PRIYA]: 'owner', [LENA]: 'consultant', [SAM]: 'writer' },
+  },
+];
