@@ -2,7 +2,7 @@
 
 import Link from 'next/link';
 import { usePathname } from 'next/navigation';
-import { useEffect, useRef } from 'react';
+import { useEffect, useRef, useState } from 'react';
 
 interface Item {
   id: string;
@@ -14,7 +14,12 @@ interface Item {
 export function WorkspaceSwitcher({ workspaces, currentId }: { workspaces: Item[]; currentId?: string }) {
   const pathname = usePathname();
   const fromPath = pathname.match(/^\/workspaces\/([0-9a-f-]{36})/)?.[1];
-  const active = workspaces.find((w) => w.id === (fromPath ?? currentId));
+  // On study pages the last workspace opened (remembered in a cookie) is the current one.
+  const [remembered, setRemembered] = useState<string | undefined>();
+  useEffect(() => {
+    setRemembered(document.cookie.match(/(?:^|; )uw-workspace=([0-9a-f-]{36})/)?.[1]);
+  }, [pathname]);
+  const active = workspaces.find((w) => w.id === (fromPath ?? currentId ?? remembered));
   const ref = useRef<HTMLDetailsElement>(null);
 
   useEffect(() => {

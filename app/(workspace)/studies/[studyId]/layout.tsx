@@ -1,6 +1,7 @@
 import Link from 'next/link';
 import type { ReactNode } from 'react';
 import { StudyTabs } from '@/components/studies/study-tabs';
+import { RememberWorkspace } from '@/components/workspace/remember-workspace';
 import { Badge } from '@/components/ui/badge';
 import { currentActor } from '@/lib/auth/session';
 import { getStudy } from '@/lib/data/studies';
@@ -14,6 +15,7 @@ export default async function StudyLayout({ children, params }: { children: Reac
   const ws = await getWorkspace(actor, study.workspaceId);
   return (
     <div className="space-y-5">
+      <RememberWorkspace id={ws.id} />
       <div>
         <p className="text-sm">
           <Link href={`/workspaces/${ws.id}`} className="text-brand underline">

@@ -1,10 +1,13 @@
 import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { defineConfig } from 'vitest/config';
 
+const root = path.dirname(fileURLToPath(import.meta.url));
+
 const alias = {
-  '@': path.resolve(__dirname),
+  '@': root,
   // `server-only` throws outside React Server Components; tests import server modules directly.
-  'server-only': path.resolve(__dirname, 'tests/support/empty.ts'),
+  'server-only': path.join(root, 'tests/support/empty.ts'),
 };
 
 export default defineConfig({
