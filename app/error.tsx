@@ -1,6 +1,7 @@
 'use client';
 
-import { useEffect, useState } from 'react';
+import { useRouter } from 'next/navigation';
+import { startTransition, useCallback, useEffect, useState } from 'react';
 import { Button } from '@/components/ui/button';
 
 /**
@@ -9,6 +10,14 @@ import { Button } from '@/components/ui/button';
  */
 export default function ErrorPage({ reset }: { error: Error & { digest?: string }; reset: () => void }) {
   const [dbDown, setDbDown] = useState<boolean | null>(null);
+  const router = useRouter();
+  // Fetch the page again from the server, then leave the error state.
+  const retry = useCallback(() => {
+    startTransition(() => {
+      router.refresh();
+      reset();
+    });
+  }, [router, reset]);
 
   useEffect(() => {
     let stopped = false;
@@ -17,7 +26,7 @@ export default function ErrorPage({ reset }: { error: Error & { digest?: string 
         const res = await fetch('/api/health', { cache: 'no-store' });
         if (stopped) return;
         if (res.ok) {
-          if (dbDown) reset();
+          if (dbDown) retry();
           setDbDown(false);
         } else {
           setDbDown(true);
@@ -32,7 +41,7 @@ export default function ErrorPage({ reset }: { error: Error & { digest?: string 
       stopped = true;
       clearInterval(timer);
     };
-  }, [dbDown, reset]);
+  }, [dbDown, retry]);
 
   return (
     <div id="main" className="mx-auto max-w-xl px-4 py-16">
@@ -43,7 +52,7 @@ export default function ErrorPage({ reset }: { error: Error & { digest?: string 
             ? 'Unitwise cannot reach its database right now. Nothing you saved is lost. This page retries every 5 seconds and comes back by itself.'
             : 'Something went wrong while loading this page. The error was logged. Try again.'}
         </p>
-        <Button className="mt-4" onClick={() => reset()}>
+        <Button className="mt-4" onClick={retry}>
           Try again
         </Button>
       </div>

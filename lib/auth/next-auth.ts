@@ -37,6 +37,13 @@ export const { handlers, signIn, signOut } = NextAuth(() => {
     adapter: KyselyAdapter(db() as never) as Adapter,
     secret: e.AUTH_SECRET,
     trustHost: true,
+    logger: {
+      // A wrong password is an expected outcome, not a server error worth a stack trace.
+      error(error) {
+        if (error.name === 'CredentialsSignin' || (error as { type?: string }).type === 'CredentialsSignin') return;
+        console.error('[auth]', error);
+      },
+    },
     session: { strategy: 'database', maxAge: SESSION_MAX_AGE_SECONDS, updateAge: 24 * 60 * 60 },
     pages: { signIn: '/sign-in', verifyRequest: '/sign-in/check-email', error: '/sign-in/problem' },
     providers: [
