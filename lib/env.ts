@@ -20,6 +20,7 @@ const serverSchema = z.object({
   SMTP_USER: z.string().optional(),
   SMTP_PASSWORD: z.string().optional(),
   MAIL_FROM: z.string().min(3).default('Unitwise <no-reply@unitwise.local>'),
+  TRUST_PROXY: z.enum(['true', 'false']).default('false'),
   /** Folder of the local mail sink. When set, the development outbox page is served. */
   OUTBOX_DIR: z.string().optional(),
 });

@@ -68,8 +68,14 @@ export async function enforce(db: Kysely<Database>, key: string, limit: Limit, w
   }
 }
 
-/** Client address as seen by the server; behind a proxy the first x-forwarded-for entry. */
+/**
+ * The client's address for per-network limits. X-Forwarded-For is written by the client unless a
+ * reverse proxy replaces it, so it is trusted only when TRUST_PROXY=true says such a proxy is in
+ * front. Otherwise every caller shares one network bucket; the per-address (e-mail) limits still
+ * apply to each account.
+ */
 export function clientIp(headers: Headers): string {
+  if (process.env.TRUST_PROXY !== 'true') return 'shared';
   const forwarded = headers.get('x-forwarded-for');
   if (forwarded) return forwarded.split(',')[0]!.trim();
   return headers.get('x-real-ip') ?? 'unknown';

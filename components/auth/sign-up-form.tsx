@@ -10,9 +10,9 @@ import { TextField } from '@/components/ui/field';
 import type { ActionState } from '@/lib/action-state';
 import { PASSWORD_MIN, signUpSchema, type SignUpInput } from '@/lib/validation/auth';
 
-export function SignUpForm() {
+export function SignUpForm({ callbackUrl }: { callbackUrl?: string }) {
   const [state, setState] = useState<ActionState | null>(null);
-  const form = useForm<SignUpInput>({ resolver: zodResolver(signUpSchema), defaultValues: { name: '', email: '', password: '' } });
+  const form = useForm<SignUpInput>({ resolver: zodResolver(signUpSchema), defaultValues: { name: '', email: '', password: '', callbackUrl } });
   const { errors, isSubmitting } = form.formState;
 
   const onSubmit = form.handleSubmit(async (values) => {
@@ -24,7 +24,7 @@ export function SignUpForm() {
       }
     }
     setState(result);
-    if (result.status === 'success') form.reset();
+    if (result.status === 'success') form.reset({ name: '', email: '', password: '', callbackUrl });
   });
 
   if (state?.status === 'success') return <FormStatus state={state} />;

@@ -27,7 +27,9 @@ export function FormStatus({ state }: { state: { status: string; message?: strin
   return (
     <div aria-live="polite" aria-atomic="true">
       {state?.message && (
-        <Alert tone={state.status === 'error' ? 'error' : state.status === 'success' ? 'success' : 'info'}>{state.message}</Alert>
+        <Alert live tone={state.status === 'error' ? 'error' : state.status === 'success' ? 'success' : 'info'}>
+          {state.message}
+        </Alert>
       )}
     </div>
   );

@@ -21,6 +21,7 @@ import { sendMail } from '@/lib/mail/send';
 import { alreadyRegisteredMail, resetPasswordMail, verifyEmailMail } from '@/lib/mail/templates';
 import { clientIp, consume, enforce, LIMITS } from '@/lib/rate-limit';
 import type { SignUpInput } from '@/lib/validation/auth';
+import { safeCallback } from '@/lib/action-state';
 import { burnComparison, COMMON_PASSWORD_MESSAGE, hashPassword, isCommonPassword, verifyPassword } from './password';
 import { hashToken, newToken, TOKEN_LIFETIME } from './tokens';
 
@@ -40,7 +41,7 @@ export async function createPersonalWorkspace(database: Kysely<Database>, userId
   await upsertWorkspaceMember(database, ws.id, userId, 'admin');
 }
 
-async function sendVerification(user: User): Promise<void> {
+async function sendVerification(user: User, callbackUrl?: string): Promise<void> {
   const { token, hash } = newToken();
   await insertEmailToken(db(), {
     userId: user.id,
@@ -48,7 +49,8 @@ async function sendVerification(user: User): Promise<void> {
     hash,
     expiresAt: new Date(Date.now() + TOKEN_LIFETIME.verifyEmailHours * 3600_000),
   });
-  await sendMail(verifyEmailMail(user.email, user.name ?? user.email, appUrl(`/verify-email?token=${token}`)));
+  const next = callbackUrl ? `&callbackUrl=${encodeURIComponent(safeCallback(callbackUrl))}` : '';
+  await sendMail(verifyEmailMail(user.email, user.name ?? user.email, appUrl(`/verify-email?token=${token}${next}`)));
 }
 
 export async function signUp(input: SignUpInput, headers: Headers): Promise<void> {
@@ -71,7 +73,7 @@ export async function signUp(input: SignUpInput, headers: Headers): Promise<void
       await logActivity(trx, { actorId: u.id, action: 'auth.sign-up' });
       return u;
     });
-  await sendVerification(user);
+  await sendVerification(user, input.callbackUrl);
 }
 
 export async function resendVerification(email: string): Promise<void> {

@@ -25,6 +25,8 @@ export const signUpSchema = z.object({
   name: text('Name', 1, 100),
   email: emailSchema,
   password: passwordSchema,
+  /** Where to go after the address is confirmed and the user signs in (an invitation, say). */
+  callbackUrl: z.string().max(500).optional(),
 });
 export type SignUpInput = z.infer<typeof signUpSchema>;
 

@@ -2,7 +2,7 @@
  * Sign-up, e-mail verification, password sign-in checks, password reset and the rate limits,
  * against the real database. Mail is captured in memory (tests/support/mail.ts).
  */
-import { describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it } from 'vitest';
 import { checkCredentials, requestPasswordReset, resetPassword, signUp, verifyEmail } from '@/lib/auth/accounts';
 import { db } from '@/lib/db';
 import { createDb } from '@/db/client';
@@ -101,7 +101,12 @@ describe('password reset', () => {
 });
 
 describe('rate limits kept in PostgreSQL', () => {
-  it('stops the sixth sign-up from one address within the hour', async () => {
+  afterEach(() => {
+    delete process.env.TRUST_PROXY;
+  });
+
+  it('stops the sixth sign-up from one address within the hour (behind a trusted proxy)', async () => {
+    process.env.TRUST_PROXY = 'true';
     for (let i = 0; i < LIMITS.signUpPerIp.limit; i++) {
       await signUp({ name: 'Bot', email: `bot${i}@test.example`, password: PASSWORD }, headers('198.51.100.1'));
     }
@@ -110,6 +115,15 @@ describe('rate limits kept in PostgreSQL', () => {
     });
     // Another network is unaffected.
     await expect(signUp({ name: 'Ada', email: 'ada@test.example', password: PASSWORD }, headers('198.51.100.2'))).resolves.toBeUndefined();
+  });
+
+  it('without a trusted proxy, a forged X-Forwarded-For does not escape the limit', async () => {
+    for (let i = 0; i < LIMITS.signUpPerIp.limit; i++) {
+      await signUp({ name: 'Bot', email: `bot${i}@test.example`, password: PASSWORD }, headers(`198.51.100.${i}`));
+    }
+    await expect(signUp({ name: 'Bot', email: 'bot99@test.example', password: PASSWORD }, headers('198.51.100.99'))).rejects.toMatchObject({
+      code: 'rate_limited',
+    });
   });
 
   it('locks password sign-in for an address after 10 attempts', async () => {

@@ -5,7 +5,9 @@ import { listMyWorkspaces } from '@/lib/data/workspaces';
 
 /** Opens the last workspace used, or the first one. */
 export default async function StudiesIndex() {
-  const workspaces = await listMyWorkspaces(await currentActor());
+  const actor = await currentActor();
+  if (!actor) redirect('/sign-in?callbackUrl=%2Fstudies');
+  const workspaces = await listMyWorkspaces(actor);
   const last = (await cookies()).get('uw-workspace')?.value;
   const target = workspaces.find((w) => w.id === last) ?? workspaces[0];
   if (!target) redirect('/workspaces/new');
