@@ -17,26 +17,17 @@ vi.mock('@/lib/mail/send', async () => {
   };
 });
 
-const TABLES = [
-  'rate_limits',
-  'activity_log',
-  'invitations',
-  'study_revisions',
-  'study_members',
-  'studies',
-  'workspace_members',
-  'workspaces',
-  'email_tokens',
-  'user_credentials',
-  '"VerificationToken"',
-  '"Session"',
-  '"Account"',
-  '"User"',
-];
+/** Every table of ours (the migration bookkeeping stays), listed from the catalogue. */
+async function tables(): Promise<string[]> {
+  const { rows } = await sql<{ name: string }>`
+    select format('%I', tablename) as name from pg_tables
+    where schemaname = 'public' and tablename not like 'kysely_%'`.execute(db());
+  return rows.map((r) => r.name);
+}
 
 beforeEach(async () => {
   sentMail.length = 0;
-  await sql.raw(`truncate ${TABLES.join(', ')} restart identity cascade`).execute(db());
+  await sql.raw(`truncate ${(await tables()).join(', ')} restart identity cascade`).execute(db());
 });
 
 afterAll(async () => {

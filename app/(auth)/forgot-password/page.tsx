@@ -1,5 +1,5 @@
 import type { Metadata } from 'next';
-import Link from 'next/link';
+import { BackToSignIn } from '@/components/auth/back-to-sign-in';
 import { ForgotPasswordForm } from '@/components/auth/forgot-password-form';
 
 export const metadata: Metadata = { title: 'Reset your password' };
@@ -10,11 +10,7 @@ export default function ForgotPasswordPage() {
       <h1 className="text-2xl font-bold">Reset your password</h1>
       <p className="mt-1 mb-6 text-sm text-muted">We will e-mail you a link to choose a new password.</p>
       <ForgotPasswordForm />
-      <p className="mt-4 text-sm">
-        <Link href="/sign-in" className="text-brand underline">
-          Back to sign-in
-        </Link>
-      </p>
+      <BackToSignIn />
     </>
   );
 }

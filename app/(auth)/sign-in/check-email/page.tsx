@@ -1,5 +1,5 @@
 import type { Metadata } from 'next';
-import Link from 'next/link';
+import { BackToSignIn } from '@/components/auth/back-to-sign-in';
 
 export const metadata: Metadata = { title: 'Check your inbox' };
 
@@ -11,11 +11,7 @@ export default function CheckEmailPage() {
         We have sent a sign-in link. It works once and expires in 15 minutes. You can close this tab; the link opens Unitwise
         signed in.
       </p>
-      <p className="mt-4 text-sm">
-        <Link href="/sign-in" className="text-brand underline">
-          Back to sign-in
-        </Link>
-      </p>
+      <BackToSignIn />
     </>
   );
 }

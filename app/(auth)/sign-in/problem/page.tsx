@@ -1,5 +1,5 @@
 import type { Metadata } from 'next';
-import Link from 'next/link';
+import { BackToSignIn } from '@/components/auth/back-to-sign-in';
 
 export const metadata: Metadata = { title: 'Sign-in problem' };
 
@@ -17,11 +17,7 @@ export default async function SignInProblemPage({ searchParams }: { searchParams
       <p role="alert" className="mt-3 text-sm">
         {MESSAGES[error ?? ''] ?? 'Something went wrong while signing in. Try again.'}
       </p>
-      <p className="mt-4 text-sm">
-        <Link href="/sign-in" className="text-brand underline">
-          Back to sign-in
-        </Link>
-      </p>
+      <BackToSignIn />
     </>
   );
 }
