@@ -137,6 +137,23 @@ export interface StudyRevisionTable {
   note: string | null;
   author_id: string | null;
   created_at: Generated<Date>;
+  /** Findings and recommendation computed from this design when it was saved. */
+  checks: ColumnType<unknown | null, string | null | undefined, string | null>;
+}
+
+export const FINDING_NOTE_STATUSES = ['addressed', 'reopened'] as const;
+export type FindingNoteStatus = (typeof FINDING_NOTE_STATUSES)[number];
+
+export interface FindingNoteTable {
+  id: Generated<string>;
+  study_id: string;
+  rule_id: string;
+  finding_key: string;
+  status: FindingNoteStatus;
+  reason: string;
+  revision_number: number;
+  actor_id: string | null;
+  created_at: Generated<Date>;
 }
 
 export interface ActivityTable {
@@ -171,6 +188,7 @@ export interface Database {
   study_revisions: StudyRevisionTable;
   activity_log: ActivityTable;
   rate_limits: RateLimitTable;
+  finding_notes: FindingNoteTable;
 }
 
 export type UserRow = Selectable<UserTable>;

@@ -4,7 +4,9 @@
  */
 import type { Migration } from 'kysely';
 import * as foundation from './20261201T100000_foundation';
+import * as designChecks from './20261201T230000_design_checks';
 
 export const migrations: Record<string, Migration> = {
   '20261201T100000_foundation': foundation,
+  '20261201T230000_design_checks': designChecks,
 };

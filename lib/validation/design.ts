@@ -1,0 +1,28 @@
+import { z } from 'zod';
+import { FINDING_NOTE_STATUSES } from '@/db/schema';
+import { designSchema } from '@/lib/design/schema';
+import { text } from './common';
+
+export const designSaveSchema = z
+  .object({
+    /** The revision the edit started from; a save against an older one is merged or refused. */
+    baseRevision: z.number({ error: 'baseRevision must be a number.' }).int().min(0),
+    design: designSchema,
+    note: text('Note', 0, 500).optional(),
+  })
+  .meta({ id: 'DesignSave' });
+export type DesignSaveInput = z.infer<typeof designSaveSchema>;
+
+export const checkRunSchema = z
+  .object({ design: designSchema.optional() })
+  .meta({ id: 'CheckRun', description: 'Leave out `design` to check the saved design.' });
+
+export const findingNoteSchema = z
+  .object({
+    ruleId: z.string().regex(/^[a-z0-9-]{1,60}$/, 'Unknown rule id.'),
+    key: z.string().min(1).max(200),
+    status: z.enum(FINDING_NOTE_STATUSES, { error: 'Choose addressed or reopened.' }),
+    reason: text('Reason', 1, 2000),
+  })
+  .meta({ id: 'FindingNote' });
+export type FindingNoteInput = z.infer<typeof findingNoteSchema>;
