@@ -1,0 +1,45 @@
+/**
+ * The published methods the rules cite. `full` keeps what PRODUCT.md gives (its note: titles
+ * from memory, verify details before citing); nothing is added except the titles of two books
+ * PRODUCT.md names without one. The last group is outside PRODUCT.md's list: three standard
+ * references the list has no entry for (multiplicity, GLM families, extrapolation). Verify all
+ * of them before a reference list is exported.
+ */
+import type { Citation } from './types';
+
+const cite = (short: string, full: string): Citation => ({ short, full });
+
+export const KISH_1965 = cite('Kish 1965', 'Kish (1965). Survey Sampling.');
+export const ELDRIDGE_2006 = cite('Eldridge, Ashby & Kerry 2006', 'Eldridge, Ashby & Kerry (2006). Int J Epidemiol 35:1292.');
+export const DONNER_KLAR_2000 = cite('Donner & Klar 2000', 'Donner & Klar (2000). Design and Analysis of Cluster Randomization Trials in Health Research.');
+export const HAYES_MOULTON_2017 = cite('Hayes & Moulton 2017', 'Hayes & Moulton (2017). Cluster Randomised Trials (2nd ed.).');
+export const RAUDENBUSH_1997 = cite('Raudenbush 1997', 'Raudenbush (1997). Psychol Methods 2:173.');
+export const HURLBERT_1984 = cite('Hurlbert 1984', 'Hurlbert (1984). Ecol Monogr 54:187.');
+export const LAZIC_2010 = cite('Lazic 2010', 'Lazic (2010). BMC Neurosci 11:5.');
+export const FRISON_POCOCK_1992 = cite('Frison & Pocock 1992', 'Frison & Pocock (1992). Stat Med 11:1685.');
+export const VICKERS_ALTMAN_2001 = cite('Vickers & Altman 2001', 'Vickers & Altman (2001). BMJ 323:1123.');
+export const DIGGLE_2002 = cite('Diggle et al. 2002', 'Diggle, Heagerty, Liang & Zeger (2002). Analysis of Longitudinal Data (2nd ed.).');
+export const FLEISS_2003 = cite('Fleiss, Levin & Paik 2003', 'Fleiss, Levin & Paik (2003).');
+export const MORRIS_2019 = cite('Morris, White & Crowther 2019', 'Morris, White & Crowther (2019). Stat Med 38:2074.');
+export const MACKINNON_WHITE_1985 = cite('MacKinnon & White 1985', 'MacKinnon & White (1985).');
+export const BELL_MCCAFFREY_2002 = cite('Bell & McCaffrey 2002', 'Bell & McCaffrey (2002).');
+export const PUSTEJOVSKY_TIPTON_2018 = cite('Pustejovsky & Tipton 2018', 'Pustejovsky & Tipton (2018).');
+export const BATES_2015 = cite('Bates et al. 2015', 'Bates, Mächler, Bolker & Walker (2015). J Stat Softw 67(1).');
+export const SATTERTHWAITE_1946 = cite('Satterthwaite 1946', 'Satterthwaite (1946).');
+export const KENWARD_ROGER_1997 = cite('Kenward & Roger 1997', 'Kenward & Roger (1997). Biometrics 53:983.');
+export const LIANG_ZEGER_1986 = cite('Liang & Zeger 1986', 'Liang & Zeger (1986). Biometrika 73:13.');
+export const HUBER_1964 = cite('Huber 1964', 'Huber (1964). Ann Math Stat 35:73.');
+export const SENN_2002 = cite('Senn 2002', 'Senn (2002). Cross-over Trials in Clinical Research (2nd ed.).');
+export const SPIRIT_2013 = cite('SPIRIT 2013', 'SPIRIT 2013 statement, item 14 (sample size).');
+export const CONSORT_CLUSTER_2010 = cite('CONSORT 2010 cluster extension', "CONSORT 2010 statement: extension to cluster randomised trials, item 7a.");
+
+// Outside PRODUCT.md's list (standard references for points the list does not cover).
+export const HOLM_1979 = cite('Holm 1979', 'Holm (1979). A simple sequentially rejective multiple test procedure. Scand J Statist 6:65.');
+export const MCCULLAGH_NELDER_1989 = cite('McCullagh & Nelder 1989', 'McCullagh & Nelder (1989). Generalized Linear Models (2nd ed.).');
+export const GELMAN_HILL_2007 = cite('Gelman & Hill 2007', 'Gelman & Hill (2007). Data Analysis Using Regression and Multilevel/Hierarchical Models.');
+
+/** Citations in first-seen order, each once. */
+export function uniqueCitations(list: readonly Citation[]): Citation[] {
+  const seen = new Set<string>();
+  return list.filter((c) => (seen.has(c.short) ? false : (seen.add(c.short), true)));
+}

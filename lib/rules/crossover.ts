@@ -1,0 +1,86 @@
+/**
+ * Cross-over designs: every unit receives the arms in sequence, so period effects and carry-over
+ * from one period into the next threaten the within-unit comparison.
+ *
+ * Triggers (cross-over enabled):
+ * - `carry-over` (warning): carry-over marked possible, or no washout described (or one that
+ *   reads as none). A 2-period cross-over cannot separate carry-over from the treatment × period
+ *   interaction and from sequence-group differences; the preliminary carry-over test has low
+ *   power and choosing the analysis by its result distorts the false-positive rate, so the remedy
+ *   is a washout (or a run-in discarded from the analysis), not a test (Senn 2002).
+ * - `period` (advice): include period as a fixed effect and balance the sequences (Senn 2002).
+ */
+import { SENN_2002 } from './citations';
+import { designFacts } from './facts';
+import { modelPlan } from './model';
+import { treatmentName } from './phrases';
+import { cap, count, list, noun, num, numbers } from './text';
+import type { Finding, Rule } from './types';
+
+const ID = 'crossover';
+
+/** A washout text that says there is none ("None planned", "no washout", "0 days"). */
+function saysNone(text: string): boolean {
+  return /^\s*(none|no|nil|0)\b/i.test(text) || /\bno washout\b|\bwithout (a )?washout\b|\bnone planned\b/i.test(text);
+}
+
+export const crossover: Rule = {
+  id: ID,
+  title: 'Cross-over: period effects and carry-over',
+  severity: 'warning',
+  check(design) {
+    const c = design.assignment.crossover;
+    if (!c.enabled) return [];
+    const f = designFacts(design);
+    const E = f.eu;
+    const who = E ? noun(E.level) : 'unit';
+    const whoPlural = E ? noun(E.level, true) : 'units';
+    const units = E ? count(E.total, E.level) : 'the units';
+    const arms = design.assignment.arms.map((a) => a.name);
+    const armsText = arms.length === 2 ? `both arms (${list(arms)})` : arms.length > 2 ? `all ${arms.length} arms (${list(arms)})` : 'each arm';
+    const model = modelPlan(design).formula;
+    const out: Finding[] = [];
+
+    const washout = c.washout?.trim();
+    const noWashout = !washout || saysNone(washout);
+    if (c.carryoverPossible === true || noWashout) {
+      out.push({
+        ruleId: ID,
+        key: 'carry-over',
+        severity: 'warning',
+        title: noWashout ? 'Cross-over without a washout' : 'Carry-over possible between periods',
+        found:
+          `Each ${who} receives ${armsText} over ${num(c.periods)} periods` +
+          (washout ? `; the washout is described as "${washout}"` : '; no washout is described') +
+          (c.carryoverPossible === true ? ', and carry-over is marked as possible.' : '.'),
+        why:
+          `If the effect of the first period's arm lasts into the next, the within-${who} comparison of ${treatmentName(design)} is biased. ` +
+          `${c.periods === 2 ? 'In a two-period cross-over, carry-over cannot be separated from the treatment × period interaction or from differences between the sequence groups. ' : ''}` +
+          `A preliminary test for carry-over has little power, and choosing the analysis by its result distorts the false-positive rate (Senn 2002): the protection lies in the design, not in a test.`,
+        todo:
+          `Plan a washout long enough for the effect to wear off and justify its length from what is known about ${treatmentName(design)}; if a gap is not possible, treat the first measurements of each period as a run-in and leave them out of the primary analysis. ` +
+          `Do not rely on a test for carry-over to choose the analysis.`,
+        numbers: numbers({ periods: c.periods }),
+        citations: [SENN_2002],
+        levelIds: E ? [E.level.id] : undefined,
+      });
+    }
+
+    out.push({
+      ruleId: ID,
+      key: 'period',
+      severity: 'advice',
+      title: 'Include period in the cross-over analysis',
+      found: `${cap(units)} each receive ${armsText} in ${num(c.periods)} periods.`,
+      why:
+        `Outcomes can drift between periods whatever the arm — practice with the task, season, fatigue, growing familiarity with the setting. ` +
+        `With the sequences balanced, a period effect does not bias the comparison if period is in the model; left out, it adds to the error variance (Senn 2002).`,
+      todo: `Randomise ${whoPlural} to the sequences in equal numbers and include period as a fixed effect, with ${who} as a random intercept: \`${model}\`.`,
+      model,
+      numbers: numbers({ periods: c.periods, units: E?.total, sequences: arms.length === 2 && c.periods === 2 ? 2 : undefined }),
+      citations: [SENN_2002],
+      levelIds: E ? [E.level.id] : undefined,
+    } satisfies Finding);
+    return out;
+  },
+};

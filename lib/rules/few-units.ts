@@ -1,0 +1,141 @@
+/**
+ * Too few units at the level of assignment: for the comparison itself, for estimating the
+ * variance between them, and for the large-sample methods the plan relies on.
+ *
+ * Triggers (one finding each):
+ * - `per-arm`: fewer than 10 experimental units in the smallest arm (fewer than 5: severely
+ *   small); in a cross-over or within-unit design, fewer than 10 units in all. Common practice,
+ *   not a published threshold.
+ * - `variance`: the experimental units group observations and there are fewer than 10 of them in
+ *   all: their variance component rests on very few degrees of freedom and often comes out as 0
+ *   (a "singular" fit). Common practice.
+ * - `robust-se`: GEE or cluster-robust standard errors with fewer than about 40–50 clusters: the
+ *   ordinary sandwich estimator is biased downward; use the CR2 bias-reduced estimator with
+ *   Satterthwaite degrees of freedom (Bell & McCaffrey 2002; Pustejovsky & Tipton 2018). With CR2
+ *   already planned, advice to pair it with Satterthwaite df.
+ * - `df`: a mixed model on fewer than about 40 experimental units with residual degrees of
+ *   freedom: use Satterthwaite (1946) or Kenward–Roger (1997) df; a GLMM uses between-within df
+ *   (units minus the parameters estimated between units). The cut-off of about 40 is common
+ *   practice (`FEW_CLUSTERS`).
+ * Quantified: units per arm, the degrees of freedom between units (units − arms) against the
+ * residual df of an analysis of every observation (N − arms).
+ */
+import { BELL_MCCAFFREY_2002, DONNER_KLAR_2000, HAYES_MOULTON_2017, KENWARD_ROGER_1997, PUSTEJOVSKY_TIPTON_2018, RAUDENBUSH_1997, SATTERTHWAITE_1946 } from './citations';
+import { designFacts, FEW_CLUSTERS, unitsPerArm } from './facts';
+import { assignedVerb, treatmentName, unitsWithArms } from './phrases';
+import { ASK_STATISTICIAN, cap, count, noun, num, numbers } from './text';
+import type { Finding, Rule } from './types';
+
+const ID = 'few-units';
+
+export const fewUnits: Rule = {
+  id: ID,
+  title: 'Too few units at the level of assignment',
+  severity: 'warning',
+  check(design) {
+    const f = designFacts(design);
+    const E = f.eu;
+    if (!E || !f.assignment) return [];
+    const out: Finding[] = [];
+    const arms = design.assignment.arms.length;
+    const perArm = unitsPerArm(f);
+    const a = design.analysis;
+    const units = count(E.total, E.level);
+    const betweenDf = Math.max(0, E.total - Math.max(arms, 1));
+    const clustered = E.groupsObservations;
+
+    // per arm
+    const n = f.withinUnit ? E.total : perArm;
+    if (n !== undefined && n < 10 && (f.withinUnit || arms >= 2)) {
+      const severe = n < 5;
+      out.push({
+        ruleId: ID,
+        key: 'per-arm',
+        severity: 'warning',
+        title: severe ? `Very few ${noun(E.level, true)}: ${num(n)} ${f.withinUnit ? 'in all' : 'per arm'}` : `Few ${noun(E.level, true)}: ${num(n)} ${f.withinUnit ? 'in all' : 'per arm'}`,
+        found: f.withinUnit
+          ? `Every ${noun(E.level)} receives each arm in turn, and there are ${units}.`
+          : `${cap(treatmentName(design))} ${assignedVerb(design)} to ${unitsWithArms(f, E, perArm)}.`,
+        why:
+          `The comparison rests on the ${units}, not on the ${num(f.totalObs)} observations${clustered ? ` inside them` : ''}. ` +
+          `With ${num(n)} ${f.withinUnit ? noun(E.level, true) : `${noun(E.level, true)} per arm`}, one unusual ${noun(E.level)} moves the result, randomisation balances ${noun(E.level)}-level differences poorly, ` +
+          `and methods that rely on large samples (z tests, sandwich standard errors) are unreliable. ` +
+          `${severe ? 'Fewer than 5 per arm is severely small: any result will be fragile. ' : ''}` +
+          `Fewer than 10 ${f.withinUnit ? 'units' : 'units per arm'} is commonly treated as small (a threshold from common practice, not from a published source).`,
+        todo:
+          `Add ${noun(E.level, true)} if at all possible${clustered ? ` — once the design effect is large, more ${noun(E.level, true)} help far more than more observations per ${noun(E.level)} (Raudenbush 1997 gives the best size per ${noun(E.level)} under a budget)` : ''}. ` +
+          `Analyse with small-sample degrees of freedom (Kenward–Roger or Satterthwaite), consider a randomisation (permutation) test as a sensitivity analysis, and report the result as exploratory if the numbers cannot grow. ${ASK_STATISTICIAN}`,
+        numbers: numbers({ unitsPerArm: f.withinUnit ? undefined : n, experimentalUnits: E.total, betweenUnitDf: betweenDf }),
+        citations: [HAYES_MOULTON_2017, DONNER_KLAR_2000, RAUDENBUSH_1997],
+        levelIds: [E.level.id],
+      });
+    }
+
+    // variance component of the experimental units
+    if (clustered && E.total < 10) {
+      out.push({
+        ruleId: ID,
+        key: 'variance',
+        severity: 'warning',
+        title: `Too few ${noun(E.level, true)} to estimate their variance`,
+        found: `There are ${units} in all, each holding about ${num(Math.round(E.obsPerUnit * 10) / 10)} observations.`,
+        why:
+          `A random intercept for ${noun(E.level)} estimates the variance between ${noun(E.level, true)} from ${num(E.total)} values, leaving about ${num(betweenDf)} degrees of freedom once the arms are fitted. ` +
+          `Such an estimate is very imprecise and often comes out as exactly 0 (a "singular" fit), which makes the model behave like one that ignores the clustering. ` +
+          `Fewer than about 10 units is a common-practice warning sign, not a published bound.`,
+        todo: `Add ${noun(E.level, true)}; otherwise analyse ${noun(E.level)} means (a t-test on ${num(E.total)} means with ${num(betweenDf)} df is honest about the little information there is) and show the ICC you assume rather than estimating it. ${ASK_STATISTICIAN}`,
+        numbers: numbers({ experimentalUnits: E.total, betweenUnitDf: betweenDf }),
+        citations: [HAYES_MOULTON_2017, DONNER_KLAR_2000],
+        levelIds: [E.level.id],
+      });
+    }
+
+    // sandwich standard errors with few clusters
+    const robust = a.method === 'gee' || a.standardErrors === 'cluster-robust' || a.standardErrors === 'cr2';
+    if (robust && (clustered || f.withinUnit) && E.total < FEW_CLUSTERS) {
+      const cr2 = a.standardErrors === 'cr2';
+      if (!cr2 || a.dfMethod !== 'satterthwaite') {
+        out.push({
+          ruleId: ID,
+          key: 'robust-se',
+          severity: cr2 ? 'advice' : 'warning',
+          title: cr2 ? 'Pair CR2 standard errors with Satterthwaite degrees of freedom' : `Cluster-robust standard errors with only ${units}`,
+          found: `The plan uses ${a.method === 'gee' ? 'GEE with sandwich' : cr2 ? 'CR2' : 'cluster-robust'} standard errors, clustered on ${units}.`,
+          why:
+            `Sandwich (cluster-robust) standard errors are justified as the number of clusters grows; with fewer than about 40–50 clusters (common practice) the usual version is too small and the test's false-positive rate exceeds the nominal level. ` +
+            `The bias-reduced CR2 estimator with Satterthwaite degrees of freedom keeps the test close to its nominal level with few clusters (Bell & McCaffrey 2002; Pustejovsky & Tipton 2018).`,
+          todo: `Use CR2 standard errors with Satterthwaite degrees of freedom (about ${num(betweenDf)} or fewer here, not a normal reference distribution). ${ASK_STATISTICIAN}`,
+          numbers: numbers({ clusters: E.total, betweenUnitDf: betweenDf }),
+          citations: [BELL_MCCAFFREY_2002, PUSTEJOVSKY_TIPTON_2018],
+          levelIds: [E.level.id],
+        });
+      }
+    }
+
+    // degrees of freedom of a mixed model
+    if ((a.method === 'mixed-model' || a.method === 'glmm') && (clustered || f.withinUnit) && E.total < FEW_CLUSTERS && a.dfMethod === 'residual') {
+      const glmm = a.method === 'glmm';
+      const residualDf = Math.max(0, f.totalObs - Math.max(arms, 1));
+      out.push({
+        ruleId: ID,
+        key: 'df',
+        severity: 'warning',
+        title: `Use small-sample degrees of freedom for ${units}`,
+        found: `The mixed model compares arms across ${units} but plans residual degrees of freedom (${num(residualDf)}, from ${num(f.totalObs)} observations).`,
+        why:
+          `The information about ${treatmentName(design)} comes from the ${units}, so its test has roughly ${num(betweenDf)} degrees of freedom, not ${num(residualDf)}. ` +
+          `Residual df (or a normal reference distribution) make the test too liberal when there are fewer than about 40–50 units (common practice). ` +
+          (glmm
+            ? 'For a generalised linear mixed model, between-within degrees of freedom (units minus parameters estimated between units) are the practical choice.'
+            : 'Satterthwaite (1946) and Kenward–Roger (1997) approximations give the right reference distribution; Kenward–Roger also corrects the standard error for small samples.'),
+        todo: glmm
+          ? `Use between-within degrees of freedom (about ${num(betweenDf)}). ${ASK_STATISTICIAN}`
+          : `Use Kenward–Roger degrees of freedom with REML (or Satterthwaite) for the test of ${treatmentName(design)}. ${ASK_STATISTICIAN}`,
+        numbers: numbers({ experimentalUnits: E.total, betweenUnitDf: betweenDf, residualDf }),
+        citations: glmm ? [HAYES_MOULTON_2017] : [KENWARD_ROGER_1997, SATTERTHWAITE_1946],
+        levelIds: [E.level.id],
+      });
+    }
+    return out;
+  },
+};

@@ -1,0 +1,64 @@
+/**
+ * Binary, count or proportion outcomes analysed with a linear model on the original scale.
+ *
+ * Triggers: outcome type binary, count or proportion, and the planned method is not a GLM, GLMM
+ * or GEE (which take a family). Warning when a plan is given, advice while it is not.
+ * A wrong family inside a GLM is the blocker of `analysis-mismatch`.
+ *
+ * The remedy: a generalised linear model with the family and link of the outcome — binomial
+ * with logit link for binary outcomes and for k-of-n proportions, Poisson with log link for
+ * counts (negative binomial or an observation-level random effect when overdispersed), beta
+ * regression for continuous proportions (McCullagh & Nelder 1989; proportions: Fleiss, Levin &
+ * Paik 2003); with clustering a GLMM (Bates et al. 2015) or GEE (Liang & Zeger 1986), whose
+ * effects are cluster-specific and population-averaged respectively.
+ */
+import { BATES_2015, FLEISS_2003, LIANG_ZEGER_1986, MCCULLAGH_NELDER_1989 } from './citations';
+import { designFacts } from './facts';
+import { familyFor, modelPlan, randomLevels } from './model';
+import { outcomeName, plannedMethod } from './phrases';
+import { cap, noun } from './text';
+import type { Rule } from './types';
+
+const ID = 'outcome-family';
+
+const WHY = {
+  binary:
+    'A binary outcome has variance p(1 − p), tied to its mean; a linear model assumes constant variance and can predict probabilities below 0 or above 1. A logistic model (binomial family, logit link) keeps predictions between 0 and 1 and reports the effect as an odds ratio.',
+  count:
+    'Counts are whole numbers from 0 up whose variance grows with the mean (equal to it in a Poisson model, often larger: overdispersion). A linear model misstates that variance and can predict negative counts. A Poisson model with a log link reports the effect as a rate ratio; if the variance clearly exceeds the mean, use a negative binomial model or an observation-level random effect.',
+  proportion:
+    'A proportion of k successes out of n is binomial: its variance p(1 − p)/n depends on the mean and on n. Model the successes out of the trials with a binomial family and logit link (n as the number of trials), which reports odds ratios and weights each proportion by its n; for continuous proportions (such as percentage cover) use beta regression.',
+} as const;
+
+export const outcomeFamily: Rule = {
+  id: ID,
+  title: 'Binary, count or proportion outcome',
+  severity: 'warning',
+  check(design) {
+    const type = design.outcome.type;
+    if (type !== 'binary' && type !== 'count' && type !== 'proportion') return [];
+    const m = design.analysis.method;
+    if (m === 'glm' || m === 'glmm' || m === 'gee') return [];
+    const f = designFacts(design);
+    const fam = familyFor(design)!;
+    const clustered = randomLevels(f);
+    const plan = m !== undefined;
+    return [
+      {
+        ruleId: ID,
+        key: type,
+        severity: plan ? 'warning' : 'advice',
+        title: `The outcome is ${type === 'binary' ? 'binary' : type === 'count' ? 'a count' : 'a proportion'}: use a model with the matching family`,
+        found: `${cap(outcomeName(design))} is ${type === 'binary' ? 'binary (yes or no)' : type === 'count' ? 'a count' : 'a proportion'}${plan ? `, and ${plannedMethod(design)} models its mean on a linear scale with constant variance` : ''}.`,
+        why:
+          WHY[type] +
+          (clustered.length > 0
+            ? ` With the clustering in this design, use a generalised linear mixed model (random intercept for ${clustered.map((l) => noun(l.level)).join(' and ')}) or GEE with robust standard errors: mixed-model effects are specific to a ${noun(clustered[0]!.level)}, GEE effects are averaged over the population — choose the one that answers the question.`
+            : ''),
+        todo: `Use a ${clustered.length > 0 ? 'generalised linear mixed model' : 'generalised linear model'} with the ${fam.family} family and ${fam.link} link: \`${modelPlan(design).formula}\`, and report the effect on the scale of the link (${fam.link === 'logit' ? 'odds ratio' : 'rate ratio'}) together with absolute ${type === 'count' ? 'rates' : 'risks'}.`,
+        model: modelPlan(design).formula,
+        citations: [MCCULLAGH_NELDER_1989, BATES_2015, LIANG_ZEGER_1986, ...(type === 'proportion' || type === 'binary' ? [FLEISS_2003] : [])],
+      },
+    ];
+  },
+};

@@ -1,0 +1,70 @@
+/**
+ * Phrases several findings share, built from the design: the treatment's name, the planned
+ * method, the ICC as a figure or a range. Kept here so the findings word things the same way.
+ */
+import type { Analysis, Design } from '@/lib/design/schema';
+import type { DesignFacts, LevelInfo } from './facts';
+import { count, dec, noun, num } from './text';
+
+const METHOD_NAMES: Record<NonNullable<Analysis['method']>, string> = {
+  't-test': 't-test',
+  'linear-regression': 'linear regression',
+  ancova: 'ANCOVA',
+  'mixed-model': 'mixed model',
+  gee: 'GEE analysis (generalised estimating equations)',
+  'cluster-means': 'analysis of cluster means',
+  glm: 'generalised linear model',
+  glmm: 'generalised linear mixed model',
+  'robust-regression': 'robust regression',
+  other: 'analysis',
+};
+
+/** "the planned t-test", or "the planned analysis" when no method is chosen yet. */
+export function plannedMethod(design: Design): string {
+  return `the planned ${design.analysis.method ? METHOD_NAMES[design.analysis.method] : 'analysis'}`;
+}
+
+export function methodName(method: NonNullable<Analysis['method']>): string {
+  return METHOD_NAMES[method];
+}
+
+/** "the reading-support programme", "the treatment" when unnamed. */
+export function treatmentName(design: Design): string {
+  const v = design.assignment.variableName ?? design.outcome.explanatoryVariables.find((x) => x.role === 'treatment' || x.role === 'exposure')?.name;
+  if (!v) return design.assignment.kind === 'observed' || design.assignment.kind === 'continuous' ? 'the exposure' : 'the treatment';
+  const lower = v.length > 1 && v[1] === v[1]!.toLowerCase() ? v[0]!.toLowerCase() + v.slice(1) : v;
+  return `the ${lower}`;
+}
+
+/** "reading score", "the outcome" when unnamed. */
+export function outcomeName(design: Design): string {
+  const n = design.outcome.name;
+  if (!n) return 'the outcome';
+  return n.length > 1 && n[1] === n[1]!.toLowerCase() ? n[0]!.toLowerCase() + n.slice(1) : n;
+}
+
+/** "assigned" for randomised designs, "varies" for observed exposures. */
+export function assignedVerb(design: Design): string {
+  return design.assignment.kind === 'randomised' || design.assignment.kind === undefined ? 'is assigned' : 'varies';
+}
+
+/** "20 classrooms (10 per arm)". */
+export function unitsWithArms(f: DesignFacts, L: LevelInfo, perArm: number | undefined): string {
+  return perArm !== undefined && !f.withinUnit && f.design.assignment.arms.length >= 2 ? `${count(L.total, L.level)} (${num(perArm)} per arm)` : count(L.total, L.level);
+}
+
+/** "25 pupils per classroom" (average per parent of the level below). */
+export function perUnit(child: LevelInfo, parent: LevelInfo): string {
+  return `${num(child.perParent)} ${noun(child.level, child.perParent !== 1)} per ${noun(parent.level)}`;
+}
+
+/** The two ends of a range: "1.2 to 5.8". */
+export function range(lo: number, hi: number, digits = 1): string {
+  return `${dec(lo, digits)} to ${dec(hi, digits)}`;
+}
+
+/** "an expert guess with low certainty", "a published source", for an assumption's source. */
+export function sourcePhrase(source: Design['assumptions']['iccs'][number]['source']): string {
+  const kind = { published: 'a published source', pilot: 'a pilot study', expert: 'an expert guess', none: 'no stated source' }[source.kind];
+  return `${kind}, with ${source.certainty} certainty`;
+}

@@ -1,0 +1,379 @@
+/**
+ * Every rule against designs that must trigger it and designs that must not (the demo designs
+ * and small variants of them), and the demo designs' findings as a whole.
+ */
+import { describe, expect, it } from 'vitest';
+import type { Design } from '@/lib/design/schema';
+import {
+  classroom,
+  classroomMixed,
+  classroomNoPlan,
+  empty,
+  greenhouse,
+  longitudinal,
+  miceInCages,
+  narrowDose,
+  outcomeOnly,
+  parallelNights,
+  pupilsInClassrooms,
+  simple,
+  sleep,
+  twins,
+  variant,
+} from './__fixtures__/designs';
+import { RULES, runChecks } from './registry';
+import type { Severity } from './types';
+
+type Case = [label: string, design: Design, expect?: { key?: string; severity?: Severity }];
+
+interface RuleCases {
+  fires: Case[];
+  silent: Case[];
+}
+
+const CASES: Record<string, RuleCases> = {
+  'unit-of-analysis': {
+    fires: [
+      ['classroom demo (t-test per pupil)', classroom, { key: 'classroom', severity: 'blocker' }],
+      ['greenhouse demo (regression per leaf)', greenhouse, { key: 'tray', severity: 'blocker' }],
+      ['volunteers assigned, t-test on nights', parallelNights, { key: 'volunteer', severity: 'blocker' }],
+      ['classroom, no unit of analysis named', variant(classroom, (d) => { delete d.analysis.unitOfAnalysisLevelId; }), { severity: 'blocker' }],
+      ['classroom, ICC missing', variant(classroom, (d) => { d.assumptions.iccs = []; }), { severity: 'blocker' }],
+      ['classroom, mixed model without the classroom intercept', variant(classroom, (d) => { d.analysis.method = 'mixed-model'; }), { severity: 'blocker' }],
+      ['greenhouse, plant means (still below the tray)', variant(greenhouse, (d) => { d.analysis.unitOfAnalysisLevelId = 'plant'; }), { key: 'tray' }],
+    ],
+    silent: [
+      ['classroom with mixed model + (1 | classroom)', classroomMixed],
+      ['classroom, t-test on classroom means', variant(classroom, (d) => { d.analysis.unitOfAnalysisLevelId = 'classroom'; })],
+      ['classroom, cluster-means analysis', variant(classroom, (d) => { d.analysis.method = 'cluster-means'; delete d.analysis.unitOfAnalysisLevelId; })],
+      ['classroom, GEE', variant(classroom, (d) => { d.analysis.method = 'gee'; })],
+      ['classroom, regression with CR2', variant(classroom, (d) => { d.analysis.method = 'linear-regression'; d.analysis.standardErrors = 'cr2'; })],
+      ['classroom, no analysis plan yet', classroomNoPlan],
+      ['sleep cross-over (treatment within volunteer)', sleep],
+      ['pupils randomised individually', pupilsInClassrooms],
+      ['individually randomised trial', simple],
+    ],
+  },
+  'analysis-mismatch': {
+    fires: [
+      ['sleep demo: t-test on nights of a cross-over', sleep, { key: 'repeated-volunteer', severity: 'blocker' }],
+      ['binary outcome with a gaussian GLM', variant(simple, (d) => { d.outcome.type = 'binary'; d.analysis.method = 'glm'; d.analysis.glmFamily = 'gaussian'; }), { key: 'family', severity: 'blocker' }],
+      ['continuous outcome with a Poisson GLMM', variant(classroomMixed, (d) => { d.analysis.method = 'glmm'; d.analysis.glmFamily = 'poisson'; }), { key: 'family', severity: 'blocker' }],
+      ['greenhouse, tray intercept only', variant(greenhouse, (d) => { d.analysis.method = 'mixed-model'; d.analysis.randomIntercepts = ['tray']; }), { key: 'level-plant', severity: 'warning' }],
+      ['clustered, no assignment level yet', variant(classroom, (d) => { delete d.assignment.levelId; }), { key: 'unassigned-classroom', severity: 'warning' }],
+      ['t-test with three arms', variant(simple, (d) => { d.assignment.arms.push({ name: 'Exercise', allocation: 1 }); }), { key: 'two-groups', severity: 'warning' }],
+      ['unit of analysis above the experimental unit', variant(pupilsInClassrooms, (d) => { d.analysis.unitOfAnalysisLevelId = 'classroom'; }), { key: 'above-unit', severity: 'warning' }],
+    ],
+    silent: [
+      ['classroom demo (left to unit-of-analysis)', classroom],
+      ['classroom mixed', classroomMixed],
+      ['sleep with a mixed model on volunteer', variant(sleep, (d) => { d.analysis.method = 'mixed-model'; d.analysis.randomIntercepts = ['volunteer']; })],
+      ['binary outcome with a binomial GLM', variant(simple, (d) => { d.outcome.type = 'binary'; d.analysis.method = 'glm'; d.analysis.glmFamily = 'binomial'; })],
+      ['classroom, no analysis plan yet', classroomNoPlan],
+      ['individually randomised trial', simple],
+    ],
+  },
+  'repeated-measures': {
+    fires: [
+      ['sleep demo: 8 nights per volunteer', sleep, { key: 'night', severity: 'warning' }],
+      ['5 visits with no repeated level in the structure', longitudinal, { key: 'occasions', severity: 'warning' }],
+      ['sleep, volunteer accounted for: advice', variant(sleep, (d) => { d.analysis.method = 'mixed-model'; d.analysis.randomIntercepts = ['volunteer']; }), { severity: 'advice' }],
+    ],
+    silent: [
+      ['classroom (baseline + one follow-up)', classroom],
+      ['greenhouse (one harvest)', greenhouse],
+      ['individually randomised trial', simple],
+    ],
+  },
+  'nested-clusters': {
+    fires: [
+      ['classroom demo', classroom, { key: 'classroom', severity: 'warning' }],
+      ['greenhouse demo', greenhouse, { key: 'tray', severity: 'warning' }],
+      ['pupils randomised inside classrooms', pupilsInClassrooms, { key: 'classroom' }],
+      ['classroom mixed: reminder only', classroomMixed, { key: 'classroom', severity: 'advice' }],
+    ],
+    silent: [
+      ['sleep (no grouping level)', sleep],
+      ['individually randomised trial', simple],
+      ['one pupil per classroom', variant(classroom, (d) => { d.structure.levels[1]!.count = 1; })],
+      ['twin pairs (left to pairs-and-blocks)', twins],
+    ],
+  },
+  pseudoreplication: {
+    fires: [
+      ['greenhouse demo: 4 leaves per plant counted as n', greenhouse, { key: 'leaf', severity: 'warning' }],
+      ['greenhouse, plant intercept: reminder only', variant(greenhouse, (d) => { d.analysis.method = 'mixed-model'; d.analysis.randomIntercepts = ['tray', 'plant']; d.analysis.unitOfAnalysisLevelId = 'tray'; }), { severity: 'advice' }],
+    ],
+    silent: [
+      ['classroom demo', classroom],
+      ['sleep demo', sleep],
+      ['greenhouse with one leaf per plant', variant(greenhouse, (d) => { d.structure.levels[2]!.count = 1; })],
+    ],
+  },
+  'shared-environment': {
+    fires: [
+      ['greenhouse demo: substrate per tray', greenhouse, { key: 'tray', severity: 'warning' }],
+      ['classroom demo: programme per classroom', classroom, { key: 'classroom', severity: 'warning' }],
+      ['mice assigned individually in shared cages', miceInCages, { key: 'cage', severity: 'advice' }],
+    ],
+    silent: [
+      ['sleep demo', sleep],
+      ['individually randomised trial', simple],
+      ['classroom not marked shared and of type school', variant(classroom, (d) => { d.structure.levels[0]!.sharedEnvironment = false; d.structure.levels[0]!.groupingType = 'school'; })],
+    ],
+  },
+  'few-units': {
+    fires: [
+      ['greenhouse demo: 6 trays per arm', greenhouse, { key: 'per-arm', severity: 'warning' }],
+      ['8 classrooms in all', variant(classroom, (d) => { d.structure.levels[0]!.count = 8; }), { key: 'variance' }],
+      ['GEE on 20 classrooms', variant(classroom, (d) => { d.analysis.method = 'gee'; }), { key: 'robust-se', severity: 'warning' }],
+      ['CR2 without Satterthwaite df', variant(classroom, (d) => { d.analysis.method = 'linear-regression'; d.analysis.standardErrors = 'cr2'; }), { key: 'robust-se', severity: 'advice' }],
+      ['mixed model on 20 classrooms with residual df', classroomMixed, { key: 'df', severity: 'warning' }],
+    ],
+    silent: [
+      ['individually randomised trial (30 per arm)', simple],
+      ['classroom demo (10 per arm, t-test)', classroom],
+      ['classroom mixed with Kenward–Roger df', variant(classroomMixed, (d) => { d.analysis.dfMethod = 'kenward-roger'; })],
+      ['60 classrooms, mixed model, residual df', variant(classroomMixed, (d) => { d.structure.levels[0]!.count = 60; })],
+    ],
+  },
+  crossover: {
+    fires: [
+      ['sleep demo: no washout, carry-over possible', sleep, { key: 'carry-over', severity: 'warning' }],
+      ['sleep with a washout: period advice only', variant(sleep, (d) => { d.assignment.crossover.washout = 'Two weeks of usual sleep between blocks'; d.assignment.crossover.carryoverPossible = false; }), { key: 'period', severity: 'advice' }],
+    ],
+    silent: [
+      ['classroom demo', classroom],
+      ['parallel-group sleep study', parallelNights],
+    ],
+  },
+  'many-occasions': {
+    fires: [
+      ['sleep demo: 8 nights', sleep, { key: 'covariance', severity: 'advice' }],
+      ['5 unequally spaced visits, trajectory of interest', longitudinal, { key: 'time-trend', severity: 'advice' }],
+      ['3 unequally spaced visits', variant(simple, (d) => { d.occasions.list = [0, 1, 6].map((t) => ({ label: `T${t}`, time: t, baseline: false, attrition: 0 })); }), { key: 'covariance' }],
+    ],
+    silent: [
+      ['classroom demo (2 occasions)', classroom],
+      ['greenhouse demo (1 occasion)', greenhouse],
+      ['3 equally spaced visits', variant(simple, (d) => { d.occasions.list = [0, 1, 2].map((t) => ({ label: `T${t}`, time: t, baseline: false, attrition: 0 })); })],
+      ['sleep with AR(1) planned', variant(sleep, (d) => { d.analysis.covarianceStructure = 'ar1'; })],
+    ],
+  },
+  'outcome-family': {
+    fires: [
+      ['binary outcome, t-test', variant(simple, (d) => { d.outcome.type = 'binary'; }), { key: 'binary', severity: 'warning' }],
+      ['count outcome in classrooms', variant(classroom, (d) => { d.outcome.type = 'count'; }), { key: 'count' }],
+      ['proportion, no plan yet', variant(outcomeOnly, (d) => { d.outcome.type = 'proportion'; }), { key: 'proportion', severity: 'advice' }],
+    ],
+    silent: [
+      ['continuous outcome', simple],
+      ['binary outcome with a GLM', variant(simple, (d) => { d.outcome.type = 'binary'; d.analysis.method = 'glm'; d.analysis.glmFamily = 'binomial'; })],
+      ['binary outcome with GEE', variant(simple, (d) => { d.outcome.type = 'binary'; d.analysis.method = 'gee'; })],
+    ],
+  },
+  'skewed-outcome': {
+    fires: [
+      ['greenhouse demo', greenhouse, { key: 'skew', severity: 'warning' }],
+      ['sleep demo', sleep, { key: 'skew', severity: 'warning' }],
+    ],
+    silent: [
+      ['classroom demo (symmetric)', classroom],
+      ['sleep on the log scale', variant(sleep, (d) => { d.analysis.transformation = 'log'; })],
+      ['greenhouse with a gamma family', variant(greenhouse, (d) => { d.analysis.method = 'glmm'; d.analysis.glmFamily = 'gamma'; })],
+    ],
+  },
+  'unequal-variance': {
+    fires: [['greenhouse demo', greenhouse, { key: 'variance', severity: 'warning' }]],
+    silent: [
+      ['classroom demo', classroom],
+      ['greenhouse with CR2', variant(greenhouse, (d) => { d.analysis.standardErrors = 'cr2'; })],
+      ['greenhouse with a variance model', variant(greenhouse, (d) => { d.analysis.modelVariance = true; })],
+    ],
+  },
+  'unequal-cluster-sizes': {
+    fires: [
+      ['classroom demo (CV 0.25)', classroom, { key: 'classroom', severity: 'advice' }],
+      ['classroom with CV 0.8: warning', variant(classroom, (d) => { d.structure.levels[1]!.countCv = 0.8; }), { key: 'classroom', severity: 'warning' }],
+    ],
+    silent: [
+      ['greenhouse demo (equal trays)', greenhouse],
+      ['sleep demo', sleep],
+      ['classroom with equal sizes', variant(classroom, (d) => { d.structure.levels[1]!.countCv = 0; })],
+    ],
+  },
+  'uncertain-icc': {
+    fires: [
+      ['greenhouse demo: tray ICC an expert guess', greenhouse, { key: 'tray', severity: 'advice' }],
+      ['classroom with no ICC', variant(classroom, (d) => { d.assumptions.iccs = []; }), { key: 'classroom', severity: 'warning' }],
+    ],
+    silent: [
+      ['classroom demo (published ICC)', classroom],
+      ['sleep demo (published ICC)', sleep],
+      ['individually randomised trial', simple],
+    ],
+  },
+  multiplicity: {
+    fires: [['3 primary outcomes, no adjustment', variant(simple, (d) => { d.outcome.primaryOutcomes = 3; }), { key: 'primary-outcomes', severity: 'warning' }]],
+    silent: [
+      ['one primary outcome', simple],
+      ['3 primary outcomes with Holm', variant(simple, (d) => { d.outcome.primaryOutcomes = 3; d.analysis.multiplicity = 'holm'; })],
+    ],
+  },
+  'baseline-adjustment': {
+    fires: [
+      ['classroom demo: baseline not used', classroom, { key: 'baseline', severity: 'warning' }],
+      ['classroom, no plan yet', classroomNoPlan, { severity: 'advice' }],
+    ],
+    silent: [
+      ['classroom adjusting for baseline', variant(classroom, (d) => { d.analysis.adjustsForBaseline = true; })],
+      ['classroom ANCOVA', variant(classroom, (d) => { d.analysis.method = 'ancova'; })],
+      ['greenhouse demo (no baseline)', greenhouse],
+      ['sleep demo (no baseline)', sleep],
+    ],
+  },
+  'pairs-and-blocks': {
+    fires: [
+      ['classroom demo: stratified by school, not in the analysis', classroom, { key: 'blocking', severity: 'advice' }],
+      ['matched pairs, not in the analysis', variant(simple, (d) => { d.assignment.blocking = { kind: 'matched', factor: 'Age and sex', inAnalysis: false }; }), { key: 'blocking', severity: 'warning' }],
+      ['twin pairs ignored', twins, { key: 'pair', severity: 'warning' }],
+    ],
+    silent: [
+      ['classroom with school in the analysis', variant(classroom, (d) => { d.assignment.blocking.inAnalysis = true; })],
+      ['twins with a pair intercept', variant(twins, (d) => { d.analysis.method = 'mixed-model'; d.analysis.randomIntercepts = ['pair']; })],
+      ['individually randomised trial', simple],
+    ],
+  },
+  'spatial-serial': {
+    fires: [
+      ['sleep demo: consecutive nights', sleep, { key: 'night', severity: 'warning' }],
+      ['greenhouse demo: trays on benches', greenhouse, { key: 'tray', severity: 'advice' }],
+    ],
+    silent: [
+      ['classroom demo', classroom],
+      ['sleep with AR(1) planned', variant(sleep, (d) => { d.analysis.covarianceStructure = 'ar1'; d.structure.levels[0]!.spatialOrSerial = false; })],
+    ],
+  },
+  attrition: {
+    fires: [
+      ['classroom demo: 8% by the end of the year', classroom, { key: 'attrition', severity: 'warning' }],
+      ['sleep demo: 10% from night 5', sleep, { severity: 'warning' }],
+      ['sleep with a mixed model under MAR: advice', variant(sleep, (d) => { d.analysis.missingData = 'mixed-model-mar'; }), { severity: 'advice' }],
+    ],
+    silent: [
+      ['no attrition', simple],
+      ['classroom without losses', variant(classroom, (d) => { d.occasions.list.forEach((o) => { o.attrition = 0; }); })],
+    ],
+  },
+  outliers: {
+    fires: [
+      ['sleep demo: outliers plausible, no plan', sleep, { key: 'outliers', severity: 'warning' }],
+      ['classroom demo: no plan', classroom, { key: 'outliers', severity: 'advice' }],
+    ],
+    silent: [
+      ['sleep with an outlier plan', variant(sleep, (d) => { d.analysis.outlierPlan = 'Values above 2000 ms checked against the log; robust regression as sensitivity analysis.'; })],
+      ['outliers ruled out', simple],
+      ['no analysis plan yet', classroomNoPlan],
+    ],
+  },
+  'narrow-range': {
+    fires: [['dose observed over 10–20, wanted 0–40', narrowDose, { key: 'dose', severity: 'warning' }]],
+    silent: [
+      ['target inside the observed range', variant(narrowDose, (d) => { const v = d.outcome.explanatoryVariables[0]!; v.targetMin = 12; v.targetMax = 18; })],
+      ['no target range given', variant(narrowDose, (d) => { const v = d.outcome.explanatoryVariables[0]!; delete v.targetMin; delete v.targetMax; })],
+      ['classroom demo', classroom],
+    ],
+  },
+};
+
+describe('registry', () => {
+  it('every rule has a case table, and every table a rule', () => {
+    expect(Object.keys(CASES).sort()).toEqual(RULES.map((r) => r.id).sort());
+  });
+  it('rule ids are unique kebab-case', () => {
+    const ids = RULES.map((r) => r.id);
+    expect(new Set(ids).size).toBe(ids.length);
+    for (const id of ids) expect(id).toMatch(/^[a-z]+(-[a-z0-9]+)*$/);
+  });
+});
+
+describe.each(RULES.map((r) => [r.id, r] as const))('%s', (id, rule) => {
+  const cases = CASES[id]!;
+  it.each(cases.fires)('fires: %s', (_label, design, want) => {
+    const found = rule.check(design);
+    expect(found.length).toBeGreaterThan(0);
+    const match = found.find((f) => (want?.key === undefined || f.key === want.key) && (want?.severity === undefined || f.severity === want.severity));
+    expect(match, `wanted ${JSON.stringify(want)}, got ${JSON.stringify(found.map((f) => [f.key, f.severity]))}`).toBeDefined();
+    for (const f of found) {
+      expect(f.ruleId).toBe(id);
+      expect(['blocker', 'warning', 'advice']).toContain(f.severity);
+    }
+  });
+  it.each(cases.silent)('silent: %s', (_label, design) => {
+    expect(rule.check(design)).toEqual([]);
+  });
+  it('is silent on an empty design and on one with only the outcome filled in', () => {
+    expect(rule.check(empty)).toEqual([]);
+    expect(rule.check(outcomeOnly)).toEqual([]);
+  });
+  it('never raises anything more severe than its own severity', () => {
+    const rank = { blocker: 0, warning: 1, advice: 2 };
+    for (const [, d] of cases.fires) for (const f of rule.check(d)) expect(rank[f.severity]).toBeGreaterThanOrEqual(rank[rule.severity]);
+  });
+});
+
+describe('demo designs', () => {
+  const ruleIds = (d: Design) => new Set(runChecks(d).findings.map((f) => f.ruleId));
+  const signature = (d: Design) => runChecks(d).findings.map((f) => `${f.ruleId}:${f.key}:${f.severity}`).sort().join('|');
+
+  it('classroom raises the unit-of-analysis blocker with its false-positive rate', () => {
+    const f = runChecks(classroom).findings.find((x) => x.ruleId === 'unit-of-analysis')!;
+    expect(f.severity).toBe('blocker');
+    expect(f.key).toBe('classroom');
+    expect(f.found).toContain('20 classrooms');
+    expect(f.found).toContain('500 pupils');
+    expect(f.why).toMatch(/false-positive rate of about 37%/);
+    expect(f.numbers!.designEffect).toBeGreaterThan(4);
+  });
+  it('classroom with only the method changed to a mixed model on classroom has no blocker', () => {
+    const blockers = runChecks(classroomMixed).findings.filter((x) => x.severity === 'blocker');
+    expect(blockers).toEqual([]);
+  });
+  it('greenhouse raises pseudoreplication and shared environment', () => {
+    const ids = ruleIds(greenhouse);
+    for (const id of ['pseudoreplication', 'shared-environment', 'unit-of-analysis']) expect(ids).toContain(id);
+  });
+  it('sleep raises repeated measures, cross-over and serial correlation', () => {
+    const ids = ruleIds(sleep);
+    for (const id of ['repeated-measures', 'crossover', 'spatial-serial', 'analysis-mismatch']) expect(ids).toContain(id);
+    expect(runChecks(sleep).findings.find((f) => f.ruleId === 'spatial-serial')!.key).toBe('night');
+  });
+  it('the three demo designs trigger different findings', () => {
+    const sets = [classroom, greenhouse, sleep].map(signature);
+    expect(new Set(sets).size).toBe(3);
+    const c = ruleIds(classroom);
+    const g = ruleIds(greenhouse);
+    const s = ruleIds(sleep);
+    expect(c.has('pseudoreplication') || c.has('crossover')).toBe(false);
+    expect(g.has('crossover') || g.has('repeated-measures')).toBe(false);
+    expect(s.has('pseudoreplication') || s.has('unit-of-analysis')).toBe(false);
+  });
+  it('findings are sorted blocker → warning → advice', () => {
+    const rank = { blocker: 0, warning: 1, advice: 2 };
+    for (const d of [classroom, greenhouse, sleep, empty]) {
+      const r = runChecks(d).findings.map((f) => rank[f.severity]);
+      expect(r).toEqual([...r].sort((a, b) => a - b));
+    }
+  });
+  it('keys are unique within a rule', () => {
+    for (const d of [classroom, greenhouse, sleep]) {
+      const keys = runChecks(d).findings.map((f) => `${f.ruleId}:${f.key}`);
+      expect(new Set(keys).size).toBe(keys.length);
+    }
+  });
+  it('an empty design gives no crash and no finding', () => {
+    const r = runChecks(empty, { onRuleError: (id, e) => { throw new Error(`${id}: ${String(e)}`); } });
+    expect(r.findings).toEqual([]);
+    expect(r.recommendation.model).toBe('y ~ arm');
+  });
+});

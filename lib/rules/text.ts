@@ -1,0 +1,110 @@
+/**
+ * Small helpers that turn a design's names and numbers into the findings' sentences:
+ * "20 classrooms", "about 103 pupils", "37%". English only; plurals cover regular nouns and the
+ * irregular ones a study design is likely to name.
+ */
+import type { Level } from '@/lib/design/schema';
+
+const IRREGULAR: Record<string, string> = {
+  leaf: 'leaves',
+  calf: 'calves',
+  half: 'halves',
+  shelf: 'shelves',
+  mouse: 'mice',
+  child: 'children',
+  person: 'people',
+  man: 'men',
+  woman: 'women',
+  tooth: 'teeth',
+  foot: 'feet',
+  fish: 'fish',
+  sheep: 'sheep',
+  deer: 'deer',
+  series: 'series',
+  species: 'species',
+  analysis: 'analyses',
+  nucleus: 'nuclei',
+  larva: 'larvae',
+};
+
+/** Lower-case the first letter unless the word looks like an acronym ("GP practice" stays). */
+function lowerFirst(s: string): string {
+  return s.length > 1 && s[1] === s[1]!.toLowerCase() ? s[0]!.toLowerCase() + s.slice(1) : s;
+}
+
+export function pluralWord(word: string): string {
+  const lower = word.toLowerCase();
+  const irregular = IRREGULAR[lower];
+  if (irregular) return word[0] === word[0]!.toUpperCase() ? irregular[0]!.toUpperCase() + irregular.slice(1) : irregular;
+  if (/(s|x|z|ch|sh)$/i.test(word)) return `${word}es`;
+  if (/[^aeiou]y$/i.test(word)) return `${word.slice(0, -1)}ies`;
+  return `${word}s`;
+}
+
+/** A level's name as a noun in running text, singular or plural (the last word is pluralised). */
+export function noun(level: Level, plural = false): string {
+  const name = lowerFirst(level.name.trim());
+  if (!plural) return name;
+  const i = name.lastIndexOf(' ');
+  return i < 0 ? pluralWord(name) : name.slice(0, i + 1) + pluralWord(name.slice(i + 1));
+}
+
+/** "20 classrooms", "1 classroom", "about 12.5 pupils" (non-whole counts come from totals given per study). */
+export function count(n: number, level: Level): string {
+  return `${num(n)} ${noun(level, Math.round(n * 10) / 10 !== 1)}`;
+}
+
+/** A count or quantity in text: whole numbers with thousands separators, otherwise "about" one decimal. */
+const WHOLE = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 0 });
+const ONE_DECIMAL = new Intl.NumberFormat('en-GB', { minimumFractionDigits: 1, maximumFractionDigits: 1 });
+
+export function num(n: number): string {
+  if (Number.isInteger(n)) return WHOLE.format(n);
+  const r = Math.round(n * 10) / 10;
+  return `about ${Number.isInteger(r) ? WHOLE.format(r) : ONE_DECIMAL.format(r)}`;
+}
+
+/** A quantity rounded to `digits` decimals, trailing zeros dropped ("4.8", "0.15"). */
+export function dec(x: number, digits = 1): string {
+  return String(Number(x.toFixed(digits)));
+}
+
+/** A proportion as a percentage: "37%", "4.9%" below 10%, "<0.1%" when tiny. */
+export function pct(p: number): string {
+  const v = p * 100;
+  if (v > 0 && v < 0.1) return '<0.1%';
+  return `${v < 10 ? dec(v, 1) : dec(v, 0)}%`;
+}
+
+/** Capitalise the first letter of a sentence. */
+export function cap(s: string): string {
+  return s.length === 0 ? s : s[0]!.toUpperCase() + s.slice(1);
+}
+
+/** "a, b and c". */
+export function list(items: readonly string[]): string {
+  if (items.length <= 1) return items.join('');
+  return `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`;
+}
+
+/** A design name as a model identifier: 'Reading score' → 'reading_score', 'baseline-score' → 'baseline_score'. */
+export function identifier(s: string | undefined, fallback: string): string {
+  const id = (s ?? '')
+    .normalize('NFKD')
+    .replace(/[\u0300-\u036f]/g, '')
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '_')
+    .replace(/^_+|_+$/g, '');
+  if (id.length === 0) return fallback;
+  return /^[0-9]/.test(id) ? `x_${id}` : id;
+}
+
+/** Drop undefined entries so `numbers` holds only quantities that were computed; −0 becomes 0. */
+export function numbers(entries: Record<string, number | undefined>): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const [k, v] of Object.entries(entries)) if (v !== undefined) out[k] = v === 0 ? 0 : v; // −0 does not survive JSON
+  return out;
+}
+
+/** The sentence that defers judgement to a statistician; used where a finding needs judgement. */
+export const ASK_STATISTICIAN = 'Agree the final choice with a qualified statistician before the protocol is fixed.';
