@@ -1,0 +1,29 @@
+/**
+ * Which wizard steps are complete: enough of each part for the checks and the calculations to
+ * use it. "started" means something is filled in but not enough yet.
+ */
+import type { Design, DesignPart } from './schema';
+
+export type StepState = 'complete' | 'started' | 'empty';
+
+export function stepStates(d: Design): Record<DesignPart, StepState> {
+  const o = d.outcome;
+  const outcome: StepState = o.name && o.type ? 'complete' : o.name || o.type ? 'started' : 'empty';
+  const structure: StepState = d.structure.levels.length > 0 ? 'complete' : 'empty';
+  const a = d.assignment;
+  const assignmentDone = a.kind && a.levelId && (a.kind === 'continuous' || a.arms.length >= 2);
+  const assignment: StepState = assignmentDone ? 'complete' : a.kind || a.levelId || a.arms.length ? 'started' : 'empty';
+  const occasions: StepState = d.occasions.list.length > 0 ? 'complete' : 'empty';
+  const needIcc = iccLevels(d);
+  const s = d.assumptions;
+  const iccsDone = needIcc.every((l) => s.iccs.some((c) => c.levelId === l.id));
+  const assumptions: StepState = s.outcomeSd && s.effect && iccsDone ? 'complete' : s.outcomeSd || s.effect || s.iccs.length ? 'started' : 'empty';
+  const an = d.analysis;
+  const analysis: StepState = an.method && an.unitOfAnalysisLevelId ? 'complete' : an.method || an.unitOfAnalysisLevelId ? 'started' : 'empty';
+  return { outcome, structure, assignment, occasions, assumptions, analysis };
+}
+
+/** Levels that carry an ICC: grouping levels, and units measured repeatedly. */
+export function iccLevels(d: Design) {
+  return d.structure.levels.filter((l, i) => l.kind === 'grouping' || (l.kind === 'independent' && d.structure.levels[i + 1]?.kind === 'repeated'));
+}
