@@ -14,6 +14,8 @@ import { insertRevision, insertStudy, upsertStudyMember } from './repositories/s
 import { insertUser, setPasswordHash } from './repositories/users';
 import { insertWorkspace, upsertWorkspaceMember } from './repositories/workspaces';
 import { DEMO_ADMINS, DEMO_STUDIES, DEMO_WORKSPACE } from './demo/studies';
+import { designSchema } from '../lib/design/schema';
+import { runChecks } from '../lib/rules/registry';
 
 interface DemoAccount {
   email: string;
@@ -42,7 +44,8 @@ export async function seedDemo(db: Kysely<Database>, password: string): Promise<
     for (const s of DEMO_STUDIES) {
       const study = await insertStudy(trx, { workspaceId: ws.id, title: s.title, description: s.description, createdBy: owner });
       for (const [email, role] of Object.entries(s.members)) await upsertStudyMember(trx, study.id, ids.get(email)!, role);
-      await insertRevision(trx, { studyId: study.id, number: 1, design: { schemaVersion: 1 }, authorId: owner, note: 'Study created' });
+      const design = designSchema.parse(s.design);
+      await insertRevision(trx, { studyId: study.id, number: 1, design, checks: runChecks(design), authorId: owner, note: 'Study created' });
       await logActivity(trx, { workspaceId: ws.id, studyId: study.id, actorId: owner, action: 'study.created', details: { title: s.title } });
     }
   });

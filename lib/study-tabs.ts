@@ -10,8 +10,8 @@ export interface StudyTab {
 }
 
 export const STUDY_TABS: StudyTab[] = [
-  { slug: 'design', label: 'Design', built: false, summary: 'A step-by-step description of the design — outcome, levels from top to bottom, assignment, occasions, assumptions with their sources and the analysis plan — with a live diagram of the hierarchy.' },
-  { slug: 'checks', label: 'Checks', built: false, summary: 'Findings about the design — where measurements are not independent, what that does to the false-positive rate, and which analysis the design calls for — each with its reasoning and a citation.' },
+  { slug: 'design', label: 'Design', built: true, summary: 'A step-by-step description of the design — outcome, levels from top to bottom, assignment, occasions, assumptions with their sources and the analysis plan — with a live diagram of the hierarchy.' },
+  { slug: 'checks', label: 'Checks', built: true, summary: 'Findings about the design — where measurements are not independent, what that does to the false-positive rate, and which analysis the design calls for — each with its reasoning and a citation.' },
   { slug: 'plan', label: 'Plan', built: false, summary: 'Sample size, power or smallest detectable effect for this design, accounting for clustering, repeated measures, attrition and several outcomes, with sensitivity plots.' },
   { slug: 'stress-test', label: 'Stress test', built: false, summary: 'Simulations of power, false-positive rate and confidence-interval coverage of several analyses when the data break each assumption.' },
   { slug: 'pilot-data', label: 'Pilot data', built: false, summary: 'Upload pilot data as CSV to estimate variance components and ICCs, and apply them to the design.' },

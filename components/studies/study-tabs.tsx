@@ -13,7 +13,7 @@ export function StudyTabs({ studyId }: { studyId: string }) {
       <ul className="flex min-w-max gap-1">
         {tabs.map((t) => {
           const href = t.slug ? `${base}/${t.slug}` : base;
-          const current = pathname === href;
+          const current = t.slug ? pathname === href || pathname.startsWith(`${href}/`) : pathname === href;
           return (
             <li key={t.slug || 'overview'}>
               <Link

@@ -2,7 +2,9 @@
  * The invented demo of PRODUCT.md: a research team at the fictional Harrow Vale Institute with
  * three draft studies. All names, e-mail addresses and studies are made up.
  */
+import type { DesignInput } from '@/lib/design/schema';
 import type { StudyRole } from '../schema';
+import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from './designs';
 
 export const DEMO_WORKSPACE = 'Harrow Vale Institute';
 
@@ -10,6 +12,7 @@ export interface DemoStudy {
   title: string;
   description: string;
   members: Record<string, StudyRole>;
+  design: DesignInput;
 }
 
 const PRIYA = 'priya.nair@harrowvale.example';
@@ -26,17 +29,20 @@ export const DEMO_STUDIES: DemoStudy[] = [
     description:
       'Primary-school classrooms are randomised to a reading-support programme or usual teaching; reading scores are measured on each pupil at the end of the school year. The classroom is the unit of randomisation, the pupil the unit of measurement.',
     members: { [PRIYA]: 'owner', [TOM]: 'editor', [LENA]: 'consultant', [SAM]: 'writer' },
+    design: CLASSROOM_DESIGN,
   },
   {
     title: 'Greenhouse trial of two growing substrates',
     description:
       'Two substrates are compared in a greenhouse. Each tray holds several plants and receives one substrate; several leaves are measured on each plant. Trays, plants and leaves are nested levels.',
     members: { [PRIYA]: 'owner', [LENA]: 'consultant', [ADA]: 'viewer' },
+    design: GREENHOUSE_DESIGN,
   },
   {
     title: 'Sleep timing and next-day reaction time',
     description:
       'Volunteers follow two sleep-timing schedules; reaction time is measured on each of 8 nights per volunteer. The nights of one volunteer are repeated measures, not independent units.',
     members: { [PRIYA]: 'owner', [LENA]: 'consultant', [SAM]: 'writer' },
+    design: SLEEP_DESIGN,
   },
 ];

@@ -209,7 +209,7 @@ export async function countStudiesOwnedInWorkspace(db: Db, workspaceId: string, 
 /** Appends a revision; the unique (study, number) constraint rejects a concurrent save. */
 export async function insertRevision(
   db: Db,
-  input: { studyId: string; number: number; design: unknown; authorId: string; note?: string | null },
+  input: { studyId: string; number: number; design: unknown; authorId: string; note?: string | null; checks?: unknown },
 ): Promise<void> {
   await db
     .insertInto('study_revisions')
@@ -217,6 +217,7 @@ export async function insertRevision(
       study_id: input.studyId,
       number: input.number,
       design: JSON.stringify(input.design),
+      checks: input.checks === undefined ? null : JSON.stringify(input.checks),
       author_id: input.authorId,
       note: input.note ?? null,
     })

@@ -8,6 +8,7 @@ import type { StudyMember, StudyWithRole } from '@/db/repositories/studies';
 import type { WorkspaceMember } from '@/db/repositories/workspaces';
 import type { ActivityItem } from '@/db/repositories/activity';
 import { STUDY_ROLES, WORKSPACE_ROLES } from '@/db/schema';
+import { designSchema } from '@/lib/design/schema';
 
 export function studyDto(s: StudyWithRole) {
   return {
@@ -86,3 +87,52 @@ export const errorSchema = z
     }),
   })
   .meta({ id: 'Error' });
+
+export const designStateSchema = z
+  .object({
+    revision: z.number().int(),
+    design: designSchema,
+    savedAt: iso.nullable(),
+    savedBy: z.string().nullable(),
+    readable: z.boolean(),
+  })
+  .meta({ id: 'DesignState' });
+
+const citationSchema = z.object({ short: z.string(), full: z.string() });
+
+export const findingDtoSchema = z
+  .object({
+    ruleId: z.string(),
+    key: z.string(),
+    severity: z.enum(['blocker', 'warning', 'advice']),
+    title: z.string(),
+    found: z.string(),
+    why: z.string(),
+    todo: z.string(),
+    model: z.string().optional(),
+    numbers: z.record(z.string(), z.number()).optional(),
+    citations: z.array(citationSchema),
+    levelIds: z.array(z.string()).optional(),
+  })
+  .meta({ id: 'Finding' });
+
+export const checkResultSchema = z
+  .object({
+    revision: z.number().int(),
+    findings: z.array(findingDtoSchema),
+    recommendation: z.record(z.string(), z.unknown()).meta({ description: 'The recommended analysis: method, model, df method, unit of analysis, citations.' }),
+  })
+  .meta({ id: 'CheckResult' });
+
+export const findingNoteDtoSchema = z
+  .object({
+    id: z.string(),
+    ruleId: z.string(),
+    key: z.string(),
+    status: z.enum(['addressed', 'reopened']),
+    reason: z.string(),
+    revision: z.number().int(),
+    actorName: z.string().nullable(),
+    createdAt: iso,
+  })
+  .meta({ id: 'FindingNoteEntry' });

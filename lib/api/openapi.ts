@@ -14,6 +14,8 @@ import {
   workspaceMemberRoleUpdateSchema,
   workspaceSchema,
 } from '@/lib/validation/workspace';
+import { checkRunSchema, designSaveSchema, findingNoteSchema } from '@/lib/validation/design';
+import { checkResultSchema, designStateSchema, findingNoteDtoSchema } from './dto';
 import { activityDtoSchema, errorSchema, invitationDtoSchema, studyMemberDtoSchema, workspaceMemberDtoSchema } from './dto';
 
 const json = <T extends z.ZodType>(schema: T, description: string) => ({ description, content: { 'application/json': { schema } } });
@@ -176,6 +178,43 @@ export const API_ROUTES: RouteConfig[] = [
     summary: 'Recent activity on a study',
     request: { params: studyParams },
     responses: { 200: json(list(activityDtoSchema), 'Newest first, at most 50'), ...standardErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/design',
+    summary: 'The newest revision of the study’s design',
+    request: { params: studyParams },
+    responses: { 200: json(designStateSchema, 'Revision number, design, who saved it and when'), ...standardErrors },
+  },
+  {
+    method: 'put',
+    path: '/api/v1/studies/{studyId}/design',
+    summary: 'Save the design as a new revision (owner, editor)',
+    description:
+      'Send the revision your edit started from as baseRevision. If someone saved meanwhile and changed other parts of the design, your parts are merged onto theirs (merged: true); if they changed the same part, the answer is 409 and nothing is saved.',
+    request: { params: studyParams, body: { content: { 'application/json': { schema: designSaveSchema } } } },
+    responses: { 200: json(designStateSchema.extend({ merged: z.boolean() }), 'The new revision'), ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/checks',
+    summary: 'Run the design checks on the saved design, or on a design sent in the body (nothing is saved)',
+    request: { params: studyParams, body: { content: { 'application/json': { schema: checkRunSchema } } } },
+    responses: { 200: json(checkResultSchema, 'Findings, newest recommendation'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/finding-notes',
+    summary: 'History of findings marked addressed or reopened, newest first',
+    request: { params: studyParams },
+    responses: { 200: json(list(findingNoteDtoSchema), 'Notes'), ...standardErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/finding-notes',
+    summary: 'Mark a finding addressed (with a reason) or reopen it (owner, editor, consultant)',
+    request: { params: studyParams, body: { content: { 'application/json': { schema: findingNoteSchema } } } },
+    responses: { 201: json(list(findingNoteDtoSchema), 'Notes after the change'), ...writeErrors },
   },
   {
     method: 'delete',

@@ -23,6 +23,9 @@ import * as studyMember from '@/app/api/v1/studies/[studyId]/members/[userId]/ro
 import * as studyInvitations from '@/app/api/v1/studies/[studyId]/invitations/route';
 import * as activity from '@/app/api/v1/studies/[studyId]/activity/route';
 import * as invitation from '@/app/api/v1/invitations/[invitationId]/route';
+import * as design from '@/app/api/v1/studies/[studyId]/design/route';
+import * as checks from '@/app/api/v1/studies/[studyId]/checks/route';
+import * as findingNotes from '@/app/api/v1/studies/[studyId]/finding-notes/route';
 
 type Handler = (req: Request, c: { params: Promise<Record<string, string>> }) => Promise<Response>;
 
@@ -67,6 +70,11 @@ const ROUTES: RouteCase[] = [
   { name: 'list study invitations', method: 'GET', handler: studyInvitations.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/invitations`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'members.manage' }, ok: 200 },
   { name: 'invite to study', method: 'POST', handler: studyInvitations.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/invitations`, params: (w) => ({ studyId: w.studyId }), body: () => ({ email: 'lena@test.example', role: 'consultant' }), rule: { kind: 'study', action: 'members.manage' }, ok: 201 },
   { name: 'study activity', method: 'GET', handler: activity.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/activity`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'activity.read' }, ok: 200 },
+  { name: 'read design', method: 'GET', handler: design.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/design`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'save design', method: 'PUT', handler: design.PUT as Handler, path: (w) => `/api/v1/studies/${w.studyId}/design`, params: (w) => ({ studyId: w.studyId }), body: () => ({ baseRevision: 1, design: { outcome: { name: 'Reading score' } } }), rule: { kind: 'study', action: 'design.edit' }, ok: 200 },
+  { name: 'run checks', method: 'POST', handler: checks.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/checks`, params: (w) => ({ studyId: w.studyId }), body: () => ({}), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'list finding notes', method: 'GET', handler: findingNotes.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/finding-notes`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'mark finding addressed', method: 'POST', handler: findingNotes.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/finding-notes`, params: (w) => ({ studyId: w.studyId }), body: () => ({ ruleId: 'unit-of-analysis', key: 'classroom', status: 'addressed', reason: 'Analysed with a random intercept per classroom.' }), rule: { kind: 'study', action: 'finding.address' }, ok: 201 },
   { name: 'revoke invitation', method: 'DELETE', handler: invitation.DELETE as Handler, path: (_w) => '/api/v1/invitations/x', params: (_w, e) => ({ invitationId: e.invitationId }), rule: { kind: 'revoke' }, ok: 204 },
 ];
 

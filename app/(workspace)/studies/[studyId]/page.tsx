@@ -3,6 +3,9 @@ import { InvitationsList } from '@/components/members/invitations-list';
 import { InviteForm } from '@/components/members/invite-form';
 import { MembersList } from '@/components/members/members-list';
 import { StudyDetails } from '@/components/studies/study-details';
+import { DesignDiagram } from '@/components/design/design-diagram';
+import { getDesign } from '@/lib/data/designs';
+import Link from 'next/link';
 import { ASSIGNABLE_STUDY_ROLES, canStudy, STUDY_ROLE_DESCRIPTIONS, STUDY_ROLE_LABELS } from '@/lib/auth/permissions';
 import { currentActor } from '@/lib/auth/session';
 import { getStudy, listStudyActivity } from '@/lib/data/studies';
@@ -26,7 +29,7 @@ export default async function StudyOverviewPage({ params }: { params: Promise<{ 
   const { studyId } = await params;
   const actor = await currentActor();
   const study = await load(getStudy(actor, studyId), `/studies/${studyId}`);
-  const activity = await listStudyActivity(actor, studyId);
+  const [activity, designState] = await Promise.all([listStudyActivity(actor, studyId), getDesign(actor, studyId)]);
   const manage = canStudy(study.role, 'members.manage') && study.status !== 'archived';
   const roleOptions = ASSIGNABLE_STUDY_ROLES.map((r) => ({ value: r, label: STUDY_ROLE_LABELS[r], description: STUDY_ROLE_DESCRIPTIONS[r] }));
 
@@ -42,6 +45,18 @@ export default async function StudyOverviewPage({ params }: { params: Promise<{ 
             canEdit={canStudy(study.role, 'study.update')}
             canArchive={canStudy(study.role, 'study.archive')}
           />
+        </section>
+
+        <section aria-labelledby="diagram-heading" className="rounded-lg border border-line bg-white p-5">
+          <div className="mb-3 flex flex-wrap items-baseline justify-between gap-2">
+            <h2 id="diagram-heading" className="text-lg font-bold">
+              Design at a glance
+            </h2>
+            <Link href={`/studies/${study.id}/design`} className="text-sm font-semibold text-brand underline">
+              Open the design
+            </Link>
+          </div>
+          <DesignDiagram design={designState.design} id="overview-diagram" title={`Design of ${study.title}`} />
         </section>
 
         <section aria-labelledby="team-heading" className="space-y-3">

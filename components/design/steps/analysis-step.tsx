@@ -1,0 +1,122 @@
+'use client';
+
+import { SelectField, TextAreaField } from '@/components/ui/field';
+import { analysisSchema } from '@/lib/design/schema';
+import { asOptional, errorAt, useStepForm } from '../step-form';
+import type { StepProps } from './types';
+
+export function AnalysisStep({ value, design, onValid, onDraft, disabled }: StepProps<'analysis'>) {
+  const form = useStepForm(analysisSchema, value, onValid, onDraft);
+  const { register, formState, watch } = form;
+  const e = formState.errors as Record<string, unknown>;
+  const method = watch('method');
+  const levels = design.structure.levels;
+  const random = levels.filter((l) => l.kind !== 'replicate');
+  return (
+    <fieldset disabled={disabled} className="space-y-4">
+      <legend className="sr-only">Analysis plan</legend>
+      <p className="text-sm text-muted">What the team intends to run. The checks compare it with the design and say what the design calls for.</p>
+      <SelectField label="Planned analysis" {...register('method', asOptional)} error={errorAt(e, 'method')}>
+        <option value="">Choose…</option>
+        <option value="t-test">t-test comparing the arms</option>
+        <option value="linear-regression">Linear regression (ordinary least squares)</option>
+        <option value="ancova">ANCOVA adjusting for baseline</option>
+        <option value="mixed-model">Linear mixed model (random effects)</option>
+        <option value="gee">GEE</option>
+        <option value="cluster-means">Analysis of cluster or unit means</option>
+        <option value="glm">Generalised linear model (GLM)</option>
+        <option value="glmm">Generalised linear mixed model (GLMM)</option>
+        <option value="robust-regression">Robust regression</option>
+        <option value="other">Other</option>
+      </SelectField>
+      <SelectField
+        label="Unit counted as n"
+        help="Which units the analysis treats as independent observations: every row of data, or the means of a higher level."
+        {...register('unitOfAnalysisLevelId', asOptional)}
+        error={errorAt(e, 'unitOfAnalysisLevelId')}
+      >
+        <option value="">Choose…</option>
+        {levels.map((l) => (
+          <option key={l.id} value={l.id}>
+            {l.name}
+          </option>
+        ))}
+      </SelectField>
+      {(method === 'mixed-model' || method === 'glmm') && (
+        <fieldset className="space-y-1">
+          <legend className="text-sm font-semibold">Random intercepts for</legend>
+          {random.map((l) => (
+            <label key={l.id} className="flex items-center gap-2 text-sm">
+              <input type="checkbox" value={l.id} {...register('randomIntercepts')} /> {l.name}
+            </label>
+          ))}
+          <label className="mt-2 flex items-center gap-2 text-sm">
+            <input type="checkbox" {...register('randomSlopeForTime')} /> A random slope for time (units change at different rates)
+          </label>
+        </fieldset>
+      )}
+      <div className="grid gap-3 sm:grid-cols-2">
+        <SelectField label="Family (for a GLM or GLMM)" {...register('glmFamily', asOptional)}>
+          <option value="">Not applicable</option>
+          <option value="gaussian">Gaussian</option>
+          <option value="binomial">Binomial (logistic)</option>
+          <option value="poisson">Poisson</option>
+          <option value="negative-binomial">Negative binomial</option>
+          <option value="gamma">Gamma</option>
+          <option value="beta">Beta</option>
+        </SelectField>
+        <SelectField label="Standard errors" {...register('standardErrors')}>
+          <option value="model">From the model</option>
+          <option value="hc3">Robust (HC3)</option>
+          <option value="cluster-robust">Cluster-robust</option>
+          <option value="cr2">Cluster-robust, small-sample (CR2)</option>
+        </SelectField>
+        <SelectField label="Degrees of freedom" {...register('dfMethod')}>
+          <option value="residual">Residual</option>
+          <option value="satterthwaite">Satterthwaite</option>
+          <option value="kenward-roger">Kenward–Roger</option>
+          <option value="between-within">Between–within</option>
+        </SelectField>
+        <SelectField label="Scale of the outcome" {...register('transformation')}>
+          <option value="none">As measured</option>
+          <option value="log">Log scale</option>
+          <option value="other">Other transformation</option>
+        </SelectField>
+        <SelectField label="Time in the model" {...register('timeModel')}>
+          <option value="not-applicable">Not applicable</option>
+          <option value="categorical">Each occasion separately</option>
+          <option value="linear">Linear trend</option>
+          <option value="polynomial">Polynomial</option>
+          <option value="spline">Spline</option>
+        </SelectField>
+        <SelectField label="Correlation between occasions in the model" {...register('covarianceStructure')}>
+          <option value="not-applicable">Not applicable</option>
+          <option value="independence">Independence</option>
+          <option value="exchangeable">Exchangeable</option>
+          <option value="ar1">AR(1)</option>
+          <option value="unstructured">Unstructured</option>
+        </SelectField>
+        <SelectField label="Missing data" {...register('missingData')}>
+          <option value="not-planned">Not planned yet</option>
+          <option value="complete-case">Complete cases only</option>
+          <option value="mixed-model-mar">All data, mixed model (missing at random)</option>
+          <option value="multiple-imputation">Multiple imputation</option>
+        </SelectField>
+        <SelectField label="Several primary outcomes" {...register('multiplicity')}>
+          <option value="none">No adjustment</option>
+          <option value="bonferroni">Bonferroni</option>
+          <option value="holm">Holm</option>
+          <option value="hierarchical">Fixed order (hierarchical testing)</option>
+        </SelectField>
+      </div>
+      <label className="flex items-center gap-2 text-sm">
+        <input type="checkbox" {...register('adjustsForBaseline')} /> Adjusts for the baseline measurement
+      </label>
+      <label className="flex items-center gap-2 text-sm">
+        <input type="checkbox" {...register('modelVariance')} /> Models a different variance per arm
+      </label>
+      <TextAreaField label="Plan for outliers" rows={2} {...register('outlierPlan')} error={errorAt(e, 'outlierPlan')} />
+      <TextAreaField label="Notes" rows={3} {...register('notes')} error={errorAt(e, 'notes')} />
+    </fieldset>
+  );
+}
