@@ -23,6 +23,9 @@ const ACTIVITY_WORDS: Record<string, string> = {
   'invitation.revoked': 'revoked an invitation',
   'member.role-changed': 'changed a member’s role',
   'member.removed': 'removed a member',
+  'design.saved': 'saved the design',
+  'finding.addressed': 'marked a finding addressed',
+  'finding.reopened': 'reopened a finding',
 };
 
 export default async function StudyOverviewPage({ params }: { params: Promise<{ studyId: string }> }) {
