@@ -1,7 +1,7 @@
 /**
  * The published methods the rules cite. `full` keeps what PRODUCT.md gives (its note: titles
- * from memory, verify details before citing); nothing is added except the titles of two books
- * PRODUCT.md names without one. The last group is outside PRODUCT.md's list: three standard
+ * from memory, verify details before citing); nothing is added except the titles of three books
+ * PRODUCT.md names without one (the Fleiss, Levin & Paik title is from memory). The last group is outside PRODUCT.md's list: three standard
  * references the list has no entry for (multiplicity, GLM families, extrapolation). Verify all
  * of them before a reference list is exported.
  */
@@ -19,7 +19,7 @@ export const LAZIC_2010 = cite('Lazic 2010', 'Lazic (2010). BMC Neurosci 11:5.')
 export const FRISON_POCOCK_1992 = cite('Frison & Pocock 1992', 'Frison & Pocock (1992). Stat Med 11:1685.');
 export const VICKERS_ALTMAN_2001 = cite('Vickers & Altman 2001', 'Vickers & Altman (2001). BMJ 323:1123.');
 export const DIGGLE_2002 = cite('Diggle et al. 2002', 'Diggle, Heagerty, Liang & Zeger (2002). Analysis of Longitudinal Data (2nd ed.).');
-export const FLEISS_2003 = cite('Fleiss, Levin & Paik 2003', 'Fleiss, Levin & Paik (2003).');
+export const FLEISS_2003 = cite('Fleiss, Levin & Paik 2003', 'Fleiss, Levin & Paik (2003). Statistical Methods for Rates and Proportions (3rd ed.).');
 export const MORRIS_2019 = cite('Morris, White & Crowther 2019', 'Morris, White & Crowther (2019). Stat Med 38:2074.');
 export const MACKINNON_WHITE_1985 = cite('MacKinnon & White 1985', 'MacKinnon & White (1985).');
 export const BELL_MCCAFFREY_2002 = cite('Bell & McCaffrey 2002', 'Bell & McCaffrey (2002).');
@@ -43,3 +43,10 @@ export function uniqueCitations(list: readonly Citation[]): Citation[] {
   const seen = new Set<string>();
   return list.filter((c) => (seen.has(c.short) ? false : (seen.add(c.short), true)));
 }
+
+// Appended for the analytic calculations (lib/stats/calculations). Title from PRODUCT.md; the
+// publisher is from memory: verify before export.
+export const COHEN_1988 = cite(
+  'Cohen 1988',
+  'Cohen (1988). Statistical Power Analysis for the Behavioral Sciences (2nd ed.). Hillsdale, NJ: Lawrence Erlbaum.',
+);

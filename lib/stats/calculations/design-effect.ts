@@ -1,0 +1,48 @@
+/**
+ * The design-effect calculation: DE = 1 + ((cv² + 1)·m − 1)·ICC (Eldridge et al. 2006; Kish
+ * 1965 with equal sizes), the effective sample size N/DE of a given total, and the real
+ * false-positive rate 2·(1 − Φ(z₁₋α/2/√DE)) of a test at level α that ignores the clustering.
+ * A thin layer over lib/stats/design-effect.ts; it solves nothing.
+ */
+import { DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/rules/citations';
+import { designEffect as de, effectiveSampleSize, naiveTypeIError } from '@/lib/stats/design-effect';
+import type { CalculationRequest } from '@/lib/validation/calculations';
+import { formatNumber } from './adjust';
+import { fullReferences } from './output';
+import type { CalculationOutput } from './types';
+
+export type DesignEffectRequest = Extract<CalculationRequest, { kind: 'design-effect' }>;
+
+export function designEffectCalculation(request: DesignEffectRequest): CalculationOutput {
+  const { icc, clusterSize, cv, alpha, totalObservations } = request;
+  const value = de({ clusterSize, icc, cv });
+  const naive = naiveTypeIError({ designEffect: value, alpha });
+  const warnings: string[] = [];
+  if (value > 1) {
+    warnings.push(
+      `An analysis that ignores the clustering would reject a true null hypothesis about ${formatNumber(naive * 100)}% of the time instead of ${formatNumber(alpha * 100)}% (a large-sample figure; with few clusters it is higher).`,
+    );
+  }
+  if (cv > 0) warnings.push(`The coefficient of variation ${cv} allows for unequal cluster sizes; clusterSize is the mean size.`);
+  return {
+    kind: 'design-effect',
+    solvedFor: null,
+    result: {
+      icc,
+      clusterSize,
+      cv,
+      alpha,
+      designEffect: value,
+      totalObservations: totalObservations ?? null,
+      effectiveSampleSize: totalObservations === undefined ? null : effectiveSampleSize(totalObservations, value),
+      naiveTypeIError: naive,
+    },
+    feasibility: 'ok',
+    method: 'Design effect for clusters of mean size m with intracluster correlation ICC (Kish 1965; unequal sizes, Eldridge et al. 2006).',
+    formula:
+      'Design effect = 1 + ((cv² + 1) × m − 1) × ICC; effective sample size = total observations / design effect; ' +
+      'false-positive rate of an analysis that ignores clustering = 2 × (1 − Φ(z for alpha/2 / √design effect)).',
+    references: fullReferences([KISH_1965, ELDRIDGE_2006, DONNER_KLAR_2000]),
+    warnings,
+  };
+}

@@ -1,0 +1,60 @@
+/**
+ * Pieces every calculation's output shares: references as full citations, the sentences for
+ * impossible targets, and the attrition and multiplicity fields of `result`.
+ */
+import { uniqueCitations } from '@/lib/rules/citations';
+import type { Citation } from '@/lib/rules/types';
+import { formatNumber } from './adjust';
+import type { Feasibility } from './types';
+
+export function fullReferences(list: readonly Citation[]): string[] {
+  return uniqueCitations(list).map((c) => c.full);
+}
+
+/**
+ * The sentence for a size that is 'already-met' or 'unreachable' (none for 'ok').
+ * `what` names the size ('participants per group'), `limit` the size reported.
+ */
+export function sizeFeasibilityWarning(feasibility: Feasibility, what: string, size: number, power: number, target: number): string[] {
+  if (feasibility === 'already-met') {
+    return [
+      `The target power ${formatNumber(target)} is already reached with the smallest allowed number of ${what} (${size}), ` +
+        `which gives power ${formatNumber(power)}.`,
+    ];
+  }
+  if (feasibility === 'unreachable') {
+    return [
+      `No number of ${what} up to the largest allowed (${size.toLocaleString('en-GB')}) reaches power ${formatNumber(target)}; ` +
+        `that many give power ${formatNumber(power)}. Consider a larger effect, fewer outcomes or a different design.`,
+    ];
+  }
+  return [];
+}
+
+export function effectFeasibilityWarning(feasibility: Feasibility, what: string, effect: number, power: number, target: number): string[] {
+  return feasibility === 'unreachable'
+    ? [
+        `No ${what} in the allowed range reaches power ${formatNumber(target)}; the nearest, ${formatNumber(effect)}, gives power ${formatNumber(power)}. ` +
+          'Increase the sample size.',
+      ]
+    : [];
+}
+
+export const TWO_SIDED = (sides: 1 | 2) => (sides === 2 ? 'two-sided' : 'one-sided');
+
+export interface TestSettings {
+  alpha: number;
+  alphaAdjusted: number;
+  outcomes: number;
+  multiplicity: string;
+  /** The achieved power (at the solved size or effect, or the one computed). */
+  power: number;
+  /** The requested power, or null when power was what was solved for. */
+  targetPower: number | null;
+}
+
+/** The significance and power part of every `result`, under the API's names. */
+export function testSettings(settings: TestSettings): Record<string, number | string | null> {
+  const { alpha, alphaAdjusted, outcomes, multiplicity, power, targetPower } = settings;
+  return { alpha, alphaAdjusted, outcomes, multiplicity, power, targetPower };
+}

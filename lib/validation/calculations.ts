@@ -1,0 +1,187 @@
+/**
+ * Inputs of the analytic calculations (POST /api/v1/calculations, the calculator pages and the
+ * Plan tab). One schema per kind, joined by `kind`; each kind names the quantities it can solve
+ * for (`SOLVABLE`). The caller leaves exactly one of them out — or names it in `solveFor` — and
+ * the calculation returns it. Sizes are the numbers that are analysed; `dropout` and
+ * `clusterDropout` inflate them to the numbers to recruit.
+ *
+ * Bounds keep every calculation finite and fast; the messages say what to fix.
+ */
+import { z } from 'zod';
+
+const num = (label: string) => z.number({ error: `${label} must be a number.` }).finite(`${label} must be finite.`);
+const positive = (label: string, max = 1e9) => num(label).gt(0, `${label} must be above 0.`).max(max, `${label} can be at most ${max.toLocaleString('en-GB')}.`);
+const whole = (label: string, min: number, max: number) =>
+  z
+    .number({ error: `${label} must be a number.` })
+    .int(`${label} must be a whole number.`)
+    .min(min, `${label} is at least ${min}.`)
+    .max(max, `${label} can be at most ${max.toLocaleString('en-GB')}.`);
+const openUnit = (label: string) => num(label).gt(0, `${label} must be above 0.`).lt(1, `${label} must be below 1.`);
+
+/** Shared by every kind: significance level, target power, attrition and several outcomes. */
+const common = {
+  alpha: num('alpha').gt(0, 'alpha must be above 0.').max(0.5, 'alpha can be at most 0.5.').default(0.05),
+  power: num('power').gt(0, 'power must be above 0.').max(0.9999, 'power can be at most 0.9999.').optional(),
+  /** Share of units expected to be lost before the analysis, 0 ≤ d < 1. */
+  dropout: num('dropout').min(0, 'dropout is at least 0.').max(0.9, 'dropout can be at most 0.9.').default(0),
+  /** Number of primary outcomes tested, each at the adjusted alpha. */
+  outcomes: whole('outcomes', 1, 100).default(1),
+  multiplicity: z.enum(['none', 'bonferroni', 'holm'], { error: 'multiplicity is none, bonferroni or holm.' }).default('none'),
+  solveFor: z.string().optional(),
+};
+
+const sides = z.union([z.literal(1), z.literal(2)], { error: 'sides is 1 or 2.' }).default(2);
+
+export const twoGroupMeansSchema = z
+  .object({
+    kind: z.literal('two-group-means'),
+    delta: positive('delta').optional(),
+    sd: positive('sd'),
+    nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
+    ratio: num('ratio').min(0.01, 'ratio is at least 0.01.').max(100, 'ratio can be at most 100.').default(1),
+    sides,
+    ...common,
+  })
+  .meta({ id: 'TwoGroupMeans', description: 'Difference between two independent means (t test).' });
+
+export const regressionSchema = z
+  .object({
+    kind: z.literal('regression'),
+    f2: positive('f2', 1e4).optional(),
+    slope: positive('slope').optional(),
+    sdX: positive('sdX').optional(),
+    residualSd: positive('residualSd').optional(),
+    testedPredictors: whole('testedPredictors', 1, 1000).default(1),
+    predictors: whole('predictors', 1, 1000).optional(),
+    n: whole('n', 3, 10_000_000).optional(),
+    ...common,
+  })
+  .meta({ id: 'Regression', description: 'F test of testedPredictors of predictors in a linear regression.' });
+
+export const clusterMeansSchema = z
+  .object({
+    kind: z.literal('cluster-means'),
+    delta: positive('delta').optional(),
+    sd: positive('sd'),
+    icc: num('icc').min(0, 'icc is at least 0.').max(1, 'icc is at most 1.'),
+    clusterSize: whole('clusterSize', 1, 1_000_000).optional(),
+    cv: num('cv').min(0, 'cv is at least 0.').max(3, 'cv can be at most 3.').default(0),
+    clustersPerArm: whole('clustersPerArm', 2, 1_000_000).optional(),
+    /** Share of whole clusters expected to drop out. */
+    clusterDropout: num('clusterDropout').min(0, 'clusterDropout is at least 0.').max(0.9, 'clusterDropout can be at most 0.9.').default(0),
+    sides,
+    ...common,
+  })
+  .meta({ id: 'ClusterMeans', description: 'Two arms randomised by cluster, compared on cluster means.' });
+
+export const repeatedMeasuresSchema = z
+  .object({
+    kind: z.literal('repeated-measures'),
+    delta: positive('delta').optional(),
+    sd: positive('sd'),
+    rho: num('rho').min(0, 'rho is at least 0.').lt(1, 'rho must be below 1.'),
+    baselines: whole('baselines', 0, 50).default(1),
+    followUps: whole('followUps', 1, 50).default(1),
+    analysis: z.enum(['post', 'change', 'ancova'], { error: 'analysis is post, change or ancova.' }).default('ancova'),
+    nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
+    sides,
+    ...common,
+  })
+  .meta({ id: 'RepeatedMeasures', description: 'Two groups, mean of baselines and of follow-ups (Frison & Pocock 1992).' });
+
+export const longitudinalSlopesSchema = z
+  .object({
+    kind: z.literal('longitudinal-slopes'),
+    slopeDifference: positive('slopeDifference').optional(),
+    sd: positive('sd'),
+    rho: num('rho').min(0, 'rho is at least 0.').lt(1, 'rho must be below 1.'),
+    times: z.array(num('Each time'), { error: 'times must be a list of numbers.' }).min(2, 'Give at least two times.').max(200, 'At most 200 times.'),
+    nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
+    sides,
+    ...common,
+  })
+  .meta({ id: 'LongitudinalSlopes', description: 'Difference in rates of change between two groups (Diggle et al. 2002).' });
+
+export const twoProportionsSchema = z
+  .object({
+    kind: z.literal('two-proportions'),
+    p1: openUnit('p1'),
+    p2: openUnit('p2').optional(),
+    nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
+    sides,
+    continuityCorrection: z.boolean().default(false),
+    /** When solving for p2: whether it lies above p1 (the default) or below. */
+    direction: z.enum(['higher', 'lower'], { error: 'direction is higher or lower.' }).optional(),
+    icc: num('icc').min(0, 'icc is at least 0.').max(1, 'icc is at most 1.').optional(),
+    clusterSize: whole('clusterSize', 1, 1_000_000).optional(),
+    cv: num('cv').min(0, 'cv is at least 0.').max(3, 'cv can be at most 3.').default(0),
+    ...common,
+  })
+  .meta({ id: 'TwoProportions', description: 'Two independent proportions (normal approximation), optionally clustered.' });
+
+export const designEffectSchema = z
+  .object({
+    kind: z.literal('design-effect'),
+    icc: num('icc').min(0, 'icc is at least 0.').max(1, 'icc is at most 1.'),
+    clusterSize: num('clusterSize').min(1, 'clusterSize is at least 1.').max(1_000_000),
+    cv: num('cv').min(0, 'cv is at least 0.').max(3, 'cv can be at most 3.').default(0),
+    totalObservations: whole('totalObservations', 1, 1_000_000_000).optional(),
+    alpha: common.alpha,
+  })
+  .meta({ id: 'DesignEffect', description: 'Design effect, effective sample size and the false-positive rate of an analysis that ignores clustering.' });
+
+export const optimalAllocationSchema = z
+  .object({
+    kind: z.literal('optimal-allocation'),
+    icc: num('icc').gt(0, 'icc must be above 0 for an optimum to exist.').lt(1, 'icc must be below 1.'),
+    costPerCluster: positive('costPerCluster'),
+    costPerUnit: positive('costPerUnit'),
+    budget: positive('budget', 1e12).optional(),
+    delta: positive('delta').optional(),
+    sd: positive('sd').optional(),
+    alpha: common.alpha,
+    power: common.power,
+    sides,
+    /** Optional here (absent means 1 and 'none'): the significance level for several outcomes. */
+    outcomes: common.outcomes.unwrap().optional(),
+    multiplicity: common.multiplicity.unwrap().optional(),
+  })
+  .meta({ id: 'OptimalAllocation', description: 'Cluster size that minimises cost per unit of information (Raudenbush 1997), with clusters for a budget or the budget for a target.' });
+
+export const calculationSchema = z
+  .discriminatedUnion(
+    'kind',
+    [
+      twoGroupMeansSchema,
+      regressionSchema,
+      clusterMeansSchema,
+      repeatedMeasuresSchema,
+      longitudinalSlopesSchema,
+      twoProportionsSchema,
+      designEffectSchema,
+      optimalAllocationSchema,
+    ],
+    { error: 'kind must be one of two-group-means, regression, cluster-means, repeated-measures, longitudinal-slopes, two-proportions, design-effect, optimal-allocation.' },
+  )
+  .meta({ id: 'CalculationRequest' });
+
+export type CalculationRequest = z.infer<typeof calculationSchema>;
+export type CalculationKind = CalculationRequest['kind'];
+export const CALCULATION_KINDS = calculationSchema.options.map((o) => o.shape.kind.value) as CalculationKind[];
+
+/**
+ * The quantities each kind can solve for: the caller leaves exactly one out (or names it in
+ * `solveFor`). The effect of regression is f2 — or slope when sdX and residualSd are given.
+ * design-effect solves nothing; optimal-allocation solves what its inputs imply.
+ */
+export const SOLVABLE: Record<CalculationKind, readonly string[]> = {
+  'two-group-means': ['power', 'nPerGroup', 'delta'],
+  regression: ['power', 'n', 'f2'],
+  'cluster-means': ['power', 'clustersPerArm', 'clusterSize', 'delta'],
+  'repeated-measures': ['power', 'nPerGroup', 'delta'],
+  'longitudinal-slopes': ['power', 'nPerGroup', 'slopeDifference'],
+  'two-proportions': ['power', 'nPerGroup', 'p2'],
+  'design-effect': [],
+  'optimal-allocation': [],
+};
