@@ -2,10 +2,13 @@
  * Runs every `*.bench.ts` in this folder and reports mean, median and 99th-percentile time per
  * call in microseconds. Speed targets are reported here, never asserted in tests.
  *
- *   npm run bench            a table per file
- *   npm run bench -- --json  one JSON line per benchmark (for scripts and CI logs)
+ *   npm run bench                 a table per file
+ *   npm run bench -- --json       one JSON line per benchmark (for scripts and CI logs)
+ *   npm run bench -- sim          only the files whose name contains "sim"
  *
- * A bench file exports `benchmarks: Benchmark[]`.
+ * A bench file exports `benchmarks: Benchmark[]` (many timed calls of a small function), and/or
+ * `throughput: Throughput[]` (one long run of a workload that measures itself — e.g. replicates
+ * per second of a simulation — and returns a flat record; with --json, one line per workload).
  */
 import { readdirSync } from 'node:fs';
 import path from 'node:path';
@@ -32,6 +35,18 @@ export interface BenchResult {
   maxUs: number;
   targetMeanUs?: number;
   meetsTarget?: boolean;
+}
+
+/** A workload that runs once and reports its own figures. */
+export interface Throughput {
+  name: string;
+  run: () => ThroughputResult | Promise<ThroughputResult>;
+}
+
+/** The figures of one throughput run: `name`, then any flat fields (numbers, strings, booleans). */
+export interface ThroughputResult {
+  name: string;
+  [field: string]: string | number | boolean | null;
 }
 
 /** Keeps results alive so the engine cannot drop the timed calls. */
@@ -64,11 +79,14 @@ export function measure(file: string, b: Benchmark): BenchResult {
 
 async function main(): Promise<void> {
   const json = process.argv.includes('--json');
+  const filters = process.argv.slice(2).filter((a) => !a.startsWith('--'));
   const dir = path.dirname(fileURLToPath(import.meta.url));
-  const files = readdirSync(dir).filter((f) => f.endsWith('.bench.ts')).sort();
+  const files = readdirSync(dir)
+    .filter((f) => f.endsWith('.bench.ts') && (filters.length === 0 || filters.some((s) => f.includes(s))))
+    .sort();
   const r1 = (x: number) => x.toFixed(1);
   for (const file of files) {
-    const mod = (await import(pathToFileURL(path.join(dir, file)).href)) as { benchmarks?: Benchmark[] };
+    const mod = (await import(pathToFileURL(path.join(dir, file)).href)) as { benchmarks?: Benchmark[]; throughput?: Throughput[] };
     const list = mod.benchmarks ?? [];
     if (!json) console.log(`\n${file}`);
     for (const b of list) {
@@ -79,6 +97,11 @@ async function main(): Promise<void> {
           `  ${r.name.padEnd(40)} mean ${r1(r.meanUs).padStart(8)} µs   median ${r1(r.medianUs).padStart(8)} µs   p99 ${r1(r.p99Us).padStart(8)} µs   (${r.iterations} runs)` +
             (r.targetMeanUs !== undefined ? `   target ${r.targetMeanUs} µs: ${r.meetsTarget ? 'met' : 'NOT met'}` : ''),
         );
+    }
+    for (const t of mod.throughput ?? []) {
+      const r = await t.run();
+      if (json) console.log(JSON.stringify({ file, ...r }));
+      else console.log(`  ${r.name}\n${Object.entries(r).filter(([k]) => k !== 'name').map(([k, v]) => `      ${k.padEnd(28)} ${v}`).join('\n')}`);
     }
   }
   void sink;

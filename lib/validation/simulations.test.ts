@@ -1,0 +1,85 @@
+import { describe, expect, it } from 'vitest';
+import { scenarioKey, simulationSpecSchema, type SimulationSpecInput } from './simulations';
+
+const base: SimulationSpecInput = {
+  design: { arms: 2, clustersPerArm: 10, clusterSize: 20 },
+  truth: { effect: 0.3, sd: 1, icc: 0.1 },
+  scenarios: [{ violation: 'none' }],
+  analyses: ['ols', 'mixed'],
+  replicates: 1000,
+  seed: 42,
+  alpha: 0.05,
+};
+
+/** The messages of a failed parse, as "path: message". */
+function problems(input: unknown): string[] {
+  const result = simulationSpecSchema.safeParse(input);
+  expect(result.success, 'the specification should be refused').toBe(false);
+  return result.success ? [] : result.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`);
+}
+
+describe('simulationSpecSchema', () => {
+  it('fills the defaults of each scenario and of the specification', () => {
+    const spec = simulationSpecSchema.parse({
+      design: { arms: 2, unitsPerArm: [40, 60], occasions: 4 },
+      truth: { effect: 0.2, sd: 2 },
+      scenarios: [
+        { violation: 'skewed' },
+        { violation: 'heavy-tailed' },
+        { violation: 'outliers' },
+        { violation: 'unequal-variance' },
+        { violation: 'nonlinear' },
+        { violation: 'serial' },
+      ],
+      analyses: ['ols'],
+    });
+    expect(spec.scenarios).toEqual([
+      { violation: 'skewed', sigmaLog: 0.8 },
+      { violation: 'heavy-tailed', df: 3 },
+      { violation: 'outliers', fraction: 0.05, scale: 5 },
+      { violation: 'unequal-variance', model: 'arm', sdRatio: 2 },
+      { violation: 'nonlinear', shape: 'quadratic', strength: 1 },
+      { violation: 'serial', ar: 0.5 },
+    ]);
+    expect(spec.truth).toMatchObject({ icc: 0, occasionCorrelation: 0, randomSlopeSd: 0, family: 'gaussian' });
+    expect(spec.design).toMatchObject({ clusterSizeCv: 0, target: 'treat' });
+    expect([spec.replicates, spec.seed, spec.alpha]).toEqual([1000, 1, 0.05]);
+    expect(spec.scenarios.map(scenarioKey)).toEqual(['skewed', 'heavy-tailed', 'outliers', 'unequal-variance', 'nonlinear', 'serial']);
+  });
+
+  it('accepts the reference cluster design', () => {
+    expect(simulationSpecSchema.safeParse(base).success).toBe(true);
+  });
+
+  it.each<[string, unknown, string]>([
+    ['three arms', { ...base, design: { ...base.design, arms: 3 } }, 'design.arms: arms must be 2'],
+    ['clusters and units', { ...base, design: { ...base.design, unitsPerArm: 50 } }, 'design.unitsPerArm: Give either clustersPerArm with clusterSize, or unitsPerArm, not both.'],
+    ['no units at all', { ...base, design: { arms: 2 }, truth: { effect: 1, sd: 1 } }, 'design.unitsPerArm: Give unitsPerArm, or clustersPerArm with clusterSize.'],
+    ['a cluster size without clusters', { ...base, design: { arms: 2, unitsPerArm: 10, clusterSize: 5 }, truth: { effect: 1, sd: 1 } }, 'design.clustersPerArm: clustersPerArm is needed with clusterSize.'],
+    ['times that do not match the occasions', { ...base, design: { ...base.design, occasions: 3, times: [0, 1] } }, 'design.times: times needs one value per occasion'],
+    ['times that go back', { ...base, design: { ...base.design, occasions: 3, times: [0, 2, 1] } }, 'design.times: times must increase'],
+    ['a slope target without occasions', { ...base, design: { ...base.design, target: 'treat:time' } }, 'design.target: A difference in slopes (treat:time) needs occasions.'],
+    ['an unreachable cluster-size CV', { ...base, design: { arms: 2, clustersPerArm: 2, clusterSize: 20, clusterSizeCv: 1.5 } }, 'design.clusterSizeCv: a cluster-size CV of 1.5 cannot be reached with 2 clusters per arm'],
+    ['an ICC without clusters', { ...base, design: { arms: 2, unitsPerArm: 50 } }, 'truth.icc: icc needs clusters'],
+    ['a gaussian outcome without sd', { ...base, truth: { effect: 0.3, icc: 0.1 } }, 'truth.sd: sd is needed for a gaussian outcome.'],
+    ['a random slope without occasions', { ...base, truth: { ...base.truth, randomSlopeSd: 0.1 } }, 'truth.randomSlopeSd: randomSlopeSd needs occasions.'],
+    ['ν = 2 for heavy tails', { ...base, scenarios: [{ violation: 'heavy-tailed', df: 2 }] }, 'scenarios.0.df: df must be above 2, so that the errors have a finite SD.'],
+    ['serial correlation without occasions', { ...base, scenarios: [{ violation: 'serial' }] }, 'scenarios.0.violation: serial correlation needs occasions.'],
+    ['an unknown violation', { ...base, scenarios: [{ violation: 'gremlins' }] }, 'violation is one of none, skewed'],
+    ['two scenarios with one name', { ...base, scenarios: [{ violation: 'outliers' }, { violation: 'outliers', scale: 10 }] }, 'scenarios.1.name: Two scenarios are called "outliers": give each a different name.'],
+    ['a skewed binary outcome', { ...base, truth: { effect: 0.5, icc: 0.1, family: 'binary' }, scenarios: [{ violation: 'skewed' }] }, 'scenarios.0.violation: skewed applies to gaussian outcomes'],
+    ['a binary baseline of 1.5', { ...base, truth: { effect: 0.5, icc: 0.1, family: 'binary', baseline: 1.5 } }, 'truth.baseline: For a binary outcome, baseline is a probability between 0 and 1.'],
+    ['a count baseline of 0', { ...base, truth: { effect: 0.5, icc: 0.1, family: 'count', baseline: 0 } }, 'truth.baseline: For a count outcome, baseline is a mean count above 0.'],
+    ['a slope target for a binary outcome', { ...base, design: { arms: 2, unitsPerArm: 50, occasions: 3, target: 'treat:time' }, truth: { effect: 0.5, family: 'binary' } }, 'design.target: Binary and count outcomes take target treat'],
+    ['glm on a gaussian outcome', { ...base, analyses: ['glm'] }, 'analyses: glm needs a binary or count outcome (family).'],
+    ['an analysis named twice', { ...base, analyses: ['ols', 'ols'] }, 'analyses: Name each analysis once.'],
+    ['an unknown analysis', { ...base, analyses: ['anova'] }, 'analyses.0: Each analysis is one of ols'],
+    ['too many replicates', { ...base, replicates: 100_001 }, 'replicates: replicates can be at most 100,000.'],
+    ['too many rows', { ...base, design: { arms: 2, clustersPerArm: 100, clusterSize: 300 } }, 'design: The design has 60,000 rows per data set; at most 50,000 are simulated.'],
+    ['too much work', { ...base, design: { arms: 2, clustersPerArm: 100, clusterSize: 200 }, replicates: 100_000 }, 'replicates: replicates × scenarios × rows (4,000,000,000) can be at most 500,000,000'],
+    ['alpha above 0.5', { ...base, alpha: 0.6 }, 'alpha: alpha can be at most 0.5.'],
+    ['a fractional seed', { ...base, seed: 1.5 }, 'seed: seed must be a whole number.'],
+  ])('refuses %s, saying what to fix', (_case, input, message) => {
+    expect(problems(input).some((p) => p.includes(message)), `${JSON.stringify(problems(input))} should contain "${message}"`).toBe(true);
+  });
+});

@@ -1,0 +1,252 @@
+/**
+ * The compact specification of a stress test (POST /api/v1/simulations): the design, the truth,
+ * the scenarios (one violated assumption each, with its parameters), the analyses to compare,
+ * and the number of replicates, seed and alpha.
+ *
+ * Bounds keep a job finite: at most 100,000 replicates, 50,000 rows per data set, 20 scenarios,
+ * and replicates × scenarios × rows ≤ 500 million generated observations per hypothesis. Scenario
+ * parameters have defaults (heavy-tailed ν = 3; outliers fraction 0.05, scale 5; unequal variance
+ * by arm with sdRatio 2; nonlinear quadratic of strength 1; serial AR(1) 0.5; skewed: standardised
+ * log-normal with σ_log 0.8). Messages say what to fix.
+ */
+import { z } from 'zod';
+import { ANALYSIS_NAMES } from '@/lib/models/types';
+import { clusterSizes } from '@/lib/sim/cluster-sizes';
+
+export const MAX_REPLICATES = 100_000;
+export const MAX_ROWS = 50_000;
+export const MAX_SCENARIOS = 20;
+export const MAX_GENERATED_OBSERVATIONS = 500_000_000;
+
+const num = (label: string) => z.number({ error: `${label} must be a number.` }).finite(`${label} must be finite.`);
+const whole = (label: string, min: number, max: number) =>
+  z
+    .number({ error: `${label} must be a number.` })
+    .int(`${label} must be a whole number.`)
+    .min(min, `${label} is at least ${min}.`)
+    .max(max, `${label} can be at most ${max.toLocaleString('en-GB')}.`);
+const between = (label: string, min: number, max: number) =>
+  num(label).min(min, `${label} is at least ${min}.`).max(max, `${label} can be at most ${max}.`);
+
+const unitsPerArm = z.union([whole('unitsPerArm', 2, MAX_ROWS), z.tuple([whole('unitsPerArm[0]', 2, MAX_ROWS), whole('unitsPerArm[1]', 2, MAX_ROWS)])], {
+  error: 'unitsPerArm is a whole number, or a pair [arm 1, arm 2] of whole numbers.',
+});
+
+export const simulationDesignSchema = z
+  .object({
+    arms: z.literal(2, { error: 'arms must be 2: the stress test compares two arms.' }),
+    /** Clusters (classes, trays, practices) per arm; each has `clusterSize` units on average. */
+    clustersPerArm: whole('clustersPerArm', 2, 10_000).optional(),
+    clusterSize: whole('clusterSize', 1, 10_000).optional(),
+    /** Coefficient of variation of the cluster sizes (SD / mean); 0 for equal sizes. */
+    clusterSizeCv: between('clusterSizeCv', 0, 3).default(0),
+    /** Independent units per arm when there are no clusters: one number, or [arm 1, arm 2]. */
+    unitsPerArm: unitsPerArm.optional(),
+    /** Occasions at which each unit is measured (repeated measures). */
+    occasions: whole('occasions', 2, 100).optional(),
+    /** Times of the occasions, increasing; 0, 1, 2, … by default. */
+    times: z.array(num('times[]'), { error: 'times is a list of numbers.' }).optional(),
+    /** The effect of interest: the difference between arms, or (with occasions) the difference in slopes over time. */
+    target: z.enum(['treat', 'treat:time'], { error: 'target is treat or treat:time.' }).default('treat'),
+  })
+  .superRefine((d, ctx) => {
+    const clustered = d.clustersPerArm !== undefined;
+    if (clustered && d.unitsPerArm !== undefined) {
+      ctx.addIssue({ code: 'custom', path: ['unitsPerArm'], message: 'Give either clustersPerArm with clusterSize, or unitsPerArm, not both.' });
+    }
+    if (!clustered && d.unitsPerArm === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['unitsPerArm'], message: 'Give unitsPerArm, or clustersPerArm with clusterSize.' });
+    }
+    if (clustered && d.clusterSize === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['clusterSize'], message: 'clusterSize is needed with clustersPerArm.' });
+    }
+    if (!clustered && d.clusterSize !== undefined) {
+      ctx.addIssue({ code: 'custom', path: ['clustersPerArm'], message: 'clustersPerArm is needed with clusterSize.' });
+    }
+    if (!clustered && d.clusterSizeCv > 0) {
+      ctx.addIssue({ code: 'custom', path: ['clusterSizeCv'], message: 'clusterSizeCv needs clusters: give clustersPerArm and clusterSize.' });
+    }
+    if (d.times !== undefined) {
+      if (d.occasions === undefined || d.times.length !== d.occasions) {
+        ctx.addIssue({ code: 'custom', path: ['times'], message: 'times needs one value per occasion: give occasions and as many times.' });
+      } else if (d.times.some((t, i) => i > 0 && !(t > d.times![i - 1]!))) {
+        ctx.addIssue({ code: 'custom', path: ['times'], message: 'times must increase from one occasion to the next.' });
+      }
+    }
+    if (d.target === 'treat:time' && d.occasions === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['target'], message: 'A difference in slopes (treat:time) needs occasions.' });
+    }
+    if (clustered && d.clusterSize !== undefined && d.clusterSizeCv > 0) {
+      try {
+        clusterSizes(d.clustersPerArm!, d.clusterSize, d.clusterSizeCv);
+      } catch (e) {
+        ctx.addIssue({ code: 'custom', path: ['clusterSizeCv'], message: `${(e as Error).message}.` });
+      }
+    }
+  });
+
+export const simulationTruthSchema = z.object({
+  /** Difference between the arms (or in slopes); on the log-odds scale for binary, the log rate ratio for counts. */
+  effect: between('effect', -1e6, 1e6),
+  /** Total SD of the outcome (gaussian family). */
+  sd: num('sd').gt(0, 'sd must be above 0.').max(1e6, 'sd can be at most 1,000,000.').optional(),
+  /** Share of the variance between clusters. */
+  icc: num('icc').min(0, 'icc is at least 0.').lt(1, 'icc must be below 1.').default(0),
+  /** Correlation of two occasions of one unit beyond its cluster (the unit's share of the remaining variance). */
+  occasionCorrelation: num('occasionCorrelation').min(0, 'occasionCorrelation is at least 0.').lt(1, 'occasionCorrelation must be below 1.').default(0),
+  /** SD of the units' random slopes over time. */
+  randomSlopeSd: between('randomSlopeSd', 0, 1e6).default(0),
+  family: z.enum(['gaussian', 'binary', 'count'], { error: 'family is gaussian, binary or count.' }).default('gaussian'),
+  /**
+   * The first arm's level: gaussian, its mean (default 0; set it well above sd for a positive
+   * outcome that log-ols can analyse); binary, its probability (default 0.3); count, its mean
+   * count (default 5) — for binary and count at zero random effects.
+   */
+  baseline: between('baseline', -1e6, 1e6).optional(),
+  /** Count: the negative-binomial shape k (variance μ + μ²/k); leave out for Poisson counts. */
+  overdispersion: num('overdispersion').gt(0, 'overdispersion must be above 0.').max(1e6, 'overdispersion can be at most 1,000,000.').optional(),
+});
+
+const scenarioName = z
+  .string({ error: 'name must be text.' })
+  .trim()
+  .min(1, 'name is required when given.')
+  .max(60, 'name can be at most 60 characters.')
+  .optional();
+
+const scenario = <V extends string, S extends z.ZodRawShape>(violation: V, shape: S) =>
+  z.object({ violation: z.literal(violation), name: scenarioName, ...shape });
+
+export const scenarioSchema = z.discriminatedUnion(
+  'violation',
+  [
+    scenario('none', {}),
+    scenario('skewed', {
+      /** σ of the log-normal before standardising. */
+      sigmaLog: num('sigmaLog').gt(0, 'sigmaLog must be above 0.').max(2, 'sigmaLog can be at most 2.').default(0.8),
+    }),
+    scenario('heavy-tailed', {
+      df: num('df').gt(2, 'df must be above 2, so that the errors have a finite SD.').max(1000, 'df can be at most 1,000.').default(3),
+    }),
+    scenario('outliers', {
+      fraction: num('fraction').gt(0, 'fraction must be above 0.').max(0.5, 'fraction can be at most 0.5.').default(0.05),
+      scale: num('scale').gt(1, 'scale must be above 1.').max(100, 'scale can be at most 100.').default(5),
+    }),
+    scenario('unequal-variance', {
+      model: z.enum(['arm', 'covariate', 'mean'], { error: 'model is arm, covariate or mean.' }).default('arm'),
+      sdRatio: num('sdRatio').min(0.05, 'sdRatio is at least 0.05.').max(20, 'sdRatio can be at most 20.').default(2),
+    }),
+    scenario('nonlinear', {
+      shape: z.enum(['quadratic', 'logarithmic', 'threshold'], { error: 'shape is quadratic, logarithmic or threshold.' }).default('quadratic'),
+      /** The predictor whose relation is curved; time by default when there are occasions, else a covariate. */
+      on: z.enum(['time', 'covariate'], { error: 'on is time or covariate.' }).optional(),
+      /** Rise of the curve over the predictor's range, in SDs of the outcome. */
+      strength: between('strength', -10, 10).default(1),
+    }),
+    scenario('serial', {
+      ar: num('ar').min(-0.99, 'ar is at least −0.99.').max(0.99, 'ar can be at most 0.99.').default(0.5),
+    }),
+  ],
+  { error: 'violation is one of none, skewed, heavy-tailed, outliers, unequal-variance, nonlinear, serial.' },
+);
+
+export const simulationSpecSchema = z
+  .object({
+    design: simulationDesignSchema,
+    truth: simulationTruthSchema,
+    scenarios: z
+      .array(scenarioSchema, { error: 'scenarios is a list.' })
+      .min(1, 'Give at least one scenario (e.g. {"violation": "none"}).')
+      .max(MAX_SCENARIOS, `Give at most ${MAX_SCENARIOS} scenarios.`),
+    analyses: z
+      .array(z.enum(ANALYSIS_NAMES, { error: `Each analysis is one of ${ANALYSIS_NAMES.join(', ')}.` }), { error: 'analyses is a list.' })
+      .min(1, 'Give at least one analysis.')
+      .max(ANALYSIS_NAMES.length, `Give at most ${ANALYSIS_NAMES.length} analyses.`),
+    replicates: whole('replicates', 10, MAX_REPLICATES).default(1000),
+    seed: whole('seed', 0, Number.MAX_SAFE_INTEGER).default(1),
+    alpha: num('alpha').gt(0, 'alpha must be above 0.').max(0.5, 'alpha can be at most 0.5.').default(0.05),
+  })
+  .superRefine((spec, ctx) => {
+    const { design, truth } = spec;
+    const clustered = design.clustersPerArm !== undefined;
+    const hasOccasions = design.occasions !== undefined;
+    const gaussian = truth.family === 'gaussian';
+    if (gaussian && truth.sd === undefined) ctx.addIssue({ code: 'custom', path: ['truth', 'sd'], message: 'sd is needed for a gaussian outcome.' });
+    if (truth.family === 'binary' && truth.baseline !== undefined && !(truth.baseline > 0 && truth.baseline < 1)) {
+      ctx.addIssue({ code: 'custom', path: ['truth', 'baseline'], message: 'For a binary outcome, baseline is a probability between 0 and 1.' });
+    }
+    if (truth.family === 'count' && truth.baseline !== undefined && !(truth.baseline > 0)) {
+      ctx.addIssue({ code: 'custom', path: ['truth', 'baseline'], message: 'For a count outcome, baseline is a mean count above 0.' });
+    }
+    if (!gaussian && design.target !== 'treat') {
+      ctx.addIssue({ code: 'custom', path: ['design', 'target'], message: 'Binary and count outcomes take target treat (a difference between arms).' });
+    }
+    if (truth.overdispersion !== undefined && truth.family !== 'count') {
+      ctx.addIssue({ code: 'custom', path: ['truth', 'overdispersion'], message: 'overdispersion applies to count outcomes only.' });
+    }
+    if (truth.icc > 0 && !clustered) ctx.addIssue({ code: 'custom', path: ['truth', 'icc'], message: 'icc needs clusters: give clustersPerArm and clusterSize, or set icc to 0.' });
+    if (truth.occasionCorrelation > 0 && !hasOccasions) {
+      ctx.addIssue({ code: 'custom', path: ['truth', 'occasionCorrelation'], message: 'occasionCorrelation needs occasions.' });
+    }
+    if (truth.randomSlopeSd > 0 && !hasOccasions) ctx.addIssue({ code: 'custom', path: ['truth', 'randomSlopeSd'], message: 'randomSlopeSd needs occasions.' });
+
+    const names = new Set<string>();
+    spec.scenarios.forEach((s, i) => {
+      const name = s.name ?? s.violation;
+      if (names.has(name)) {
+        ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'name'], message: `Two scenarios are called "${name}": give each a different name.` });
+      }
+      names.add(name);
+      if (!gaussian && s.violation !== 'none') {
+        ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: `${s.violation} applies to gaussian outcomes; binary and count outcomes take violation none.` });
+      }
+      if (s.violation === 'serial' && !hasOccasions) ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'serial correlation needs occasions.' });
+      if (s.violation === 'nonlinear' && s.on === 'time' && !hasOccasions) {
+        ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'on'], message: 'A curved relation with time needs occasions; use on: covariate.' });
+      }
+    });
+    if (new Set(spec.analyses).size !== spec.analyses.length) ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'Name each analysis once.' });
+    if (spec.analyses.includes('glm') && gaussian) {
+      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'glm needs a binary or count outcome (family).' });
+    }
+
+    const rows = rowsPerDataset(design);
+    if (rows !== undefined && rows > MAX_ROWS) {
+      ctx.addIssue({ code: 'custom', path: ['design'], message: `The design has ${rows.toLocaleString('en-GB')} rows per data set; at most ${MAX_ROWS.toLocaleString('en-GB')} are simulated. Use fewer units, clusters or occasions.` });
+    } else if (rows !== undefined && rows * spec.replicates * spec.scenarios.length > MAX_GENERATED_OBSERVATIONS) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['replicates'],
+        message: `replicates × scenarios × rows (${(rows * spec.replicates * spec.scenarios.length).toLocaleString('en-GB')}) can be at most ${MAX_GENERATED_OBSERVATIONS.toLocaleString('en-GB')}: use fewer replicates or scenarios.`,
+      });
+    }
+  })
+  .meta({ id: 'SimulationSpec', description: 'A stress test: design, truth, scenarios, analyses, replicates, seed and alpha.' });
+
+export type SimulationSpecInput = z.input<typeof simulationSpecSchema>;
+export type SimulationSpec = z.output<typeof simulationSpecSchema>;
+export type SimulationDesign = SimulationSpec['design'];
+export type SimulationTruth = SimulationSpec['truth'];
+export type Scenario = SimulationSpec['scenarios'][number];
+export type Violation = Scenario['violation'];
+
+/** The scenario's key in results: its name, by default its violation. */
+export function scenarioKey(scenario: Scenario): string {
+  return scenario.name ?? scenario.violation;
+}
+
+/** Rows of one data set, or undefined when the design is incomplete (the refinements report that). */
+function rowsPerDataset(design: SimulationDesign): number | undefined {
+  const occasions = design.occasions ?? 1;
+  if (design.clustersPerArm !== undefined && design.clusterSize !== undefined) {
+    try {
+      const sizes = clusterSizes(design.clustersPerArm, design.clusterSize, design.clusterSizeCv);
+      return 2 * sizes.reduce((s, m) => s + m, 0) * occasions;
+    } catch {
+      return undefined;
+    }
+  }
+  if (design.unitsPerArm === undefined) return undefined;
+  const [n1, n2] = typeof design.unitsPerArm === 'number' ? [design.unitsPerArm, design.unitsPerArm] : design.unitsPerArm;
+  return (n1 + n2) * occasions;
+}
