@@ -19,6 +19,9 @@ export default async function LandingPage() {
       <header className="mx-auto flex max-w-6xl items-center justify-between px-4 py-4">
         <Logo />
         <nav aria-label="Account" className="flex gap-2">
+          <Link href="/calculators" className={buttonClass('ghost')}>
+            Calculators
+          </Link>
           {actor ? (
             <Link href="/studies" className={buttonClass('primary')}>
               Your studies

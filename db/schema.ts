@@ -173,6 +173,55 @@ export interface RateLimitTable {
   count: number;
 }
 
+export const SIMULATION_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
+export type SimulationStatus = (typeof SIMULATION_STATUSES)[number];
+
+export interface SimulationTable {
+  id: Generated<string>;
+  /** Null for a run from a compact specification: it belongs to its creator alone. */
+  study_id: string | null;
+  revision_number: number | null;
+  created_by: string | null;
+  spec: Json<unknown>;
+  status: Generated<SimulationStatus>;
+  replicates_total: number;
+  replicates_done: Generated<number>;
+  chunk_size: number;
+  chunk_count: number;
+  /** pg-boss job ids of the chunks (withdrawn when the run is cancelled). */
+  job_ids: ColumnType<string[], string[] | undefined, string[]>;
+  error: string | null;
+  results: ColumnType<unknown | null, string | null | undefined, string | null>;
+  started_at: NullableTimestamp;
+  finished_at: NullableTimestamp;
+  created_at: Generated<Date>;
+}
+
+export interface SimulationChunkTable {
+  simulation_id: string;
+  scenario_index: number;
+  chunk_index: number;
+  replicate_from: number;
+  replicate_to: number;
+  /** Per-replicate results of the chunk, encoded by lib/jobs/codec.ts. */
+  results: Buffer;
+  finished_at: Generated<Date>;
+}
+
+export interface PlanResultTable {
+  /** bigserial: returned by pg as a string. */
+  id: Generated<string>;
+  study_id: string;
+  /** The design revision the result was computed from. */
+  revision_number: number;
+  kind: string;
+  request: Json<unknown>;
+  output: Json<unknown>;
+  note: string | null;
+  created_by: string | null;
+  created_at: Generated<Date>;
+}
+
 export interface Database {
   User: UserTable;
   Account: AccountTable;
@@ -189,6 +238,9 @@ export interface Database {
   activity_log: ActivityTable;
   rate_limits: RateLimitTable;
   finding_notes: FindingNoteTable;
+  plan_results: PlanResultTable;
+  simulations: SimulationTable;
+  simulation_chunks: SimulationChunkTable;
 }
 
 export type UserRow = Selectable<UserTable>;
@@ -201,3 +253,4 @@ export type NewStudy = Insertable<StudyTable>;
 export type StudyUpdate = Updateable<StudyTable>;
 export type StudyRevisionRow = Selectable<StudyRevisionTable>;
 export type ActivityRow = Selectable<ActivityTable>;
+export type SimulationRow = Selectable<SimulationTable>;

@@ -21,6 +21,9 @@ export default async function WorkspaceLayout({ children }: { children: ReactNod
             <Link href="/studies" className="font-semibold text-ink hover:text-brand">
               Studies
             </Link>
+            <Link href="/calculators" className="font-semibold text-ink hover:text-brand">
+              Calculators
+            </Link>
             <span className="hidden text-muted sm:inline" title={actor.email}>
               {actor.name ?? actor.email}
             </span>

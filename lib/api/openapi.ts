@@ -15,8 +15,16 @@ import {
   workspaceSchema,
 } from '@/lib/validation/workspace';
 import { checkRunSchema, designSaveSchema, findingNoteSchema } from '@/lib/validation/design';
+import { planResultSaveSchema } from '@/lib/validation/plans';
+import { planResultDtoSchema } from '@/lib/plan/dto';
+import { calculationSchema } from '@/lib/validation/calculations';
 import { checkResultSchema, designStateSchema, findingNoteDtoSchema } from './dto';
+import { calculationResponseSchema, runCalculation } from './calculations';
+import { CALCULATION_EXAMPLES } from './calculation-examples';
 import { activityDtoSchema, errorSchema, invitationDtoSchema, studyMemberDtoSchema, workspaceMemberDtoSchema } from './dto';
+import { simulationRunSchema, simulationSpecQuerySchema } from '@/lib/validation/simulation-run';
+import { simulationSpecSchema } from '@/lib/validation/simulations';
+import { simulationDtoSchema } from '@/lib/jobs/dto';
 
 const json = <T extends z.ZodType>(schema: T, description: string) => ({ description, content: { 'application/json': { schema } } });
 const err = (description: string) => json(errorSchema, description);
@@ -33,7 +41,45 @@ const p = (name: string) => z.string().meta({ param: { name, in: 'path' } });
 const studyParams = z.object({ studyId: p('studyId') });
 const workspaceParams = z.object({ workspaceId: p('workspaceId') });
 
+/** Per kind, the example request and the answer the engine gives for it (computed here, never by hand). */
+function calculationExamples() {
+  const requests: Record<string, { summary: string; value: unknown }> = {};
+  const responses: Record<string, { summary: string; value: unknown }> = {};
+  for (const [kind, example] of Object.entries(CALCULATION_EXAMPLES)) {
+    requests[kind] = { summary: example.summary, value: example.request };
+    responses[kind] = { summary: example.summary, value: runCalculation(calculationSchema.parse(example.request)) };
+  }
+  return { requests, responses };
+}
+
+function calculationRoute(): RouteConfig {
+  const examples = calculationExamples();
+  return {
+    method: 'post',
+    path: '/api/v1/calculations',
+    summary: 'Sample size, power or smallest detectable effect for a design (no sign-in)',
+    description: [
+      'Send the kind and its inputs, leaving out exactly one of the quantities the kind can solve for (or name it in solveFor):',
+      'two-group-means, repeated-measures, longitudinal-slopes and two-proportions solve for power, nPerGroup or the effect (delta, slopeDifference, p2);',
+      'regression for power, n or f2; cluster-means for power, clustersPerArm, clusterSize or delta. design-effect solves nothing;',
+      'optimal-allocation returns the cluster size that minimises cost, then the clusters a budget buys or the budget a target needs.',
+      'Sizes are rounded up to whole units and the achieved power is reported. Results are planning estimates, not guarantees.',
+      'No sign-in is needed; calls are limited per network (429 with Retry-After). Browsers on other sites are refused (403); call it from a server or script.',
+    ].join(' '),
+    security: [],
+    request: { body: { content: { 'application/json': { schema: calculationSchema, examples: examples.requests } } } },
+    responses: {
+      200: { description: 'The solved value with every input, the method, the formula in words, references and warnings', content: { 'application/json': { schema: calculationResponseSchema, examples: examples.responses } } },
+      400: err('Invalid input, or not exactly one unknown: see error.fields.'),
+      403: err('A cross-site request from a browser.'),
+      413: err('The request body is too large.'),
+      429: err('Too many calculations from this network; see Retry-After.'),
+    },
+  };
+}
+
 export const API_ROUTES: RouteConfig[] = [
+  calculationRoute(),
   {
     method: 'get',
     path: '/api/v1/workspaces',
@@ -216,6 +262,23 @@ export const API_ROUTES: RouteConfig[] = [
     request: { params: studyParams, body: { content: { 'application/json': { schema: findingNoteSchema } } } },
     responses: { 201: json(list(findingNoteDtoSchema), 'Notes after the change'), ...writeErrors },
   },
+  // Plan tab: results saved to a study.
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/plans',
+    summary: 'Calculations saved to the study from the Plan tab, newest first',
+    request: { params: studyParams },
+    responses: { 200: json(list(planResultDtoSchema), 'Saved results, each with the design revision it was computed from'), ...standardErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/plans',
+    summary: 'Save a calculation with the study’s current design revision (owner, editor)',
+    description:
+      'The server runs the calculation from the request and stores its own result. Send the revision the result was computed from; if the design was saved again since, the answer is 409 and nothing is saved.',
+    request: { params: studyParams, body: { content: { 'application/json': { schema: planResultSaveSchema } } } },
+    responses: { 201: json(planResultDtoSchema, 'The saved result'), ...writeErrors },
+  },
   {
     method: 'delete',
     path: '/api/v1/invitations/{invitationId}',
@@ -232,6 +295,49 @@ export const API_ROUTES: RouteConfig[] = [
       200: json(z.object({ workspaceId: z.uuid(), studyId: z.uuid().nullable() }), 'Joined'),
       410: err('Expired, revoked or already used.'),
       ...writeErrors,
+    },
+  },
+  // Stress tests: Monte Carlo runs queued as chunks and computed by workers.
+  {
+    method: 'post',
+    path: '/api/v1/simulations',
+    summary: 'Start a stress test from a compact specification, or from a study’s design (owner, editor, consultant)',
+    description:
+      'Send {"spec": {…}} for a run of your own, or {"studyId", "revision"?, "spec"?, "replicates"?, "seed"?} for a run on a study (from the specification sent, else from the design of the revision, newest by default). The run is queued and computed in chunks; poll GET /api/v1/simulations/{simulationId} for progress and results. At most a few runs per person may be queued or running at once (429 otherwise).',
+    request: { body: { content: { 'application/json': { schema: simulationRunSchema } } } },
+    responses: { 202: json(simulationDtoSchema, 'The queued run'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/simulations/{simulationId}',
+    summary: 'A stress test: status, progress and, when done, results and summary',
+    request: { params: z.object({ simulationId: p('simulationId') }) },
+    responses: { 200: json(simulationDtoSchema, 'The run'), ...standardErrors },
+  },
+  {
+    method: 'delete',
+    path: '/api/v1/simulations/{simulationId}',
+    summary: 'Cancel a queued or running stress test (its creator; on a study: owner, editor, consultant)',
+    request: { params: z.object({ simulationId: p('simulationId') }) },
+    responses: { 200: json(simulationDtoSchema, 'The run, cancelled (or as it was, if it had already ended)'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/simulations',
+    summary: 'Stress tests of a study, newest first (without results)',
+    request: { params: studyParams },
+    responses: { 200: json(list(simulationDtoSchema), 'Runs, at most 50'), ...standardErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/simulations/spec',
+    summary: 'The stress-test specification derived from the study’s design (the newest revision unless one is given)',
+    description: 'spec is null when the design cannot be simulated yet; missing then says what it lacks.',
+    request: { params: studyParams, query: simulationSpecQuerySchema },
+    responses: {
+      200: json(z.object({ revision: z.number().int(), spec: simulationSpecSchema.nullable(), missing: z.array(z.string()) }), 'The derived specification, or what is missing'),
+      400: err('Invalid query'),
+      ...standardErrors,
     },
   },
 ];

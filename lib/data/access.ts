@@ -27,6 +27,8 @@ const ACTION_WORDS: Partial<Record<StudyAction | WorkspaceAction, string>> = {
   'workspace.members.manage': 'manage the members of this workspace',
   'workspace.invite': 'invite people to this workspace',
   'design.edit': 'edit the design',
+  'calculation.save': 'save sample-size results',
+  'simulation.run': 'run stress tests',
 };
 
 export async function requireStudy(

@@ -115,13 +115,13 @@ test.describe('signed-in pages', () => {
     await expectNoSeriousA11yViolations(page, 'Study overview');
   });
 
-  test('a tab that is not built yet (Plan)', async () => {
+  test('a tab that is not built yet (Pilot data)', async () => {
     const study = new StudyPage(page);
     await study.goto(studyId);
-    await study.tab('Plan').click();
-    await expect(study.notBuiltHeading('Plan')).toBeVisible();
-    await expect(study.tab('Plan')).toHaveAttribute('aria-current', 'page');
-    await expectNoSeriousA11yViolations(page, 'Study Plan tab');
+    await study.tab('Pilot data').click();
+    await expect(study.notBuiltHeading('Pilot data')).toBeVisible();
+    await expect(study.tab('Pilot data')).toHaveAttribute('aria-current', 'page');
+    await expectNoSeriousA11yViolations(page, 'Study Pilot data tab');
   });
 
   test('workspace members page', async () => {

@@ -5,9 +5,11 @@
  * lib/auth/permissions.ts, so this test fails if a handler forgets its check or checks the
  * wrong right.
  */
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { canStudy, canWorkspace, type StudyAction, type WorkspaceAction } from '@/lib/auth/permissions';
 import { insertInvitation } from '@/db/repositories/invitations';
+import { insertSimulation } from '@/db/repositories/simulations';
+import { stopBoss } from '@/lib/jobs/boss';
 import { db } from '@/lib/db';
 import { makeWorld, request, ctx, type TestUser, type World } from '../support/fixtures';
 import * as workspaces from '@/app/api/v1/workspaces/route';
@@ -26,10 +28,17 @@ import * as invitation from '@/app/api/v1/invitations/[invitationId]/route';
 import * as design from '@/app/api/v1/studies/[studyId]/design/route';
 import * as checks from '@/app/api/v1/studies/[studyId]/checks/route';
 import * as findingNotes from '@/app/api/v1/studies/[studyId]/finding-notes/route';
+import * as simulations from '@/app/api/v1/simulations/route';
+import * as simulation from '@/app/api/v1/simulations/[simulationId]/route';
+import * as studySimulations from '@/app/api/v1/studies/[studyId]/simulations/route';
+import * as simulationSpec from '@/app/api/v1/studies/[studyId]/simulations/spec/route';
+import * as plans from '@/app/api/v1/studies/[studyId]/plans/route';
+import * as calculations from '@/app/api/v1/calculations/route';
 
 type Handler = (req: Request, c: { params: Promise<Record<string, string>> }) => Promise<Response>;
 
 type Rule =
+  | { kind: 'public' }
   | { kind: 'signed-in' }
   | { kind: 'workspace'; action: WorkspaceAction }
   | { kind: 'study'; action: StudyAction }
@@ -48,7 +57,11 @@ interface RouteCase {
 
 interface Extra {
   invitationId: string;
+  simulationId: string;
 }
+
+/** A stress test small enough to queue in every case below (no worker runs here). */
+const SMALL_SPEC = { design: { arms: 2, unitsPerArm: 10 }, truth: { effect: 1, sd: 1 }, scenarios: [{ violation: 'none' }], analyses: ['ols'], replicates: 10, seed: 1 };
 
 const ROUTES: RouteCase[] = [
   { name: 'list workspaces', method: 'GET', handler: workspaces.GET as Handler, path: () => '/api/v1/workspaces', params: () => ({}), rule: { kind: 'signed-in' }, ok: 200 },
@@ -75,6 +88,15 @@ const ROUTES: RouteCase[] = [
   { name: 'run checks', method: 'POST', handler: checks.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/checks`, params: (w) => ({ studyId: w.studyId }), body: () => ({}), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
   { name: 'list finding notes', method: 'GET', handler: findingNotes.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/finding-notes`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
   { name: 'mark finding addressed', method: 'POST', handler: findingNotes.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/finding-notes`, params: (w) => ({ studyId: w.studyId }), body: () => ({ ruleId: 'unit-of-analysis', key: 'classroom', status: 'addressed', reason: 'Analysed with a random intercept per classroom.' }), rule: { kind: 'study', action: 'finding.address' }, ok: 201 },
+  { name: 'calculate', method: 'POST', handler: calculations.POST as Handler, path: () => '/api/v1/calculations', params: () => ({}), body: () => ({ kind: 'two-group-means', delta: 3, sd: 10, power: 0.8 }), rule: { kind: 'public' }, ok: 200 },
+  { name: 'list plan results', method: 'GET', handler: plans.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/plans`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'save plan result', method: 'POST', handler: plans.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/plans`, params: (w) => ({ studyId: w.studyId }), body: () => ({ request: { kind: 'two-group-means', delta: 5, sd: 10, power: 0.8 } }), rule: { kind: 'study', action: 'calculation.save' }, ok: 201 },
+  { name: 'start stress test on a study', method: 'POST', handler: simulations.POST as Handler, path: () => '/api/v1/simulations', params: () => ({}), body: (w) => ({ studyId: w.studyId, spec: SMALL_SPEC }), rule: { kind: 'study', action: 'simulation.run' }, ok: 202 },
+  { name: 'start stress test from a specification', method: 'POST', handler: simulations.POST as Handler, path: () => '/api/v1/simulations', params: () => ({}), body: () => ({ spec: SMALL_SPEC }), rule: { kind: 'signed-in' }, ok: 202 },
+  { name: 'read stress test', method: 'GET', handler: simulation.GET as Handler, path: () => '/api/v1/simulations/x', params: (_w, e) => ({ simulationId: e.simulationId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'cancel stress test', method: 'DELETE', handler: simulation.DELETE as Handler, path: () => '/api/v1/simulations/x', params: (_w, e) => ({ simulationId: e.simulationId }), rule: { kind: 'study', action: 'simulation.run' }, ok: 200 },
+  { name: 'stress-test specification from the design', method: 'GET', handler: simulationSpec.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/simulations/spec`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'list stress tests of a study', method: 'GET', handler: studySimulations.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/simulations`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
   { name: 'revoke invitation', method: 'DELETE', handler: invitation.DELETE as Handler, path: (_w) => '/api/v1/invitations/x', params: (_w, e) => ({ invitationId: e.invitationId }), rule: { kind: 'revoke' }, ok: 204 },
 ];
 
@@ -89,8 +111,9 @@ function who(w: World, p: Principal): TestUser | null {
 }
 
 function expected(route: RouteCase, p: Principal): number {
-  if (p === 'anonymous') return 401;
   const rule = route.rule;
+  if (rule.kind === 'public') return route.ok;
+  if (p === 'anonymous') return 401;
   if (rule.kind === 'signed-in') return route.ok;
   if (p === 'other workspace') return 404;
   if (rule.kind === 'workspace') {
@@ -101,6 +124,9 @@ function expected(route: RouteCase, p: Principal): number {
   if (rule.kind === 'revoke') return p === 'owner' ? route.ok : 403;
   return canStudy(p, rule.action) ? route.ok : 403;
 }
+
+// Starting a stress test starts this process's pg-boss (to queue the chunks); stop it after.
+afterAll(() => stopBoss());
 
 describe.each(ROUTES)('$method $name', (route) => {
   it.each(PRINCIPALS)('as %s', async (principal) => {
@@ -115,10 +141,19 @@ describe.each(ROUTES)('$method $name', (route) => {
       invitedBy: w.byRole.owner.id,
       expiresAt: new Date(Date.now() + 86_400_000),
     });
+    const sim = await insertSimulation(db(), {
+      studyId: w.studyId,
+      revisionNumber: 1,
+      createdBy: w.byRole.owner.id,
+      spec: SMALL_SPEC,
+      replicatesTotal: 10,
+      chunkSize: 10,
+      chunkCount: 1,
+    });
     const user = who(w, principal);
     const res = await route.handler(
       request(route.method, route.path(w), { user, body: route.body?.(w) }),
-      ctx(route.params(w, { invitationId: inv.id })),
+      ctx(route.params(w, { invitationId: inv.id, simulationId: sim.id })),
     );
     const want = expected(route, principal);
     const body = res.status === 204 ? null : await res.json();

@@ -26,6 +26,9 @@ const ACTIVITY_WORDS: Record<string, string> = {
   'design.saved': 'saved the design',
   'finding.addressed': 'marked a finding addressed',
   'finding.reopened': 'reopened a finding',
+  'plan.saved': 'saved a sample-size result',
+  'simulation.started': 'started a stress test',
+  'simulation.cancelled': 'cancelled a stress test',
 };
 
 export default async function StudyOverviewPage({ params }: { params: Promise<{ studyId: string }> }) {

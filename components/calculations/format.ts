@@ -1,0 +1,117 @@
+/**
+ * How calculation values are shown: powers and error rates as percentages with one decimal,
+ * sizes as whole numbers, other numbers to four significant digits. Nothing shows NaN: a value
+ * that is missing or not finite reads "—".
+ */
+import type { ResultValue } from '@/lib/stats/calculations/types';
+
+/** Probabilities shown as percentages: power and false-positive rates. */
+const PERCENT = /power|typeierror|falsepositive/i;
+/** Shares entered as fractions, shown as percentages too. */
+const SHARES = new Set(['dropout', 'clusterDropout']);
+
+export function isPercentKey(key: string): boolean {
+  return PERCENT.test(key) || SHARES.has(key);
+}
+
+export function formatNumber(value: number, digits = 4): string {
+  if (!Number.isFinite(value)) return '—';
+  if (Number.isInteger(value)) return value.toLocaleString('en-GB');
+  const abs = Math.abs(value);
+  if (abs !== 0 && (abs < 1e-4 || abs >= 1e9)) return value.toExponential(digits - 1).replace(/\.?0+e/, 'e');
+  return Number(value.toPrecision(digits)).toLocaleString('en-GB', { maximumFractionDigits: 10 });
+}
+
+export function formatPercent(value: number): string {
+  if (!Number.isFinite(value)) return '—';
+  const pct = value * 100;
+  // 99.96% would round to 100.0% and read as certainty; keep two decimals near the ends.
+  if (pct > 99.9 && pct < 100) return `${Math.min(pct, 99.99).toFixed(2)}%`;
+  if (pct < 0.1 && pct > 0) return `${Math.max(pct, 0.01).toFixed(2)}%`;
+  return `${pct.toFixed(1)}%`;
+}
+
+export function formatValue(key: string, value: ResultValue | undefined): string {
+  if (value === null || value === undefined) return '—';
+  if (typeof value === 'boolean') return value ? 'yes' : 'no';
+  if (typeof value === 'string') return value;
+  if (Array.isArray(value)) return value.map((v) => formatNumber(v)).join(', ');
+  if (isPercentKey(key)) return formatPercent(value);
+  return formatNumber(value);
+}
+
+/** Labels of the names the API uses, for the inputs and derived values the result lists. */
+export const VALUE_LABELS: Record<string, string> = {
+  delta: 'Difference in means',
+  sd: 'Standard deviation',
+  alpha: 'Significance level (alpha)',
+  power: 'Power',
+  nPerGroup: 'Sample size per group',
+  ratio: 'Allocation ratio',
+  sides: 'Sides of the test',
+  dropout: 'Expected attrition',
+  outcomes: 'Primary outcomes',
+  multiplicity: 'Adjustment for several outcomes',
+  f2: 'Effect size f²',
+  slope: 'Slope',
+  sdX: 'Standard deviation of the predictor',
+  residualSd: 'Residual standard deviation',
+  testedPredictors: 'Predictors tested',
+  predictors: 'Predictors in the model',
+  n: 'Sample size',
+  icc: 'Intracluster correlation (ICC)',
+  clusterSize: 'Units per cluster',
+  cv: 'Variation in cluster size (CV)',
+  clustersPerArm: 'Clusters per arm',
+  clusterDropout: 'Clusters expected to drop out',
+  rho: 'Correlation between occasions',
+  baselines: 'Baseline measurements',
+  followUps: 'Follow-up measurements',
+  analysis: 'Analysis',
+  slopeDifference: 'Difference in slopes',
+  times: 'Times of measurement',
+  p1: 'Proportion in the first group',
+  p2: 'Proportion in the second group',
+  continuityCorrection: 'Continuity correction',
+  totalObservations: 'Total units',
+  costPerCluster: 'Cost per cluster',
+  costPerUnit: 'Cost per unit',
+  budget: 'Budget',
+  designEffect: 'Design effect',
+  effectiveSampleSize: 'Effective sample size',
+  naiveTypeIError: 'False-positive rate if clustering is ignored',
+  targetPower: 'Target power',
+  standardizedEffect: 'Standardised effect (delta / sd)',
+  nGroup2: 'Sample size in group 2',
+  alphaAdjusted: 'Alpha per outcome',
+  degreesOfFreedom: 'Degrees of freedom',
+  noncentrality: 'Noncentrality',
+  nPerGroupToRecruit: 'To recruit per group',
+  nGroup2ToRecruit: 'To recruit in group 2',
+  nToRecruit: 'To recruit',
+  clusterSizeToRecruit: 'Units to recruit per cluster',
+  clustersPerArmToRecruit: 'Clusters to recruit per arm',
+  totalAnalysed: 'Total analysed',
+  totalToRecruit: 'Total to recruit',
+  clusterSizeInteger: 'Best whole cluster size',
+  costPerFullCluster: 'Cost of one full cluster',
+  costPerInformation: 'Cost per unit of information',
+  budgetUsed: 'Budget used',
+  budgetNeeded: 'Budget needed',
+  difference: 'Difference in proportions',
+  powerT: 'Power by the t distribution',
+  nPerGroupByT: 'Sample size per group by the t distribution',
+  varianceFactor: 'Variance factor',
+  standardError: 'Standard error',
+  effectiveNPerGroup: 'Effective sample size per group',
+  sumOfSquaredTimeDeviations: 'Sum of squared time deviations',
+  plateauPower: 'Highest power with very large clusters',
+  clustersPerArmNeeded: 'Clusters per arm needed',
+};
+
+/** A label for any result name: the table above, else the camelCase name in words. */
+export function labelOf(key: string): string {
+  if (VALUE_LABELS[key]) return VALUE_LABELS[key]!;
+  const words = key.replace(/([a-z0-9])([A-Z])/g, '$1 $2').toLowerCase();
+  return words.charAt(0).toUpperCase() + words.slice(1);
+}

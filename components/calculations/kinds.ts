@@ -1,0 +1,227 @@
+/**
+ * What the calculator pages say about each kind: a title, when to use it, its fields with labels
+ * and help, and the words for the quantities it can solve for. The API's names stay the field
+ * names; the words here are what people read.
+ */
+import type { CalculationKind } from '@/lib/validation/calculations';
+
+export interface FieldSpec {
+  name: string;
+  label: string;
+  help: string;
+  input: 'number' | 'whole' | 'select' | 'times' | 'checkbox';
+  options?: readonly (readonly [string, string])[];
+  /** Shown only in these modes (kinds with a mode switch: regression, optimal-allocation). */
+  modes?: readonly string[];
+}
+
+export interface ModeSpec {
+  legend: string;
+  options: readonly (readonly [string, string])[];
+}
+
+export interface KindInfo {
+  kind: CalculationKind;
+  title: string;
+  /** One sentence: when this calculation is the right one. */
+  when: string;
+  fields: readonly FieldSpec[];
+  /** A choice that decides which inputs are used, for kinds that solve what their inputs imply. */
+  mode?: ModeSpec;
+}
+
+const SIDES = [
+  ['2', 'Two-sided'],
+  ['1', 'One-sided'],
+] as const;
+
+const f = {
+  delta: (help = 'The smallest difference in means worth detecting, in the outcome’s units.'): FieldSpec => ({ name: 'delta', label: 'Difference in means', help, input: 'number' }),
+  sd: (help = 'Standard deviation of the outcome within a group, in the outcome’s units.'): FieldSpec => ({ name: 'sd', label: 'Standard deviation', help, input: 'number' }),
+  nPerGroup: (help = 'Units analysed in each group.'): FieldSpec => ({ name: 'nPerGroup', label: 'Sample size per group', help, input: 'whole' }),
+  sides: { name: 'sides', label: 'Test', help: 'Two-sided unless a difference in the other direction would truly not matter.', input: 'select', options: SIDES } satisfies FieldSpec,
+  icc: (help = 'Intracluster correlation: the share of the outcome’s variance that lies between clusters.'): FieldSpec => ({ name: 'icc', label: 'Intracluster correlation (ICC)', help, input: 'number' }),
+  cv: { name: 'cv', label: 'Variation in cluster size (CV)', help: 'Coefficient of variation of cluster sizes: 0 when every cluster is the same size (Eldridge, Ashby & Kerry 2006).', input: 'number' } satisfies FieldSpec,
+  rho: { name: 'rho', label: 'Correlation between occasions', help: 'Correlation of two measurements of the same unit (compound symmetry).', input: 'number' } satisfies FieldSpec,
+};
+
+/** Significance, power, attrition and several outcomes: the same on every kind that has them. */
+const ERROR_RATES: FieldSpec[] = [
+  { name: 'alpha', label: 'Significance level (alpha)', help: 'The false-positive rate (type I error) of each test, e.g. 0.05.', input: 'number' },
+  { name: 'power', label: 'Power', help: 'The chance of detecting the effect if it is real, as a fraction: 0.8 means 80%.', input: 'number' },
+];
+const ADJUSTMENTS: FieldSpec[] = [
+  { name: 'dropout', label: 'Expected attrition', help: 'Share of units lost before the analysis, as a fraction (0.1 = 10%). Sizes to recruit are inflated by 1 / (1 − attrition).', input: 'number' },
+  { name: 'outcomes', label: 'Primary outcomes', help: 'Number of primary outcomes, each tested at the adjusted alpha.', input: 'whole' },
+  {
+    name: 'multiplicity',
+    label: 'Adjustment for several outcomes',
+    help: 'Bonferroni tests each outcome at alpha / K; Holm’s step-down procedure is planned here at its strictest step, also alpha / K.',
+    input: 'select',
+    options: [
+      ['none', 'None'],
+      ['bonferroni', 'Bonferroni'],
+      ['holm', 'Holm'],
+    ],
+  },
+];
+
+export const KINDS: readonly KindInfo[] = [
+  {
+    kind: 'two-group-means',
+    title: 'Two group means',
+    when: 'Two independent groups compared on a continuous outcome, each unit measured once and randomised on its own — no clusters, no repeated measures.',
+    fields: [f.delta(), f.sd(), f.nPerGroup(), { name: 'ratio', label: 'Allocation ratio', help: 'Size of the second group divided by the first; 1 for equal groups.', input: 'number' }, f.sides, ...ERROR_RATES, ...ADJUSTMENTS],
+  },
+  {
+    kind: 'regression',
+    title: 'Linear regression',
+    when: 'Testing one or more predictors in a linear regression of independent units, e.g. a dose or a covariate’s slope after adjusting for others.',
+    mode: {
+      legend: 'Describe the effect as',
+      options: [
+        ['f2', 'Cohen’s f²'],
+        ['slope', 'A slope with the spread of the predictor and the residual spread'],
+      ],
+    },
+    fields: [
+      { name: 'f2', label: 'Effect size f²', help: 'Cohen’s f² = R² explained by the tested predictors / (1 − R²); 0.02 small, 0.15 medium, 0.35 large (Cohen 1988).', input: 'number', modes: ['f2'] },
+      { name: 'slope', label: 'Slope', help: 'Change in the outcome per unit of the tested predictor.', input: 'number', modes: ['slope'] },
+      { name: 'sdX', label: 'Standard deviation of the predictor', help: 'Spread of the tested predictor in the sample.', input: 'number', modes: ['slope'] },
+      { name: 'residualSd', label: 'Residual standard deviation', help: 'Spread of the outcome around the fitted line.', input: 'number', modes: ['slope'] },
+      { name: 'testedPredictors', label: 'Predictors tested', help: 'How many coefficients the F test tests together (numerator degrees of freedom).', input: 'whole' },
+      { name: 'predictors', label: 'Predictors in the model', help: 'All predictors, the tested ones included; the error degrees of freedom are n − predictors − 1.', input: 'whole' },
+      { name: 'n', label: 'Sample size', help: 'Units in the regression.', input: 'whole' },
+      ...ERROR_RATES,
+      ...ADJUSTMENTS,
+    ],
+  },
+  {
+    kind: 'cluster-means',
+    title: 'Cluster-randomised means',
+    when: 'Whole clusters — classrooms, trays, clinics — are randomised to two arms and the outcome is measured on units within them.',
+    fields: [
+      f.delta(),
+      f.sd('Total standard deviation of the outcome among units (within and between clusters).'),
+      f.icc(),
+      { name: 'clusterSize', label: 'Units per cluster', help: 'Average number of units analysed in each cluster.', input: 'whole' },
+      f.cv,
+      { name: 'clustersPerArm', label: 'Clusters per arm', help: 'Clusters randomised to each arm.', input: 'whole' },
+      { name: 'clusterDropout', label: 'Clusters expected to drop out', help: 'Share of whole clusters lost, as a fraction.', input: 'number' },
+      f.sides,
+      ...ERROR_RATES,
+      ...ADJUSTMENTS,
+    ],
+  },
+  {
+    kind: 'repeated-measures',
+    title: 'Baseline and follow-up measures',
+    when: 'Two groups measured before and after, possibly several times each; choose between analysing the follow-up only, the change, or ANCOVA (Frison & Pocock 1992).',
+    fields: [
+      f.delta(),
+      f.sd('Standard deviation of a single measurement.'),
+      f.rho,
+      { name: 'baselines', label: 'Baseline measurements', help: 'Measurements before assignment, averaged; 0 for none.', input: 'whole' },
+      { name: 'followUps', label: 'Follow-up measurements', help: 'Measurements after assignment, averaged.', input: 'whole' },
+      {
+        name: 'analysis',
+        label: 'Analysis',
+        help: 'ANCOVA of the follow-up mean adjusted for the baseline mean is never less efficient than the other two.',
+        input: 'select',
+        options: [
+          ['ancova', 'ANCOVA (adjusted for baseline)'],
+          ['change', 'Change from baseline'],
+          ['post', 'Follow-up only'],
+        ],
+      },
+      f.nPerGroup(),
+      f.sides,
+      ...ERROR_RATES,
+      ...ADJUSTMENTS,
+    ],
+  },
+  {
+    kind: 'longitudinal-slopes',
+    title: 'Rates of change',
+    when: 'Each unit is measured on several occasions and the question is whether the outcome changes faster in one group than the other (Diggle et al. 2002).',
+    fields: [
+      { name: 'slopeDifference', label: 'Difference in slopes', help: 'Difference between the groups in change per unit of time, in outcome units.', input: 'number' },
+      f.sd('Standard deviation of a single measurement.'),
+      f.rho,
+      { name: 'times', label: 'Times of measurement', help: 'When each unit is measured, separated by commas, e.g. 0, 1, 2, 3.', input: 'times' },
+      f.nPerGroup(),
+      f.sides,
+      ...ERROR_RATES,
+      ...ADJUSTMENTS,
+    ],
+  },
+  {
+    kind: 'two-proportions',
+    title: 'Two proportions',
+    when: 'A yes-or-no outcome compared between two groups; give an ICC and cluster size when units share clusters (Fleiss, Levin & Paik 2003).',
+    fields: [
+      { name: 'p1', label: 'Proportion in the first group', help: 'Expected share with the outcome under control, as a fraction (0.55 = 55%).', input: 'number' },
+      { name: 'p2', label: 'Proportion in the second group', help: 'Expected share with the outcome under the intervention.', input: 'number' },
+      f.nPerGroup(),
+      f.sides,
+      { name: 'continuityCorrection', label: 'Continuity correction', help: 'Adds the correction of Fleiss, Levin & Paik (2003); more conservative.', input: 'checkbox' },
+      f.icc('Leave empty when units are independent.'),
+      { name: 'clusterSize', label: 'Units per cluster', help: 'Leave empty when units are independent.', input: 'whole' },
+      f.cv,
+      ...ERROR_RATES,
+      ...ADJUSTMENTS,
+    ],
+  },
+  {
+    kind: 'design-effect',
+    title: 'Design effect',
+    when: 'To see what clustering costs: how many independent units a clustered sample is worth, and how often a test that ignores the clusters gives a false positive (Kish 1965).',
+    fields: [
+      f.icc(),
+      { name: 'clusterSize', label: 'Units per cluster', help: 'Average number of units in a cluster.', input: 'number' },
+      f.cv,
+      { name: 'totalObservations', label: 'Total units', help: 'Optional: all units in the study, for the effective sample size.', input: 'whole' },
+      { name: 'alpha', label: 'Significance level (alpha)', help: 'The nominal false-positive rate of the test that ignores clustering.', input: 'number' },
+    ],
+  },
+  {
+    kind: 'optimal-allocation',
+    title: 'Cluster size under a budget',
+    when: 'Deciding how many units to take per cluster when recruiting a cluster costs more than measuring one more unit (Raudenbush 1997).',
+    mode: {
+      legend: 'Work out',
+      options: [
+        ['budget', 'Clusters a budget buys'],
+        ['target', 'The budget a target needs'],
+      ],
+    },
+    fields: [
+      f.icc('Intracluster correlation, above 0 and below 1.'),
+      { name: 'costPerCluster', label: 'Cost per cluster', help: 'Cost of recruiting one more cluster, in any currency.', input: 'number' },
+      { name: 'costPerUnit', label: 'Cost per unit', help: 'Cost of measuring one more unit in a cluster, in the same currency.', input: 'number' },
+      { name: 'budget', label: 'Budget', help: 'Money available for both arms.', input: 'number', modes: ['budget'] },
+      f.delta('The smallest difference in means worth detecting. Optional with a budget: it gives the power the budget buys.'),
+      f.sd('Total standard deviation of the outcome among units. Optional with a budget.'),
+      { name: 'alpha', label: 'Significance level (alpha)', help: 'The false-positive rate of the test, e.g. 0.05.', input: 'number' },
+      { name: 'power', label: 'Power', help: 'The target: the chance of detecting the effect if it is real, as a fraction (0.8 = 80%).', input: 'number', modes: ['target'] },
+      f.sides,
+    ],
+  },
+];
+
+export function kindInfo(kind: string): KindInfo | undefined {
+  return KINDS.find((k) => k.kind === kind);
+}
+
+/** The words for the quantities a kind can solve for, in our own wording. */
+export const SOLVE_LABELS: Record<string, string> = {
+  power: 'power',
+  nPerGroup: 'sample size',
+  n: 'sample size',
+  clustersPerArm: 'clusters per arm',
+  clusterSize: 'cluster size',
+  delta: 'smallest detectable effect',
+  slopeDifference: 'smallest detectable effect',
+  f2: 'smallest detectable effect',
+  p2: 'smallest detectable effect',
+};

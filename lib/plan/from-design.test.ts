@@ -1,0 +1,186 @@
+/**
+ * Which calculation the Plan tab chooses for a design, and with what inputs: the three demo
+ * designs and small edge designs, table-driven. The derived inputs (SD and ICC on member means
+ * for deeper nesting; the SD of the halved period difference in a cross-over) are checked
+ * against variances computed from the full covariance matrix in R
+ * (`fixtures/generate_variance.R` → `fixtures/variance.json`, R version in the file).
+ */
+import { describe, expect, it } from 'vitest';
+import { classroom, empty, greenhouse, longitudinal, narrowDose, parse, simple, sleep, variant } from '@/lib/rules/__fixtures__/designs';
+import type { Design, DesignInput } from '@/lib/design/schema';
+import { runChecks } from '@/lib/rules/registry';
+import { expectRelativelyClose } from './expect-close';
+import { planFromDesign, type PlanDraft } from './from-design';
+import fixture from './fixtures/variance.json';
+
+const draft = (d: Design): PlanDraft => planFromDesign(d, runChecks(d, { onRuleError: () => {} }).recommendation);
+
+
+const noEffect = (d: Design) => variant(d, (x) => void delete x.assumptions.effect);
+
+const pupilsWithBaseline = parse({
+  outcome: { name: 'Reading score', type: 'continuous', shape: 'symmetric' },
+  structure: { levels: [{ id: 'pupil', name: 'Pupil', kind: 'independent', count: 120 }] },
+  assignment: { kind: 'randomised', levelId: 'pupil', arms: [{ name: 'Tutoring', allocation: 1 }, { name: 'Usual teaching', allocation: 1 }] },
+  occasions: { list: [{ label: 'Start', time: 0, baseline: true }, { label: 'End', time: 36, attrition: 0.1 }] },
+  assumptions: {
+    outcomeSd: { value: 10, source: { kind: 'pilot', certainty: 'medium' } },
+    occasionCorrelation: { value: 0.6, source: { kind: 'published', citation: 'Invented test source', certainty: 'high' } },
+    effect: { value: 3, source: { kind: 'expert', certainty: 'low' } },
+  },
+  analysis: { method: 'ancova', unitOfAnalysisLevelId: 'pupil', adjustsForBaseline: true },
+});
+
+const withSdAndRho = variant(longitudinal, (d) => {
+  d.assumptions.outcomeSd = { value: 0.5, source: { kind: 'published', certainty: 'high' } };
+  d.assumptions.occasionCorrelation = { value: 0.7, source: { kind: 'pilot', certainty: 'medium' } };
+  d.assumptions.effect = { value: 0.24, source: { kind: 'expert', certainty: 'medium' } };
+});
+
+type Row = [label: string, design: Design, expected: Partial<PlanDraft> & { missingInputs?: string[]; inputsContain?: Record<string, unknown>; complete?: boolean }];
+
+const ROWS: Row[] = [
+  [
+    'classroom demo: cluster means, solve for classrooms per arm',
+    classroom,
+    {
+      kind: 'cluster-means',
+      solveFor: 'clustersPerArm',
+      planned: { input: 'clustersPerArm', value: 10 },
+      inputsContain: { delta: 3, sd: 10, icc: 0.15, clusterSize: 23, cv: 0.25, dropout: 0.08, alpha: 0.05, power: 0.8 },
+      missingInputs: [],
+      complete: true,
+    },
+  ],
+  ['greenhouse demo: cluster means of plant means, solve for trays per arm', greenhouse, { kind: 'cluster-means', solveFor: 'clustersPerArm', planned: { input: 'clustersPerArm', value: 6 }, inputsContain: { clusterSize: 5, delta: 2, dropout: 0.05 }, missingInputs: [], complete: true }],
+  ['sleep demo: AB/BA cross-over as a t test between sequences', sleep, { kind: 'two-group-means', solveFor: 'nPerGroup', planned: { input: 'nPerGroup', value: 12 }, inputsContain: { delta: 20, sd: 11.25, dropout: 0.1 }, missingInputs: [], complete: true }],
+  ['classroom without an effect: smallest detectable effect with 10 per arm', noEffect(classroom), { kind: 'cluster-means', solveFor: 'delta', inputsContain: { clustersPerArm: 10 }, missingInputs: [], complete: true }],
+  ['classroom without the classroom ICC: asks for it', variant(classroom, (d) => void (d.assumptions.iccs = [])), { kind: 'cluster-means', missingInputs: ['icc'], complete: false }],
+  ['classroom with a binary outcome: two proportions with the design effect', variant(classroom, (d) => void (d.outcome.type = 'binary')), { kind: 'two-proportions', solveFor: 'nPerGroup', inputsContain: { icc: 0.15, clusterSize: 23, cv: 0.25 }, missingInputs: ['p1', 'p2'], complete: false }],
+  ['classroom with 3 primary outcomes and no adjustment planned: Holm, as recommended', variant(classroom, (d) => void (d.outcome.primaryOutcomes = 3)), { kind: 'cluster-means', inputsContain: { outcomes: 3, multiplicity: 'holm' }, complete: true }],
+  ['classroom with Bonferroni planned', variant(classroom, (d) => { d.outcome.primaryOutcomes = 2; d.analysis.multiplicity = 'bonferroni'; }), { inputsContain: { outcomes: 2, multiplicity: 'bonferroni' }, complete: true }],
+  ['classroom with ICCs adding up to more than 1', variant(classroom, (d) => void d.assumptions.iccs.push({ levelId: 'pupil', value: 0.9, source: { kind: 'none', certainty: 'low' } })), { kind: 'cluster-means', complete: true }],
+  ['greenhouse without the plant ICC: asks for it', variant(greenhouse, (d) => void (d.assumptions.iccs = d.assumptions.iccs.filter((c) => c.levelId !== 'plant'))), { kind: 'cluster-means', missingInputs: ['icc:plant'], complete: false }],
+  ['greenhouse with tray and plant ICCs above 1 in sum', variant(greenhouse, (d) => void (d.assumptions.iccs = d.assumptions.iccs.map((c) => ({ ...c, value: 0.6 })))), { kind: 'cluster-means', missingInputs: ['icc'], complete: false }],
+  ['sleep with 3 periods: no calculation yet', variant(sleep, (d) => void (d.assignment.crossover.periods = 3)), { kind: null, missingInputs: ['crossover'], complete: false }],
+  ['independent pupils with baseline, ANCOVA planned', pupilsWithBaseline, { kind: 'repeated-measures', solveFor: 'nPerGroup', planned: { input: 'nPerGroup', value: 60 }, inputsContain: { analysis: 'ancova', baselines: 1, followUps: 1, rho: 0.6, sd: 10, delta: 3, dropout: 0.1 }, missingInputs: [], complete: true }],
+  ['the same with no baseline adjustment planned: ANCOVA, as the Checks recommend', variant(pupilsWithBaseline, (d) => { d.analysis.method = 't-test'; d.analysis.adjustsForBaseline = false; }), { kind: 'repeated-measures', inputsContain: { analysis: 'ancova' }, complete: true }],
+  ['trajectory of interest: slopes, effect spread over 12 months', withSdAndRho, { kind: 'longitudinal-slopes', solveFor: 'nPerGroup', inputsContain: { times: [0, 1, 3, 6, 12], slopeDifference: 0.02, rho: 0.7, sd: 0.5 }, missingInputs: [], complete: true }],
+  ['trajectory without SD or correlation: asks for both', longitudinal, { kind: 'longitudinal-slopes', missingInputs: ['sd', 'rho'], complete: false }],
+  ['simple trial without SD or effect: smallest detectable effect, SD asked for', simple, { kind: 'two-group-means', solveFor: 'delta', inputsContain: { nPerGroup: 30 }, missingInputs: ['sd'], complete: false }],
+  ['simple trial with 2:1 allocation', variant(simple, (d) => { d.assignment.arms[0]!.allocation = 2; d.assumptions.outcomeSd = { value: 12, source: { kind: 'none', certainty: 'low' } }; d.assumptions.effect = { value: 5, source: { kind: 'none', certainty: 'low' } }; }), { kind: 'two-group-means', solveFor: 'nPerGroup', inputsContain: { ratio: 0.5, sd: 12, delta: 5 }, planned: { input: 'nPerGroup', value: 20 }, complete: true }],
+  ['continuous exposure: regression, SD of the exposure asked for', narrowDose, { kind: 'regression', missingInputs: ['sd', 'sdX'], complete: false }],
+  ['empty design: the structure first', empty, { kind: null, missingInputs: ['structure'], complete: false }],
+  ['no level of assignment', variant(classroom, (d) => void delete d.assignment.levelId), { kind: null, missingInputs: ['assignment'], complete: false }],
+  ['time-to-event outcome: none yet', variant(simple, (d) => void (d.outcome.type = 'time-to-event')), { kind: null, complete: false }],
+];
+
+describe.each(ROWS)('%s', (_label, design, want) => {
+  const got = draft(design);
+  it('chooses the calculation and the unknown', () => {
+    if ('kind' in want) expect(got.kind).toBe(want.kind);
+    if (want.solveFor) expect(got.solveFor).toBe(want.solveFor);
+    if (want.planned) expect(got.planned).toEqual(want.planned);
+  });
+  it('fills the inputs from the design', () => {
+    if (want.inputsContain) expect(got.inputs).toMatchObject(want.inputsContain);
+    if (got.solveFor) expect(got.inputs[got.solveFor]).toBeUndefined();
+  });
+  it('lists what is missing, and is complete only when nothing is', () => {
+    if (want.missingInputs) expect(got.missing.map((m) => m.input)).toEqual(want.missingInputs);
+    expect(got.request !== null).toBe(want.complete);
+    if (got.request) expect(got.missing).toEqual([]);
+  });
+  it('gives reasons, and a source for every input it fills', () => {
+    expect(got.rationale.length).toBeGreaterThan(0);
+    for (const [input, value] of Object.entries(got.inputs)) {
+      const a = got.assumptions.find((x) => x.input === input);
+      expect(a, `input ${input} = ${JSON.stringify(value)} has no assumption with its source`).toBeDefined();
+    }
+  });
+});
+
+describe('sources and links', () => {
+  it('carries the design’s citations to the assumptions', () => {
+    const d = draft(classroom);
+    expect(d.assumptions.find((a) => a.input === 'icc')?.source).toEqual({ kind: 'published', citation: 'Regional reading-test report, classroom ICCs (invented for the demo)', certainty: 'medium' });
+    expect(d.assumptions.find((a) => a.input === 'delta')?.source.kind).toBe('expert');
+    expect(d.assumptions.find((a) => a.input === 'clusterSize')?.source).toEqual({ kind: 'derived', detail: '25 × (1 − 0.08), rounded down' });
+  });
+  it('names a Design step for every missing number the design has a field for', () => {
+    const d = draft(variant(classroom, (x) => { x.assumptions.iccs = []; delete x.assumptions.outcomeSd; }));
+    expect(d.missing).toEqual([
+      expect.objectContaining({ input: 'icc', step: 'assumptions' }),
+      expect.objectContaining({ input: 'sd', step: 'assumptions' }),
+    ]);
+  });
+  it('mentions the baseline of a cluster trial without taking credit for it', () => {
+    expect(draft(classroom).notes.join(' ')).toMatch(/1 − ρ² = 0\.64.*does not count on it/);
+  });
+  it('adds the ICC of a level above the cluster when the randomisation is not blocked by it', () => {
+    const schools = parse({
+      ...(structuredClone(classroom) as DesignInput),
+      structure: {
+        levels: [
+          { id: 'school', name: 'School', kind: 'grouping', count: 10 },
+          { id: 'classroom', name: 'Classroom', kind: 'grouping', count: 2 },
+          { id: 'pupil', name: 'Pupil', kind: 'independent', count: 25 },
+        ],
+      },
+      assumptions: { ...classroom.assumptions, iccs: [...classroom.assumptions.iccs, { levelId: 'school', value: 0.05, source: { kind: 'expert', certainty: 'low' } }] },
+    });
+    expect(draft(schools).inputs.icc).toBeCloseTo(0.2, 12);
+    const blocked = variant(schools, (d) => void (d.assignment.blocking = { kind: 'stratified', factor: 'School', inAnalysis: true }));
+    expect(draft(blocked).inputs.icc).toBe(0.15);
+  });
+});
+
+describe('derived inputs against the full covariance matrix (R)', () => {
+  it.each(fixture.nested)('nested: σ $sigma, ICC $rhoCluster / $rhoMember, $m members × $r replicates', (c) => {
+    const design = parse({
+      outcome: { name: 'Yield', type: 'continuous' },
+      structure: {
+        levels: [
+          { id: 'cluster', name: 'Tray', kind: 'grouping', count: 20 },
+          { id: 'member', name: 'Plant', kind: 'independent', count: c.m },
+          { id: 'rep', name: 'Leaf', kind: 'replicate', count: c.r },
+        ],
+      },
+      assignment: { kind: 'randomised', levelId: 'cluster', arms: [{ name: 'A', allocation: 1 }, { name: 'B', allocation: 1 }] },
+      assumptions: {
+        outcomeSd: { value: c.sigma },
+        effect: { value: 1 },
+        iccs: [
+          { levelId: 'cluster', value: c.rhoCluster },
+          { levelId: 'member', value: c.rhoMember },
+        ],
+      },
+    });
+    const d = draft(design);
+    expect(d.kind).toBe('cluster-means');
+    const sd = d.inputs.sd as number;
+    const icc = d.inputs.icc as number;
+    const m = d.inputs.clusterSize as number;
+    expect(m).toBe(c.m);
+    // Variance of a cluster mean on the calculation's scale: σ'²·(ICC' + (1 − ICC')/m).
+    expectRelativelyClose(JSON.stringify(c), sd * sd * (icc + (1 - icc) / m), c.varClusterMean, 1e-9);
+  });
+
+  it.each(fixture.crossover)('cross-over: σ $sigma, ρ $rho, $k per period, $n units', (c) => {
+    const design = variant(sleep, (d) => {
+      d.structure.levels = [
+        { ...d.structure.levels[0]!, count: c.n },
+        { ...d.structure.levels[1]!, count: 2 * c.k },
+      ];
+      d.occasions.list = [];
+      d.assumptions.outcomeSd = { value: c.sigma, source: { kind: 'none', certainty: 'low' } };
+      d.assumptions.iccs = [{ levelId: 'volunteer', value: c.rho, source: { kind: 'none', certainty: 'low' } }];
+    });
+    const d = draft(design);
+    expect(d.kind).toBe('two-group-means');
+    const sd = d.inputs.sd as number;
+    const perSequence = c.n / 2;
+    // Two-sample t test with n/2 per sequence: Var(effect) = σ'²·(2 / (n/2)).
+    expectRelativelyClose(JSON.stringify(c), (sd * sd * 2) / perSequence, c.varEffect, 1e-9);
+  });
+});

@@ -1,0 +1,574 @@
+/**
+ * The calculation that fits a study's design, filled in from the design's assumptions: the Plan
+ * tab's starting point. Pure: no database, no randomness.
+ *
+ * Which calculation (first match wins):
+ * - no levels or no level of assignment: none yet (what to fill in is listed);
+ * - time-to-event outcome: none (no calculation for survival outcomes yet);
+ * - a continuous exposure: `regression`, the slope of the outcome on the exposure;
+ * - the treatment varies within the experimental unit in a two-period cross-over:
+ *   `two-group-means` on the period differences (the AB/BA analysis, Senn 2002), below;
+ * - the experimental unit holds observations of units below it that are not repeated
+ *   measurements over time (pupils in classrooms, plants in trays, replicate wells): binary
+ *   outcome → `two-proportions` with the design effect; otherwise `cluster-means`;
+ * - the experimental unit is measured repeatedly: trajectory of interest → `longitudinal-slopes`;
+ *   baselines and follow-ups, or several follow-ups → `repeated-measures` (ANCOVA when the plan or
+ *   the recommendation adjusts for the baseline);
+ * - independent units measured once: binary → `two-proportions`; otherwise `two-group-means`.
+ *
+ * Deeper nesting (trays → plants → leaves). The cluster-means calculation has two levels, the
+ * cluster and its members. With ICCs read as shares ρₖ of the total variance σ² (the convention
+ * of lib/rules/facts.ts) and Mₖ observations per unit of level k, the mean of one member (level
+ * c, the level below the cluster) varies within its cluster by v = Σ_{k ≥ c} ρₖ·Mₖ/M_c (the
+ * bottom level's share is 1 − Σ of the others, M = 1). The cluster-means calculation is then
+ * given the members' means: SD σ·√(ρ_cl + v), ICC ρ_cl / (ρ_cl + v), m = members per cluster —
+ * which gives the variance of a cluster mean exactly: σ²·(ρ_cl + v/m). With two levels this is
+ * the outcome's SD and ICC unchanged. Shares of levels above the cluster are added to the
+ * cluster's share unless the randomisation is blocked by them and the analysis includes the
+ * blocks (then they cancel from the comparison).
+ *
+ * Two-period cross-over (AB/BA). Each unit gives k observations per period; under compound
+ * symmetry with correlation ρ between observations of one unit, the difference of its two period
+ * means has variance 2σ²(1 − ρ)/k. The treatment effect is half the difference of the mean
+ * period differences of the two sequences, so the test is the two-sample t test of the halved
+ * period differences between sequences (Senn 2002, the basic AB/BA analysis, df n − 2):
+ * delta = the effect, SD = σ·√((1 − ρ)/(2k)), n per group = units per sequence.
+ *
+ * Numbers that the design does not give are never made up: each is listed in `missing` with the
+ * design step where it is entered (or none, when the design has no field for it and it is typed
+ * on the Plan tab). When the effect is missing but the planned size is known, the smallest
+ * detectable effect is solved for instead.
+ */
+import type { Design, Level, Source } from '@/lib/design/schema';
+import { DESIGN_STEPS } from '@/lib/design/schema';
+import { armShares } from '@/lib/design/derive';
+import { designFacts, iccOf, sizeCv, type DesignFacts, type LevelInfo } from '@/lib/rules/facts';
+import { cap, dec, noun, num } from '@/lib/rules/text';
+import { outcomeName } from '@/lib/rules/phrases';
+import type { Recommendation } from '@/lib/rules/types';
+import { calculationSchema, type CalculationKind, type CalculationRequest } from '@/lib/validation/calculations';
+
+export type DesignStepSlug = (typeof DESIGN_STEPS)[number]['slug'];
+
+/** Where a number came from: the design's own source kinds, or how the Plan tab obtained it. */
+export type AssumptionOrigin = Source['kind'] | 'design' | 'derived';
+
+export interface PlanAssumption {
+  /** Plain name, e.g. 'ICC of classroom'. */
+  name: string;
+  /** The calculation input it fills, when it fills one directly. */
+  input?: string;
+  value: number | string;
+  source: {
+    kind: AssumptionOrigin;
+    citation?: string;
+    certainty?: Source['certainty'];
+    /** For 'design' and 'derived': the step it was read from or how it was computed. */
+    detail?: string;
+  };
+}
+
+export interface MissingItem {
+  /** The calculation input that cannot be filled. */
+  input: string;
+  /** What to fill in, in plain words. */
+  text: string;
+  /** The Design step where it is entered; absent when the design has no field for it (type it on the Plan tab). */
+  step?: DesignStepSlug;
+}
+
+export interface PlanDraft {
+  /** The calculation that fits, or null when none does yet (see `missing` and `rationale`). */
+  kind: CalculationKind | null;
+  /** The quantity solved for: the size by default, the effect when no effect is given. */
+  solveFor: string | null;
+  /** Every input that could be filled, by the API's names (without `kind`); the solved one is left out. */
+  inputs: Record<string, number | string | boolean | number[]>;
+  /** The complete, validated request, or null while something is missing. */
+  request: CalculationRequest | null;
+  /** The size the design plans, for comparison with the one solved for (e.g. 10 classrooms per arm). */
+  planned?: { input: string; value: number };
+  /** Names of the units counted by the size input: e.g. { size: 'classrooms per arm', member: 'pupils per classroom' }. */
+  labels: Record<string, string>;
+  /** Why this calculation, in plain sentences. */
+  rationale: string[];
+  /** Cautions and approximations: what the calculation does not take credit for. */
+  notes: string[];
+  assumptions: PlanAssumption[];
+  missing: MissingItem[];
+}
+
+type Inputs = PlanDraft['inputs'];
+
+const fromSource = (s: Source): PlanAssumption['source'] => ({ kind: s.kind, ...(s.citation ? { citation: s.citation } : {}), certainty: s.certainty });
+const design = (detail: string): PlanAssumption['source'] => ({ kind: 'design', detail });
+const derived = (detail: string): PlanAssumption['source'] => ({ kind: 'derived', detail });
+
+/** Rounds a derived input to 10 significant digits so the inputs read cleanly without changing any result. */
+const tidy = (x: number) => Number(x.toPrecision(10));
+
+class Builder {
+  readonly inputs: Inputs = {};
+  readonly assumptions: PlanAssumption[] = [];
+  readonly missing: MissingItem[] = [];
+  readonly rationale: string[] = [];
+  readonly notes: string[] = [];
+  readonly labels: Record<string, string> = {};
+  planned?: { input: string; value: number };
+
+  set(input: string, value: number | string | boolean | number[], name?: string, source?: PlanAssumption['source']) {
+    this.inputs[input] = value;
+    if (name && source) this.assumptions.push({ name, input, value: Array.isArray(value) ? value.join(', ') : typeof value === 'boolean' ? String(value) : value, source });
+  }
+
+  note(name: string, value: number | string, source: PlanAssumption['source']) {
+    this.assumptions.push({ name, value, source });
+  }
+
+  need(input: string, text: string, step?: DesignStepSlug) {
+    if (!this.missing.some((m) => m.input === input)) this.missing.push({ input, text, ...(step ? { step } : {}) });
+  }
+}
+
+/** Significance level, power, attrition and multiplicity: shared by every kind. */
+function common(b: Builder, d: Design, rec: Recommendation | undefined) {
+  b.set('alpha', d.assumptions.alpha, 'Significance level (alpha)', design('Assumptions step'));
+  b.set('power', d.assumptions.power, 'Target power', design('Assumptions step'));
+  const last = [...d.occasions.list].sort((x, y) => x.time - y.time).at(-1);
+  const dropout = Math.max(0, ...d.occasions.list.map((o) => o.attrition));
+  if (dropout > 0) {
+    if (dropout > 0.9) {
+      b.need('dropout', `The attrition of ${dec(dropout * 100, 0)}% is above the 90% the calculation accepts: check the occasions.`, 'occasions');
+    } else {
+      b.set('dropout', tidy(dropout), 'Attrition by the last occasion', design(`Occasions step${last ? `, largest cumulative attrition (${last.label})` : ''}`));
+    }
+  }
+  const K = d.outcome.primaryOutcomes;
+  if (K >= 2) {
+    b.set('outcomes', K, 'Primary outcomes', design('Outcome step'));
+    const planned = d.analysis.multiplicity;
+    const recommended = rec?.analysisPatch.multiplicity;
+    let method: 'none' | 'bonferroni' | 'holm' = 'none';
+    if (planned === 'bonferroni' || planned === 'holm') {
+      method = planned;
+      b.rationale.push(`The alpha is adjusted for ${K} primary outcomes by the ${cap(planned)} method the analysis plan names.`);
+    } else if (planned === 'hierarchical') {
+      b.notes.push(`The plan tests the ${K} primary outcomes in a fixed hierarchy, which keeps the full alpha for the first; the calculation is for that first outcome.`);
+    } else if (recommended === 'holm' || recommended === 'bonferroni') {
+      method = recommended;
+      b.rationale.push(`The analysis plan names no adjustment for the ${K} primary outcomes; the calculation uses the ${cap(recommended)} method the Checks recommend.`);
+    } else {
+      b.notes.push(`Each of the ${K} primary outcomes is tested at the full alpha: the chance of at least one false positive is higher than alpha.`);
+    }
+    b.set('multiplicity', method, 'Adjustment for several outcomes', design(method === planned ? 'Analysis plan step' : 'Recommended analysis (Checks)'));
+  }
+}
+
+function effect(b: Builder, d: Design, input: string, name: string): boolean {
+  const e = d.assumptions.effect;
+  if (e) {
+    b.set(input, e.value, name, fromSource(e.source));
+    return true;
+  }
+  return false;
+}
+
+function sd(b: Builder, d: Design): number | undefined {
+  const s = d.assumptions.outcomeSd;
+  if (!s) {
+    b.need('sd', `The standard deviation of ${outcomeName(d)} (Assumptions step).`, 'assumptions');
+    return undefined;
+  }
+  return s.value;
+}
+
+/** Solve for the size, or for the effect when no effect is given but the planned size is; else record what is missing. */
+function chooseUnknown(b: Builder, hasEffect: boolean, sizeInput: string, effectInput: string, plannedSize: number | undefined, minSize: number): string | null {
+  if (plannedSize !== undefined && plannedSize >= minSize) b.planned = { input: sizeInput, value: plannedSize };
+  if (hasEffect) return sizeInput;
+  if (b.planned) {
+    b.set(sizeInput, b.planned.value, `Planned ${b.labels.size ?? 'size'}`, design('Structure and Assignment steps'));
+    b.rationale.push('No smallest effect worth detecting is given, so the calculation finds the smallest effect the planned size can detect.');
+    return effectInput;
+  }
+  b.need(effectInput, 'The smallest difference worth detecting (Assumptions step), or the planned numbers (Structure step).', 'assumptions');
+  return sizeInput;
+}
+
+const STEP_WORD: Record<DesignStepSlug, string> = Object.fromEntries(DESIGN_STEPS.map((s) => [s.slug, s.label])) as Record<DesignStepSlug, string>;
+
+function iccNeeded(b: Builder, L: Level, input: string, what: string) {
+  b.need(input, `The ICC of ${noun(L)} — ${what} (${STEP_WORD.assumptions} step).`, 'assumptions');
+}
+
+function plannedPerArm(f: DesignFacts, L: LevelInfo): number | undefined {
+  const shares = armShares(f.design);
+  if (shares.length < 2) return undefined;
+  return Math.floor(L.total * Math.min(...shares));
+}
+
+function armsNotes(b: Builder, d: Design, kindCanTakeRatio: boolean) {
+  const arms = d.assignment.arms;
+  if (arms.length > 2) b.notes.push(`The design has ${arms.length} arms; the calculation compares two of them (each pairwise comparison needs this size per arm).`);
+  const shares = armShares(d);
+  if (!kindCanTakeRatio && shares.length >= 2 && Math.max(...shares) - Math.min(...shares) > 1e-9) {
+    b.notes.push('The arms are not equal in size; the calculation assumes equal arms, with the planned number taken from the smallest arm.');
+  }
+}
+
+// ---------------------------------------------------------------- kinds
+
+function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: boolean) {
+  const member = f.levels[E.index + 1]!;
+  const bottom = f.bottom!;
+  const m = member.perParent;
+  b.labels.size = `${noun(E.level, true)} per arm`;
+  b.labels.member = `${noun(member.level, true)} per ${noun(E.level)}`;
+  b.rationale.push(
+    `${cap(noun(E.level, true))} are assigned to the arms and ${noun(member.level, true)} within a ${noun(E.level)} share it, so the ${noun(E.level)} is the experimental unit and the size to plan is the number of ${noun(E.level, true)} per arm, with ${num(m)} ${noun(member.level, true)} in each.`,
+  );
+
+  // ICC shares: the cluster's own, plus levels above it unless blocked on in the analysis.
+  const own = iccOf(f, E.level.id);
+  if (!own) iccNeeded(b, E.level, 'icc', `the share of the variance of ${outcomeName(d)} between ${noun(E.level, true)}`);
+  let clusterShare = own?.value ?? 0;
+  const blocked = d.assignment.blocking.kind !== 'none' && d.assignment.blocking.inAnalysis;
+  for (const up of f.levels.slice(0, E.index)) {
+    const c = iccOf(f, up.level.id);
+    if (!c || c.value === 0) continue;
+    if (blocked) {
+      b.notes.push(`The ICC of ${noun(up.level)} (${dec(c.value, 3)}) is left out: the randomisation is ${d.assignment.blocking.kind} and the analysis includes the blocks.`);
+    } else {
+      clusterShare += c.value;
+      b.note(`ICC of ${noun(up.level)}`, c.value, fromSource(c.source));
+      b.rationale.push(`The variance between ${noun(up.level, true)} (ICC ${dec(c.value, 3)}) is added to that between ${noun(E.level, true)}, since the ${noun(E.level, true)} are not compared within ${noun(up.level, true)}.`);
+    }
+  }
+
+  // Shares below the member level (deeper nesting), as described in the header.
+  let within: number | undefined = 1 - clusterShare;
+  if (member !== bottom) {
+    const sharesBelow: { L: LevelInfo; rho: number }[] = [];
+    let sumAbove = clusterShare;
+    for (const L of f.levels.slice(member.index, bottom.index)) {
+      const c = iccOf(f, L.level.id);
+      if (!c) {
+        iccNeeded(b, L.level, `icc:${L.level.id}`, `the share of the variance between ${noun(L.level, true)} within a ${noun(f.levels[L.index - 1]!.level)}`);
+        within = undefined;
+        continue;
+      }
+      b.note(`ICC of ${noun(L.level)}`, c.value, fromSource(c.source));
+      sharesBelow.push({ L, rho: c.value });
+      sumAbove += c.value;
+    }
+    if (within !== undefined) {
+      if (sumAbove > 1 + 1e-9) {
+        b.need('icc', `The ICCs add up to ${dec(sumAbove, 3)}, more than 1: as shares of one variance they must add up to at most 1 (${STEP_WORD.assumptions} step).`, 'assumptions');
+        within = undefined;
+      } else {
+        const Mc = member.obsPerUnit;
+        within = sharesBelow.reduce((s, x) => s + (x.rho * x.L.obsPerUnit) / Mc, 0) + Math.max(0, 1 - sumAbove) / Mc;
+        b.rationale.push(
+          `The ${num(Mc)} ${noun(bottom.level, Mc !== 1)} of each ${noun(member.level)} are averaged first; the calculation works on ${noun(member.level)} means, whose SD and ICC follow from the variance shares of every level.`,
+        );
+      }
+    }
+  } else if (clusterShare > 1 + 1e-9) {
+    b.need('icc', `The ICCs add up to ${dec(clusterShare, 3)}, more than 1 (${STEP_WORD.assumptions} step).`, 'assumptions');
+    within = undefined;
+  }
+
+  const sigma = binary ? undefined : sd(b, d);
+  if (within !== undefined && own) {
+    const total = clusterShare + within;
+    const icc = total > 0 ? Math.min(1, clusterShare / total) : 0;
+    const deeper = member !== bottom;
+    if (deeper || clusterShare !== own.value) {
+      b.note(`ICC of ${noun(E.level)}`, own.value, fromSource(own.source));
+      b.set('icc', tidy(icc), deeper ? `ICC of ${noun(E.level)}, on ${noun(member.level)} means` : `ICC of ${noun(E.level)} with the levels above`, derived(deeper ? 'ρ / (ρ + v), from the ICCs of every level' : 'sum of the ICCs of the cluster and the levels above'));
+    } else {
+      b.set('icc', own.value, `ICC of ${noun(E.level)}`, fromSource(own.source));
+    }
+    if (sigma !== undefined) {
+      if (deeper) {
+        b.note(`SD of ${outcomeName(d)}`, sigma, fromSource(d.assumptions.outcomeSd!.source));
+        b.set('sd', tidy(sigma * Math.sqrt(total)), `SD of ${noun(member.level)} means`, derived('σ·√(ρ + v), from the outcome SD and the ICCs'));
+      } else {
+        b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(d.assumptions.outcomeSd!.source));
+      }
+    }
+  } else if (sigma !== undefined && member === bottom) {
+    b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(d.assumptions.outcomeSd!.source));
+  }
+  // The number per cluster is fixed by the clusters (a class has its pupils): attrition shrinks
+  // the number analysed, and the calculation's dropout turns that back into the number recruited.
+  const dropout = typeof b.inputs.dropout === 'number' ? b.inputs.dropout : 0;
+  const analysed = Math.max(1, Math.floor(m * (1 - dropout) + 1e-9));
+  if (dropout > 0) {
+    b.note(`${cap(noun(member.level, true))} per ${noun(E.level)} (planned)`, tidy(m), design('Structure step'));
+    b.set('clusterSize', analysed, `${cap(noun(member.level, true))} per ${noun(E.level)} analysed`, derived(`${num(m)} × (1 − ${dec(dropout, 3)}), rounded down`));
+  } else {
+    b.set('clusterSize', analysed, `${cap(noun(member.level, true))} per ${noun(E.level)}`, design('Structure step'));
+    if (!Number.isInteger(m)) b.notes.push(`The structure gives ${num(m)} ${noun(member.level, true)} per ${noun(E.level)} on average; the calculation uses ${analysed}.`);
+  }
+  const cv = sizeCv(f, E.index, member.index);
+  if (cv > 0) b.set('cv', tidy(Math.min(3, cv)), `CV of the number of ${noun(member.level, true)} per ${noun(E.level)}`, design('Structure step'));
+
+  armsNotes(b, d, false);
+  const planned = plannedPerArm(f, E);
+
+  if (binary) {
+    b.rationale.push('The outcome is binary: two proportions, with the sample size multiplied by the design effect of the clusters (Donner & Klar 2000).');
+    b.need('p1', 'The proportion expected in the comparison arm: the design has no field for it; type it below.');
+    b.need('p2', 'The proportion expected in the treated arm: type it below.');
+    if (planned !== undefined) b.planned = { input: 'nPerGroup', value: planned * Math.max(1, Math.round(m)) };
+    b.labels.size = `${noun(member.level, true)} per arm`;
+    return { kind: 'two-proportions' as const, solveFor: 'nPerGroup' };
+  }
+
+  const hasEffect = effect(b, d, 'delta', 'Smallest difference worth detecting');
+  const solveFor = chooseUnknown(b, hasEffect, 'clustersPerArm', 'delta', planned, 2);
+  if (d.occasions.list.some((o) => o.baseline) && d.assumptions.occasionCorrelation) {
+    const r = d.assumptions.occasionCorrelation.value;
+    b.notes.push(
+      `The design measures a baseline (correlation ${dec(r, 2)} between occasions). Adjusting for it can shrink the variance — for individual-level data by the factor 1 − ρ² = ${dec(1 - r * r, 2)} — but in a cluster trial the gain also depends on how well cluster means track over time, which the design does not give; this calculation does not count on it.`,
+    );
+  }
+  return { kind: 'cluster-means' as const, solveFor };
+}
+
+function crossover(b: Builder, d: Design, f: DesignFacts, E: LevelInfo) {
+  const periods = d.assignment.crossover.periods;
+  b.labels.size = `${noun(E.level, true)} per sequence`;
+  b.rationale.push(
+    `Each ${noun(E.level)} receives both arms in a two-period cross-over, so ${noun(E.level, true)} are compared with themselves: the size to plan is the number of ${noun(E.level, true)} per sequence (AB or BA), and the test is the two-sample t test of the halved period differences between the sequences (Senn 2002).`,
+  );
+  const k = E.obsPerUnit / periods;
+  const rhoSource = iccOf(f, E.level.id) ?? (d.assumptions.occasionCorrelation ? { value: d.assumptions.occasionCorrelation.value, source: d.assumptions.occasionCorrelation.source } : undefined);
+  if (!rhoSource) b.need('rho', `The correlation between observations of one ${noun(E.level)}: the ICC of ${noun(E.level)} or the occasion correlation (Assumptions step).`, 'assumptions');
+  else if (rhoSource.value < 0 || rhoSource.value >= 1) b.need('rho', `The correlation between observations of one ${noun(E.level)} must be between 0 and 1 (Assumptions step).`, 'assumptions');
+  const sigma = sd(b, d);
+  b.note(`${cap(noun(f.bottom!.level, true))} per ${noun(E.level)} in each period`, tidy(k), design('Structure and Assignment steps'));
+  if (!Number.isInteger(k)) b.notes.push(`${num(E.obsPerUnit)} observations per ${noun(E.level)} do not split evenly over ${periods} periods; the calculation uses ${dec(k, 2)} per period.`);
+  if (rhoSource && rhoSource.value >= 0 && rhoSource.value < 1 && sigma !== undefined) {
+    b.note(`SD of ${outcomeName(d)}`, sigma, fromSource(d.assumptions.outcomeSd!.source));
+    b.note(`Correlation between observations of one ${noun(E.level)}`, rhoSource.value, fromSource(rhoSource.source));
+    b.set('sd', tidy(sigma * Math.sqrt((1 - rhoSource.value) / (2 * k))), 'SD of the halved period difference', derived('σ·√((1 − ρ)/(2k)), k observations per period'));
+  }
+  if (d.occasions.correlationStructure === 'ar1') {
+    b.notes.push('The occasions are described as AR(1) (neighbouring observations more alike); the calculation assumes equal correlation between all observations of a unit, which is only an approximation then.');
+  }
+  if (d.assignment.crossover.carryoverPossible) b.notes.push('Carry-over is possible: the calculation assumes none; plan a washout (Senn 2002).');
+  const hasEffect = effect(b, d, 'delta', 'Smallest difference worth detecting');
+  const units = E.total;
+  const solveFor = chooseUnknown(b, hasEffect, 'nPerGroup', 'delta', Math.floor(units / 2), 2);
+  return { kind: 'two-group-means' as const, solveFor };
+}
+
+function repeated(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, rec: Recommendation | undefined) {
+  const { baselines, followUps } = f;
+  const times = [...d.occasions.list].sort((x, y) => x.time - y.time).map((o) => o.time);
+  const trajectory = d.occasions.trajectoryOfInterest || d.analysis.randomSlopeForTime;
+  b.labels.size = `${noun(E.level, true)} per arm`;
+  const planned = plannedPerArm(f, E);
+  armsNotes(b, d, false);
+  const rho = d.assumptions.occasionCorrelation ?? (() => {
+    const c = iccOf(f, E.level.id);
+    return c ? { value: c.value, source: c.source } : undefined;
+  })();
+  const setRho = () => {
+    if (!rho) b.need('rho', `The correlation between occasions of one ${noun(E.level)} (Assumptions step).`, 'assumptions');
+    else if (rho.value < 0) b.need('rho', `The occasion correlation is negative (${dec(rho.value, 2)}); the calculation needs a correlation between 0 and 1 (Assumptions step).`, 'assumptions');
+    else if (rho.value >= 1) b.need('rho', 'The occasion correlation must be below 1 (Assumptions step).', 'assumptions');
+    else b.set('rho', rho.value, 'Correlation between occasions', fromSource(rho.source));
+  };
+
+  if (trajectory && times.length >= 2) {
+    b.rationale.push(
+      `The trajectory is of interest: the calculation compares the rates of change of ${outcomeName(d)} between the arms over the ${times.length} occasions (Diggle et al. 2002, compound symmetry).`,
+    );
+    const sigma = sd(b, d);
+    if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(d.assumptions.outcomeSd!.source));
+    setRho();
+    b.set('times', times, `Times of the occasions (${d.occasions.timeUnit})`, design('Occasions step'));
+    const span = times[times.length - 1]! - times[0]!;
+    let hasEffect = false;
+    if (d.assumptions.effect && span > 0) {
+      b.note('Smallest difference worth detecting', d.assumptions.effect.value, fromSource(d.assumptions.effect.source));
+      b.set('slopeDifference', tidy(d.assumptions.effect.value / span), `Difference in slopes (per ${d.occasions.timeUnit.replace(/s$/, '')})`, derived(`the effect reached by the last occasion: δ / ${dec(span, 3)}`));
+      b.rationale.push(`The effect is read as the difference reached by the last occasion, so the difference in slopes is ${dec(d.assumptions.effect.value, 3)} / ${dec(span, 3)} per ${d.occasions.timeUnit.replace(/s$/, '')}.`);
+      hasEffect = true;
+    }
+    const solveFor = chooseUnknown(b, hasEffect, 'nPerGroup', 'slopeDifference', planned, 2);
+    return { kind: 'longitudinal-slopes' as const, solveFor };
+  }
+  if (trajectory) b.need('times', 'At least two occasions with their times, for a trajectory (Occasions step).', 'occasions');
+
+  const nBase = baselines.length;
+  const nFollow = followUps.length > 0 ? followUps.length : Math.max(1, Math.round(E.obsPerUnit) - nBase);
+  if (followUps.length === 0) b.notes.push(`No follow-up occasions are listed; the calculation takes ${nFollow} from the structure (${num(E.obsPerUnit)} observations per ${noun(E.level)}).`);
+  const planAdjusts = d.analysis.adjustsForBaseline || d.analysis.method === 'ancova';
+  const recAdjusts = rec?.analysisPatch.adjustsForBaseline === true;
+  const analysis = nBase > 0 && (planAdjusts || recAdjusts) ? 'ancova' : nBase > 0 ? 'change' : 'post';
+  const analysisWords = { ancova: 'ANCOVA (follow-up mean adjusted for the baseline mean)', change: 'the change from baseline', post: 'the mean of the follow-ups' }[analysis];
+  b.rationale.push(
+    `${cap(noun(E.level, true))} are assigned to the arms and measured ${nBase > 0 ? `at ${nBase} baseline and ${nFollow} follow-up occasion${nFollow === 1 ? '' : 's'}` : `on ${nFollow} occasions`}; the calculation compares ${analysisWords} between the arms (Frison & Pocock 1992).` +
+      (analysis === 'ancova' ? (planAdjusts ? ' The analysis plan adjusts for the baseline.' : ' The Checks recommend adjusting for the baseline.') : ''),
+  );
+  if (analysis === 'change') b.notes.push('The plan compares changes from baseline; ANCOVA on the baseline is never less efficient (Frison & Pocock 1992; Vickers & Altman 2001).');
+  const sigma = sd(b, d);
+  if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(d.assumptions.outcomeSd!.source));
+  setRho();
+  b.set('baselines', nBase, 'Baseline occasions', design('Occasions step'));
+  b.set('followUps', nFollow, 'Follow-up occasions', design(followUps.length > 0 ? 'Occasions step' : 'Structure step'));
+  b.set('analysis', analysis, 'Analysis', design(planAdjusts ? 'Analysis plan step' : recAdjusts ? 'Recommended analysis (Checks)' : 'Analysis plan step'));
+  const hasEffect = effect(b, d, 'delta', 'Smallest difference worth detecting');
+  const solveFor = chooseUnknown(b, hasEffect, 'nPerGroup', 'delta', planned, 2);
+  return { kind: 'repeated-measures' as const, solveFor };
+}
+
+function independent(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: boolean) {
+  b.labels.size = `${noun(E.level, true)} per arm`;
+  const shares = armShares(d);
+  const planned = plannedPerArm(f, E);
+  armsNotes(b, d, true);
+  if (shares.length >= 2 && Math.abs(shares[1]! / shares[0]! - 1) > 1e-9) {
+    b.set('ratio', tidy(shares[1]! / shares[0]!), `Allocation ratio (${d.assignment.arms[1]!.name} : ${d.assignment.arms[0]!.name})`, design('Assignment step'));
+    b.labels.size = `${noun(E.level, true)} in ${d.assignment.arms[0]!.name}`;
+  }
+  if (binary) {
+    b.rationale.push(`${cap(noun(E.level, true))} are independent and the outcome is binary: two proportions, normal approximation (Fleiss, Levin & Paik 2003).`);
+    b.need('p1', 'The proportion expected in the comparison arm: the design has no field for it; type it below.');
+    b.need('p2', 'The proportion expected in the treated arm: type it below.');
+    if (planned !== undefined && planned >= 2) b.planned = { input: 'nPerGroup', value: planned };
+    return { kind: 'two-proportions' as const, solveFor: 'nPerGroup' };
+  }
+  b.rationale.push(`${cap(noun(E.level, true))} are assigned to the arms and measured once each, independently: the calculation is the two-sample t test (Cohen 1988).`);
+  const above = f.levels.slice(0, E.index).filter((l) => l.groupsObservations);
+  if (above.length > 0) {
+    const names = above.map((l) => noun(l.level, true)).join(' and ');
+    b.notes.push(`The ${noun(E.level, true)} share ${names}; if both arms are found within each, an analysis that accounts for the ${names} (see Checks) compares the arms within them and is at least as precise as this t test assumes.`);
+  }
+  const sigma = sd(b, d);
+  if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(d.assumptions.outcomeSd!.source));
+  const hasEffect = effect(b, d, 'delta', 'Smallest difference worth detecting');
+  const solveFor = chooseUnknown(b, hasEffect, 'nPerGroup', 'delta', planned, 2);
+  return { kind: 'two-group-means' as const, solveFor };
+}
+
+function exposure(b: Builder, d: Design, f: DesignFacts, E: LevelInfo | undefined) {
+  const v = d.outcome.explanatoryVariables.find((x) => x.role === 'exposure' && x.kind === 'continuous') ?? d.outcome.explanatoryVariables.find((x) => x.kind === 'continuous' && x.role !== 'covariate');
+  const name = v?.name ?? d.assignment.variableName ?? 'the exposure';
+  b.labels.size = E ? `${noun(E.level, true)} in total` : 'units in total';
+  b.rationale.push(`The exposure (${name}) is continuous: the calculation is the F test of its slope in a linear regression (Cohen 1988).`);
+  const covariates = d.outcome.explanatoryVariables.filter((x) => x.role === 'covariate').length;
+  b.set('testedPredictors', 1, 'Predictors tested', design('Outcome step'));
+  b.set('predictors', 1 + covariates, 'Predictors in the model', design(`Outcome step: the exposure${covariates ? ` and ${covariates} covariate${covariates === 1 ? '' : 's'}` : ''}`));
+  const sigma = sd(b, d);
+  if (sigma !== undefined) {
+    b.set('residualSd', sigma, `Residual SD (taken as the SD of ${outcomeName(d)})`, fromSource(d.assumptions.outcomeSd!.source));
+    b.notes.push('The residual SD is taken as the SD of the outcome, which is conservative: the covariates and the exposure explain some of it.');
+  }
+  b.need('sdX', `The SD of ${name} in the study: the design gives a range, not an SD; type it below.`);
+  const hasEffect = effect(b, d, 'slope', `Slope: change in ${outcomeName(d)} per unit of ${name}`);
+  if (E && E.groupsObservations) b.notes.push(`${cap(noun(E.level, true))} hold several observations each; this regression treats observations as independent, so its size is for ${noun(E.level)}-level data (one value per ${noun(E.level)}).`);
+  const planned = E ? E.total : undefined;
+  const solveFor = chooseUnknown(b, hasEffect, 'n', 'f2', planned, 3);
+  return { kind: 'regression' as const, solveFor };
+}
+
+// ---------------------------------------------------------------- entry point
+
+/**
+ * The calculation that fits `design`, with its inputs, why, where each number came from and what
+ * is missing. `recommendation` is `runChecks(design).recommendation`: its baseline adjustment and
+ * multiplicity method are used when the analysis plan does not name them.
+ */
+export function planFromDesign(input: Design, recommendation?: Recommendation): PlanDraft {
+  const d = input;
+  const f = designFacts(d);
+  const b = new Builder();
+  const done = (kind: CalculationKind | null, solveFor: string | null): PlanDraft => {
+    const inputs = { ...b.inputs };
+    if (solveFor) delete inputs[solveFor];
+    let request: CalculationRequest | null = null;
+    if (kind && b.missing.length === 0) {
+      const parsed = calculationSchema.safeParse({ kind, ...inputs, ...(solveFor ? { solveFor } : {}) });
+      if (parsed.success) request = parsed.data;
+      else for (const issue of parsed.error.issues) b.need(String(issue.path[0] ?? 'input'), `${issue.message} (check the ${issue.path.join('.')} input below).`);
+    }
+    return {
+      kind,
+      solveFor: kind ? solveFor : null,
+      inputs,
+      request,
+      ...(b.planned ? { planned: b.planned } : {}),
+      labels: b.labels,
+      rationale: b.rationale,
+      notes: b.notes,
+      assumptions: b.assumptions,
+      missing: b.missing,
+    };
+  };
+
+  if (f.levels.length === 0) {
+    b.need('structure', 'The levels of the design, from top to bottom (Structure step).', 'structure');
+    b.rationale.push('The structure is not described yet, so no calculation can be chosen.');
+    return done(null, null);
+  }
+  if (d.outcome.type === 'time-to-event') {
+    b.rationale.push('The outcome is a time to an event; Unitwise has no calculation for survival outcomes yet. Ask a statistician for an events-based calculation.');
+    return done(null, null);
+  }
+  const E = f.eu;
+  if (d.assignment.kind === 'continuous') {
+    common(b, d, recommendation);
+    const r = exposure(b, d, f, E);
+    return done(r.kind, r.solveFor);
+  }
+  if (!E) {
+    b.need('assignment', 'The level at which the treatment is assigned (Assignment step).', 'assignment');
+    b.rationale.push('The level of assignment is not given yet, so the experimental unit — and with it the calculation — cannot be chosen.');
+    return done(null, null);
+  }
+  if (d.assignment.arms.length < 2 && !f.withinUnit) {
+    b.need('arms', 'The arms being compared (Assignment step).', 'assignment');
+  }
+  const binary = d.outcome.type === 'binary';
+  if (!d.outcome.type) b.notes.push('The outcome type is not given; the calculation treats the outcome as continuous (Outcome step).');
+  else if (d.outcome.type !== 'continuous' && !binary) {
+    b.notes.push(`The outcome is a ${d.outcome.type.replace(/-/g, ' ')}; the calculation uses its mean and SD (a normal approximation), which is rough when values pile up at a bound or are small counts.`);
+  }
+  common(b, d, recommendation);
+
+  if (f.withinUnit) {
+    if (!d.assignment.crossover.enabled || d.assignment.crossover.periods !== 2 || binary) {
+      b.rationale.push(
+        `The treatment varies within each ${noun(E.level)}${d.assignment.crossover.enabled ? ` over ${d.assignment.crossover.periods} periods` : ''}; Unitwise calculates within-unit comparisons only for a two-period cross-over with a continuous outcome.`,
+      );
+      b.need('crossover', 'A two-period cross-over (Assignment step), or ask a statistician for this design.', 'assignment');
+      return done(null, null);
+    }
+    const r = crossover(b, d, f, E);
+    return done(r.kind, r.solveFor);
+  }
+
+  const below = f.levels[E.index + 1];
+  const measuredOverTime = below?.level.kind === 'repeated' || (!below && f.followUps.length + f.baselines.length >= 2);
+  if (below && E.groupsObservations && below.level.kind !== 'repeated') {
+    const r = clustered(b, d, f, E, binary);
+    return done(r.kind, r.solveFor);
+  }
+  if (measuredOverTime && !binary) {
+    const r = repeated(b, d, f, E, recommendation);
+    return done(r.kind, r.solveFor);
+  }
+  if (measuredOverTime && binary) b.notes.push('The outcome is binary and measured on several occasions; the calculation uses one occasion (the primary one).');
+  const r = independent(b, d, f, E, binary);
+  return done(r.kind, r.solveFor);
+}
+
+/** The Design step's address for a missing item. */
+export function designStepHref(studyId: string, step: DesignStepSlug): string {
+  return `/studies/${studyId}/design/${step}`;
+}

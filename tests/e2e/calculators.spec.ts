@@ -1,0 +1,73 @@
+/**
+ * The public calculators, signed out: the two-group answer matches R's power.t.test
+ * (delta 3, sd 10, power 0.8 → n = 175.38, so 176 per group; R 4.2.2, strict = TRUE), the answer
+ * follows the inputs live, the cluster calculator gives clusters per arm, and the pages pass axe.
+ */
+import { expect, test } from '@playwright/test';
+import { CalculatorPage } from './pages/calculator-page';
+import { expectNoSeriousA11yViolations } from './support/axe';
+import { distinctClientHeaders } from './support/test-data';
+
+test.use({ extraHTTPHeaders: distinctClientHeaders() });
+
+test.describe('calculators, signed out', () => {
+  test('the index lists every kind and passes axe', async ({ page }) => {
+    const calc = new CalculatorPage(page);
+    await calc.gotoIndex();
+    for (const title of ['Two group means', 'Linear regression', 'Cluster-randomised means', 'Baseline and follow-up measures', 'Rates of change', 'Two proportions', 'Design effect', 'Cluster size under a budget']) {
+      await expect(page.getByRole('link', { name: title, exact: true })).toBeVisible();
+    }
+    await expect(calc.caution()).toBeVisible();
+    await expectNoSeriousA11yViolations(page, 'Calculators index');
+  });
+
+  test('two group means: 176 per group, and the answer follows the inputs', async ({ page }) => {
+    const calc = new CalculatorPage(page);
+    await calc.goto('two-group-means', 'Two group means');
+    await calc.solveFor('sample size');
+    await calc.set('Difference in means', '3');
+    await calc.set('Standard deviation', '10');
+    await calc.set('Power', '0.8');
+    await calc.set('Significance level (alpha)', '0.05');
+    await expect(calc.answer('Sample size per group')).toHaveText('176');
+    await expect(calc.answer('Power')).toHaveText('80.1%');
+    await expect(calc.result).toContainText('With 176 per group, a two-sided test at alpha 0.05 has 80.1% power');
+    await expect(calc.caution()).toBeVisible();
+
+    // A larger difference needs fewer: power.t.test(delta = 4, sd = 10, power = .8) gives n = 99.08 → 100.
+    await calc.set('Difference in means', '4');
+    await expect(calc.answer('Sample size per group')).toHaveText('100');
+
+    // Solving for power carries the last size into its field.
+    await calc.solveFor('power');
+    await expect(calc.field('Sample size per group')).toHaveValue('100');
+    await expect(calc.answer('Power')).toHaveText('80.4%');
+
+    await calc.set('Standard deviation', '-1');
+    await expect(calc.status).toContainText('Standard deviation');
+    await expect(calc.field('Standard deviation')).toHaveAttribute('aria-invalid', 'true');
+    await expectNoSeriousA11yViolations(page, 'Two group means calculator with an error');
+  });
+
+  test('cluster-randomised means shows clusters per arm', async ({ page }) => {
+    const calc = new CalculatorPage(page);
+    await calc.goto('cluster-means', 'Cluster-randomised means');
+    await calc.solveFor('clusters per arm');
+    await calc.set('Difference in means', '4');
+    await calc.set('Standard deviation', '12');
+    await calc.set('Intracluster correlation (ICC)', '0.15');
+    await calc.set('Units per cluster', '25');
+    await calc.set('Variation in cluster size (CV)', '0.3');
+    await calc.set('Power', '0.8');
+    await calc.set('Expected attrition', '0');
+    // R: power.t.test(delta = 4, sd = 12 * sqrt(4.9375 / 25), power = .8, strict = TRUE)$n = 28.9 → 29.
+    await expect(calc.answer('Clusters per arm')).toHaveText('29');
+    await expect(calc.result).toContainText('Design effect');
+    await expectNoSeriousA11yViolations(page, 'Cluster-randomised means calculator');
+  });
+
+  test('an unknown kind is a 404', async ({ page }) => {
+    const res = await page.goto('/calculators/anova-of-everything');
+    expect(res?.status()).toBe(404);
+  });
+});

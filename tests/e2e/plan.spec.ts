@@ -1,0 +1,62 @@
+/**
+ * The Plan tab on the demo's classroom design: it chooses the cluster-means calculation and
+ * shows classrooms per arm; changing the ICC changes the number and the power curve (read from
+ * the curve's data table); a saved result is listed with the design revision it came from.
+ *
+ * The end-to-end database is not seeded with the demo (other specs create users first, and the
+ * seed only runs into an empty database), so the spec loads the demo's classroom design into a
+ * new study through the design API, as its owner.
+ */
+import { expect, test } from '@playwright/test';
+import { CLASSROOM_DESIGN } from '../../db/demo/designs';
+import { PlanPage } from './pages/plan-page';
+import { WorkspacePage } from './pages/workspace-page';
+import { expectNoSeriousA11yViolations as checkA11y } from './support/axe';
+import { registerAndSignIn } from './support/flows';
+import { distinctClientHeaders, STRONG_PASSWORD, uniqueEmail } from './support/test-data';
+
+test.use({ extraHTTPHeaders: distinctClientHeaders() });
+
+test('classroom design: clusters per arm, live ICC change, saved with its revision', async ({ page }) => {
+  test.slow();
+  await registerAndSignIn(page, { name: 'Priya Planner', email: uniqueEmail('plan'), password: STRONG_PASSWORD });
+  const studyId = await new WorkspacePage(page).createStudyNamed('Reading-support programme, randomised by classroom', 'Plan test');
+  const put = await page.request.put(`/api/v1/studies/${studyId}/design`, { data: { baseRevision: 1, design: CLASSROOM_DESIGN } });
+  expect(put.status(), await put.text()).toBe(200);
+  const revision = ((await put.json()) as { revision: number }).revision;
+
+  const plan = new PlanPage(page);
+  let before = 0;
+  let curveBefore: string[] = [];
+
+  await test.step('Plan shows classrooms per arm for the classroom design', async () => {
+    await plan.goto(studyId);
+    await expect(plan.heading).toHaveText(`Cluster-randomised means, for revision ${revision}`);
+    await expect(plan.assumptions).toContainText('Regional reading-test report, classroom ICCs');
+    await expect(plan.caution).toBeVisible();
+    await expect(plan.headline('clustersPerArm')).toHaveText(/^\d+$/);
+    before = Number(await plan.headline('clustersPerArm').textContent());
+    expect(before).toBeGreaterThan(10);
+    curveBefore = await plan.curveRows();
+    expect(curveBefore.length).toBeGreaterThan(5);
+    await expect(plan.heatmap).toBeVisible();
+    await checkA11y(page, 'plan tab');
+  });
+
+  await test.step('a smaller ICC needs fewer classrooms, and the curve changes', async () => {
+    await plan.input('Intracluster correlation (ICC)').fill('0.05');
+    await expect.poll(async () => Number(await plan.headline('clustersPerArm').textContent())).toBeLessThan(before);
+    await expect.poll(async () => (await plan.curveRows()).join('|')).not.toBe(curveBefore.join('|'));
+    await expect(plan.curveSummary).toContainText('classrooms per arm');
+  });
+
+  await test.step('save: the result is listed with the revision', async () => {
+    const after = await plan.headline('clustersPerArm').textContent();
+    await plan.saveResult('ICC 0.05 as in the lower published range');
+    const row = plan.saved.getByRole('row').filter({ hasText: `Clusters per arm ${after}` });
+    await expect(row).toBeVisible();
+    await expect(row.getByRole('cell').first()).toHaveText(String(revision));
+    await page.reload();
+    await expect(plan.saved.getByRole('row').filter({ hasText: `Clusters per arm ${after}` })).toBeVisible();
+  });
+});
