@@ -4,7 +4,8 @@ const nextConfig = {
   distDir: process.env.NEXT_DIST_DIR || '.next',
   poweredByHeader: false,
   reactStrictMode: true,
-  serverExternalPackages: ['pg', 'smtp-server', 'mailparser', 'bcryptjs'],
+  // pg-boss and piscina load files at run time (SQL plans, worker threads): keep them out of the bundle.
+  serverExternalPackages: ['pg', 'smtp-server', 'mailparser', 'bcryptjs', 'pg-boss', 'piscina'],
   async headers() {
     return [
       {

@@ -75,5 +75,15 @@ export default defineConfig({
       timeout: 120_000,
       gracefulShutdown: { signal: 'SIGTERM', timeout: 5_000 },
     },
+    {
+      // The stress-test worker (as `npm run worker`): ready once it says it is taking chunks.
+      name: 'worker',
+      command: 'node --import tsx lib/jobs/worker-main.ts',
+      wait: { stdout: /taking stress-test chunks/ },
+      stdout: 'pipe',
+      reuseExistingServer: false,
+      timeout: 60_000,
+      gracefulShutdown: { signal: 'SIGTERM', timeout: 12_000 },
+    },
   ],
 });

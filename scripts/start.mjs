@@ -9,7 +9,13 @@
  *  5. migrations (db/migrate.ts), then the demo seed (db/seed.ts, idempotent)
  *  6. `next build` when the sources changed since the last build (see lib/build.mjs)
  *  7. `next start -p 3000`, and a banner with the URL and the demo accounts once /api/health answers
- * Ctrl-C or SIGTERM stops the web server and the mail sink, and PostgreSQL if this run started it.
+ *  8. a stress-test worker process beside the web server (lib/jobs/worker-main.ts, the same as
+ *     `npm run worker`), restarted when it dies; `--no-worker` leaves it out (when workers run on
+ *     other machines). A separate process rather than next's instrumentation hook: simulations
+ *     keep every core busy, and in their own process they never slow the web server's requests,
+ *     a crash in one cannot take the site down, and the code is the one `npm run worker` runs.
+ * Ctrl-C or SIGTERM stops the web server, the worker and the mail sink, and PostgreSQL if this
+ * run started it.
  *
  * Variables for the app: a value set in the environment wins over .env.local, which wins over the
  * defaults below (NODE_ENV and NEXT_TELEMETRY_DISABLED are always set here).
@@ -25,6 +31,7 @@ import { UserError, assertPortFree, bin, killTransient, run, spawnService, waitF
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 process.chdir(root);
 const dev = process.argv.includes('--dev');
+const withWorker = !process.argv.includes('--no-worker');
 const PORT = 3000;
 const SMTP_PORT = 2525;
 const PG_PORT = 54320;
@@ -129,10 +136,38 @@ async function main() {
     shutdown(code || 1);
   });
 
+  if (withWorker) superviseWorker(env);
+
   const health = await waitForUrl(`${APP_URL}/api/health`, { timeoutMs: dev ? 300_000 : 120_000, abort: server.exited });
   if (stopping || health.aborted) return;
   if (!health.ok) log(`warning: ${APP_URL}/api/health has not answered 200 (last status ${health.status || 'none'})`);
   printBanner(env.DEMO_PASSWORD);
+}
+
+/**
+ * The stress-test worker, restarted when it exits unexpectedly: after 1 s, doubling up to 30 s
+ * while it keeps dying within a minute of starting. A chunk it was computing is retried by the
+ * queue once it expires, so a restart loses nothing.
+ */
+function superviseWorker(env) {
+  let delayMs = 1000;
+  let current = null;
+  cleanups.push(() => current?.stop());
+  const launch = () => {
+    if (stopping) return;
+    const startedAt = Date.now();
+    // `node --import tsx` (not the tsx command, which runs a second process): signals reach the worker itself.
+    current = spawnService(process.execPath, ['--import', 'tsx', 'lib/jobs/worker-main.ts'], { env: { ...env, NODE_ENV: dev ? 'development' : 'production' }, cwd: root });
+    current.exited.then((code) => {
+      if (stopping) return;
+      if (Date.now() - startedAt > 60_000) delayMs = 1000;
+      const wait = delayMs;
+      delayMs = Math.min(30_000, delayMs * 2);
+      console.error(`[start] the stress-test worker exited (code ${code}); restarting it in ${Math.round(wait / 1000)} s`);
+      setTimeout(launch, wait);
+    });
+  };
+  launch();
 }
 
 function printBanner(demoPassword) {

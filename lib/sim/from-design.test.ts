@@ -1,0 +1,115 @@
+import { describe, expect, it } from 'vitest';
+import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
+import { designSchema, type DesignInput } from '@/lib/design/schema';
+import { simulationSpecSchema } from '@/lib/validation/simulations';
+import { specFromDesign } from './from-design';
+
+const parse = (d: DesignInput) => designSchema.parse(d);
+
+describe.each([
+  {
+    name: 'classroom (cluster-randomised, one follow-up after a baseline)',
+    design: CLASSROOM_DESIGN,
+    spec: {
+      design: { arms: 2, clustersPerArm: 20, clusterSize: 25, clusterSizeCv: 0.25 },
+      truth: { effect: 3, sd: 10, icc: 0.15 },
+      scenarios: [{ violation: 'none' }],
+      analyses: ['ols', 'cluster-robust', 'cluster-means', 'mixed'],
+    },
+  },
+  {
+    name: 'greenhouse (trays randomised, leaves of plants as sub-samples)',
+    design: GREENHOUSE_DESIGN,
+    spec: {
+      // Leaf ICC share: 0.4 / (1 − 0.2) = 0.5 of the variance left after the trays.
+      design: { arms: 2, clustersPerArm: 12, clusterSize: 6, clusterSizeCv: 0, occasions: 4 },
+      truth: { effect: 2, sd: 4.5, icc: 0.2, occasionCorrelation: 0.5 },
+      scenarios: [{ violation: 'none' }, { violation: 'skewed' }, { violation: 'unequal-variance' }],
+      analyses: ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'log-ols'],
+    },
+  },
+])('$name', ({ design, spec }) => {
+  const out = specFromDesign(parse(design));
+
+  it('gives the expected specification', () => {
+    expect(out.ok, JSON.stringify(out)).toBe(true);
+    if (!out.ok) return;
+    expect(out.spec.design).toEqual(spec.design);
+    expect(out.spec.truth.effect).toBe(spec.truth.effect);
+    expect(out.spec.truth.sd).toBe(spec.truth.sd);
+    expect(out.spec.truth.icc).toBe(spec.truth.icc);
+    if ('occasionCorrelation' in spec.truth) expect(out.spec.truth.occasionCorrelation).toBeCloseTo(spec.truth.occasionCorrelation as number, 12);
+    else expect(out.spec.truth.occasionCorrelation).toBeUndefined();
+    expect(out.spec.scenarios).toEqual(spec.scenarios);
+    expect(out.spec.analyses).toEqual(spec.analyses);
+    expect(out.spec).toMatchObject({ replicates: 1000, seed: 1, alpha: 0.05 });
+  });
+
+  it('passes the specification schema', () => {
+    if (!out.ok) throw new Error('not derived');
+    const parsed = simulationSpecSchema.safeParse(out.spec);
+    expect(parsed.success, JSON.stringify(parsed.error?.issues)).toBe(true);
+  });
+});
+
+describe('designs the stress test cannot simulate say why', () => {
+  it.each([
+    { name: 'sleep timing (cross-over: the schedule changes within volunteers)', design: SLEEP_DESIGN, reason: /within units \(cross-over\)/ },
+    { name: 'no effect or SD', design: { ...CLASSROOM_DESIGN, assumptions: { iccs: CLASSROOM_DESIGN.assumptions!.iccs } }, reason: /effect worth detecting.*outcome SD/ },
+    {
+      name: 'no ICC for the clusters',
+      design: { ...CLASSROOM_DESIGN, assumptions: { ...CLASSROOM_DESIGN.assumptions, iccs: [] } },
+      reason: /ICC of Classroom/,
+    },
+    { name: 'three arms', design: { ...CLASSROOM_DESIGN, assignment: { ...CLASSROOM_DESIGN.assignment, arms: [{ name: 'A', allocation: 1 }, { name: 'B', allocation: 1 }, { name: 'C', allocation: 1 }] } }, reason: /two arms/ },
+    { name: 'a binary outcome', design: { ...CLASSROOM_DESIGN, outcome: { ...CLASSROOM_DESIGN.outcome, type: 'binary' as const } }, reason: /continuous outcome/ },
+    { name: 'an empty design', design: {}, reason: /levels of the structure/ },
+  ])('$name', ({ design, reason }) => {
+    const out = specFromDesign(parse(design as DesignInput));
+    expect(out.ok).toBe(false);
+    if (out.ok) return;
+    expect(out.missing.join('; ')).toMatch(reason);
+  });
+});
+
+describe('independent units', () => {
+  const base: DesignInput = {
+    outcome: { type: 'continuous', shape: 'symmetric', outliersExpected: true },
+    structure: { levels: [{ id: 'patient', name: 'Patient', kind: 'independent', count: 40 }] },
+    assignment: { kind: 'randomised', levelId: 'patient', arms: [{ name: 'New', allocation: 2 }, { name: 'Usual', allocation: 1 }] },
+    assumptions: { outcomeSd: { value: 8 }, effect: { value: 4 } },
+  };
+
+  it('splits a per-arm count by an unequal allocation, and adds outliers and huber', () => {
+    const out = specFromDesign(parse(base));
+    if (!out.ok) throw new Error(out.missing.join('; '));
+    // 2 × 40 = 80 patients in the ratio 2 : 1 → 53 and 27.
+    expect(out.spec.design).toEqual({ arms: 2, unitsPerArm: [53, 27] });
+    expect(out.spec.scenarios).toEqual([{ violation: 'none' }, { violation: 'outliers' }]);
+    expect(out.spec.analyses).toEqual(['ols', 'huber']);
+    expect(simulationSpecSchema.safeParse(out.spec).success).toBe(true);
+  });
+
+  it('turns repeated measures with serial correlation into occasions with their times', () => {
+    const design = parse({
+      ...base,
+      outcome: { type: 'continuous' },
+      structure: {
+        levels: [
+          { id: 'patient', name: 'Patient', kind: 'independent', count: 30 },
+          { id: 'visit', name: 'Visit', kind: 'repeated', count: 3, spatialOrSerial: true },
+        ],
+      },
+      assignment: { kind: 'randomised', levelId: 'patient', arms: [{ name: 'New', allocation: 1 }, { name: 'Usual', allocation: 1 }] },
+      occasions: { list: [0, 4, 12].map((t) => ({ label: `Week ${t}`, time: t })) },
+      assumptions: { outcomeSd: { value: 8 }, effect: { value: 4 }, iccs: [{ levelId: 'patient', value: 0.6 }] },
+    });
+    const out = specFromDesign(design);
+    if (!out.ok) throw new Error(out.missing.join('; '));
+    expect(out.spec.design).toEqual({ arms: 2, unitsPerArm: 30, occasions: 3, times: [0, 4, 12] });
+    expect(out.spec.truth).toEqual({ effect: 4, sd: 8, icc: 0, occasionCorrelation: 0.6 });
+    expect(out.spec.scenarios).toEqual([{ violation: 'none' }, { violation: 'serial' }]);
+    expect(out.spec.analyses).toEqual(['ols', 'cluster-robust', 'cluster-means', 'mixed']);
+    expect(simulationSpecSchema.safeParse(out.spec).success).toBe(true);
+  });
+});

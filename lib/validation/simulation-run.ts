@@ -1,0 +1,50 @@
+/**
+ * Starting a stress-test run (POST /api/v1/simulations). Two forms:
+ *   { "spec": {…} }                               a compact specification; the run is yours alone
+ *   { "studyId", "revision"?, "spec"?, "replicates"?, "seed"? }
+ *                                                 a run on a study: from the specification sent, or
+ *                                                 else from the design of the revision (the newest
+ *                                                 when left out), with replicates and seed overriding
+ *                                                 the design's defaults
+ * The specification itself is `simulationSpecSchema` (lib/validation/simulations.ts).
+ */
+import { z } from 'zod';
+import { MAX_REPLICATES, simulationSpecSchema } from './simulations';
+
+export const simulationRunSchema = z
+  .object({
+    studyId: z.uuid({ error: 'studyId must be the id of a study.' }).optional(),
+    revision: z.number({ error: 'revision must be a number.' }).int('revision must be a whole number.').min(1, 'revision is at least 1.').optional(),
+    spec: simulationSpecSchema.optional(),
+    replicates: z
+      .number({ error: 'replicates must be a number.' })
+      .int('replicates must be a whole number.')
+      .min(10, 'replicates is at least 10.')
+      .max(MAX_REPLICATES, `replicates can be at most ${MAX_REPLICATES.toLocaleString('en-GB')}.`)
+      .optional(),
+    seed: z.number({ error: 'seed must be a number.' }).int('seed must be a whole number.').min(0, 'seed is at least 0.').max(Number.MAX_SAFE_INTEGER).optional(),
+  })
+  .strict()
+  .superRefine((v, ctx) => {
+    if (v.studyId === undefined && v.spec === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['spec'], message: 'Send a specification (spec), or the studyId of a study whose design to use.' });
+    }
+    if (v.studyId === undefined && v.revision !== undefined) {
+      ctx.addIssue({ code: 'custom', path: ['revision'], message: 'revision applies to a run on a study: send studyId too.' });
+    }
+    for (const key of ['replicates', 'seed'] as const) {
+      if (v[key] === undefined) continue;
+      if (v.spec !== undefined) ctx.addIssue({ code: 'custom', path: [key], message: `With a specification, put ${key} inside spec.` });
+      else if (v.studyId === undefined) ctx.addIssue({ code: 'custom', path: [key], message: `${key} applies to a run on a study: send studyId too.` });
+    }
+  })
+  .meta({ id: 'SimulationRun', description: 'Either spec, or studyId with an optional revision, spec, replicates and seed.' });
+
+export type SimulationRunInput = z.infer<typeof simulationRunSchema>;
+
+/** The query of GET /api/v1/studies/{studyId}/simulations/spec: which revision's design to use. */
+export const simulationSpecQuerySchema = z
+  .object({
+    revision: z.coerce.number({ error: 'revision must be a number.' }).int('revision must be a whole number.').min(1, 'revision is at least 1.').optional(),
+  })
+  .meta({ id: 'SimulationSpecQuery' });
