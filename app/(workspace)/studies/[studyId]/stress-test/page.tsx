@@ -1,0 +1,134 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { Suspense } from 'react';
+import { PlanningCaution } from '@/components/calculations/planning-caution';
+import { sizeOf } from '@/components/stress-test/sweep';
+import { StressTestWorkbench } from '@/components/stress-test/stress-test-workbench';
+import { Alert } from '@/components/ui/alert';
+import { canStudy } from '@/lib/auth/permissions';
+import { currentActor, type Actor } from '@/lib/auth/session';
+import { getDesign } from '@/lib/data/designs';
+import { defaultSimulationSpec, getSimulation, listStudySimulations } from '@/lib/data/simulations';
+import { getStudy } from '@/lib/data/studies';
+import { AppError } from '@/lib/errors';
+import type { SimulationDto } from '@/lib/jobs/dto';
+import type { AnalysisName } from '@/lib/models/types';
+import { load } from '@/lib/page-guard';
+import type { SimulationSpec } from '@/lib/validation/simulations';
+
+export const metadata: Metadata = { title: 'Stress test' };
+
+/** The analyses the form offers: those that use clusters only where the design has clusters or occasions; log-ols where the design calls for it. */
+function analysesFor(spec: SimulationSpec | null): AnalysisName[] {
+  if (!spec) return [];
+  const grouped = spec.design.clustersPerArm !== undefined || spec.design.occasions !== undefined;
+  const offered: AnalysisName[] = grouped ? ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'huber'] : ['ols', 'ols-hc3', 'huber'];
+  if (spec.analyses.includes('log-ols')) offered.push('log-ols');
+  return offered;
+}
+
+/** "classroom" → "classrooms"; names that already end in s stay. */
+function plural(name: string): string {
+  return name.endsWith('s') ? name : `${name}s`;
+}
+
+const notFoundAsNull = (e: unknown) => {
+  if (e instanceof AppError && e.code === 'not_found') return null;
+  throw e;
+};
+
+/**
+ * The run to show: the one in ?run=…, else the newest of the study's last few runs at the
+ * design's own size (runs at other sizes, from "Run at other sizes", are newer but not the
+ * study's answer), else the newest.
+ */
+async function shownRun(actor: Actor | null, requested: string | undefined, runs: SimulationDto[], base: SimulationSpec | null) {
+  if (requested) return getSimulation(actor, requested).catch(notFoundAsNull);
+  if (runs.length === 0) return null;
+  if (base) {
+    for (const r of runs.slice(0, 4)) {
+      const run = await getSimulation(actor, r.id).catch(notFoundAsNull);
+      if (run && sizeOf(run.spec as SimulationSpec) === sizeOf(base)) return run;
+    }
+  }
+  return getSimulation(actor, runs[0]!.id).catch(notFoundAsNull);
+}
+
+export default async function StressTestPage({ params, searchParams }: { params: Promise<{ studyId: string }>; searchParams: Promise<{ run?: string | string[] }> }) {
+  const { studyId } = await params;
+  const { run: runParam } = await searchParams;
+  const actor = await currentActor();
+  const [study, state, defaults, runs] = await Promise.all([
+    load(getStudy(actor, studyId), `/studies/${studyId}/stress-test`),
+    load(getDesign(actor, studyId)),
+    load(defaultSimulationSpec(actor, studyId)),
+    load(listStudySimulations(actor, studyId)),
+  ]);
+  const shown = await shownRun(actor, typeof runParam === 'string' ? runParam : undefined, runs, defaults.spec);
+  const initialRun = shown && shown.studyId === studyId ? (shown as typeof shown & { spec: SimulationSpec }) : null;
+  const canRun = canStudy(study.role, 'simulation.run') && study.status !== 'archived';
+  const top = state.design.structure.levels[0];
+  const clustered = defaults.spec?.design.clustersPerArm !== undefined;
+  const clusterName = clustered && top ? plural(top.name.toLowerCase()) : 'clusters';
+  const sizeLabel = clustered ? `${clusterName} per arm` : 'units per arm';
+
+  return (
+    <div className="space-y-6">
+      <div className="grid gap-6 lg:grid-cols-[1fr_24rem]">
+        <section aria-labelledby="stress-heading" className="space-y-2">
+          <h2 id="stress-heading" className="text-xl font-bold">
+            Stress test of revision {defaults.revision}
+          </h2>
+          <p className="text-sm">
+            Simulates data sets from the saved design many times, breaks one assumption at a time, and analyses each data set with several analyses: how
+            often each finds the planned effect (power), how often it finds an effect that is not there (false-positive rate, from a paired run at zero
+            effect), and whether its 95% confidence intervals hold the true effect 95% of the time. Every figure carries its Monte Carlo SE (Morris, White &
+            Crowther 2019, Stat Med 38:2074).
+          </p>
+          <p className="text-sm text-muted">
+            The defaults come from the{' '}
+            <Link href={`/studies/${studyId}/design`} className="text-brand underline">
+              design
+            </Link>{' '}
+            and its{' '}
+            <Link href={`/studies/${studyId}/checks`} className="text-brand underline">
+              findings
+            </Link>
+            ; results are saved with the design revision they ran on.
+          </p>
+        </section>
+        <aside>
+          <PlanningCaution />
+        </aside>
+      </div>
+
+      {defaults.missing.length > 0 && (
+        <Alert tone="caution" title="Needed before the design can be simulated">
+          <ul className="list-disc space-y-1 pl-5">
+            {defaults.missing.map((m) => (
+              <li key={m}>{m}</li>
+            ))}
+          </ul>
+          <p className="mt-2">
+            <Link href={`/studies/${studyId}/design`} className="font-semibold underline">
+              Complete it on the Design tab
+            </Link>
+          </p>
+        </Alert>
+      )}
+
+      <Suspense fallback={<p className="text-sm text-muted">Loading the stress test…</p>}>
+        <StressTestWorkbench
+          studyId={studyId}
+          revision={defaults.revision}
+          base={defaults.spec}
+          analyses={analysesFor(defaults.spec)}
+          canRun={canRun}
+          initialRun={initialRun}
+          runs={runs}
+          sizeLabel={sizeLabel}
+        />
+      </Suspense>
+    </div>
+  );
+}

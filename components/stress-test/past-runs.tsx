@@ -1,0 +1,70 @@
+'use client';
+
+import Link from 'next/link';
+import type { SimulationDto } from '@/lib/jobs/dto';
+
+const STATUS: Record<SimulationDto['status'], string> = { queued: 'Queued', running: 'Running', done: 'Done', failed: 'Failed', cancelled: 'Cancelled' };
+
+function when(iso: string): string {
+  return new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' }) + ' UTC';
+}
+
+/** The study's runs, newest first, each linking to its results (?run=id); the one shown is marked. */
+export function PastRuns({ runs, shownId, hrefFor }: { runs: SimulationDto[]; shownId: string | null; hrefFor: (id: string) => string }) {
+  return (
+    <section aria-labelledby="past-runs-heading" className="space-y-2 rounded-lg border border-line bg-white p-5">
+      <h2 id="past-runs-heading" className="text-lg font-bold">
+        Runs of this study
+      </h2>
+      {runs.length === 0 ? (
+        <p className="text-sm text-muted">No stress test has been run on this study yet.</p>
+      ) : (
+        <div className="overflow-x-auto">
+          <table className="w-full text-left text-sm" data-testid="past-runs">
+            <caption className="sr-only">Stress tests of this study, newest first</caption>
+            <thead>
+              <tr className="border-b border-line">
+                <th scope="col" className="py-1 pr-3">
+                  Started
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  Design revision
+                </th>
+                <th scope="col" className="py-1 pr-3">
+                  Status
+                </th>
+                <th scope="col" className="py-1 pr-3 text-right">
+                  Replicates
+                </th>
+                <th scope="col" className="py-1">
+                  <span className="sr-only">Results</span>
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {runs.map((r) => (
+                <tr key={r.id} className="border-b border-line/60">
+                  <td className="py-1 pr-3">{when(r.createdAt)}</td>
+                  <td className="py-1 pr-3 tabular-nums">{r.revision ?? '—'}</td>
+                  <td className="py-1 pr-3">{STATUS[r.status]}</td>
+                  <td className="py-1 pr-3 text-right tabular-nums">
+                    {r.progress.replicatesDone.toLocaleString('en-GB')} of {r.progress.replicatesTotal.toLocaleString('en-GB')}
+                  </td>
+                  <td className="py-1">
+                    {r.id === shownId ? (
+                      <span className="font-semibold">Shown above</span>
+                    ) : (
+                      <Link href={hrefFor(r.id)} scroll={false} className="text-brand underline">
+                        Show<span className="sr-only"> the run started {when(r.createdAt)}</span>
+                      </Link>
+                    )}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
+    </section>
+  );
+}

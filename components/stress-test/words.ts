@@ -1,0 +1,96 @@
+/**
+ * The Stress test tab's words: each scenario (one broken assumption with its parameters) and each
+ * analysis in plain words, and how a metric with its Monte Carlo SE is written
+ * ("81.2% ± 1.2%"). Shared by the form, the results table, the charts and their summaries.
+ */
+import type { AnalysisName } from '@/lib/models/types';
+import type { Scenario, Violation } from '@/lib/validation/simulations';
+
+export const VIOLATIONS = ['none', 'skewed', 'heavy-tailed', 'outliers', 'unequal-variance', 'nonlinear', 'serial'] as const satisfies readonly Violation[];
+
+export const VIOLATION_TITLES: Record<Violation, string> = {
+  none: 'Assumptions hold',
+  skewed: 'Right-skewed errors',
+  'heavy-tailed': 'Heavy-tailed errors',
+  outliers: 'Outliers',
+  'unequal-variance': 'Unequal variance',
+  nonlinear: 'Curved relation',
+  serial: 'Serial correlation between occasions',
+};
+
+function num(x: number): string {
+  return Number(x.toPrecision(4)).toLocaleString('en-GB', { maximumFractionDigits: 4 });
+}
+
+/** "Heavy-tailed errors (t with 3 df)": the scenario with its parameters, in plain words. */
+export function describeScenario(s: Scenario): string {
+  switch (s.violation) {
+    case 'none':
+      return 'Assumptions hold (normal errors, constant variance)';
+    case 'skewed':
+      return `Right-skewed errors (log-normal with σ of the log ${num(s.sigmaLog)}, same SD)`;
+    case 'heavy-tailed':
+      return `Heavy-tailed errors (t with ${num(s.df)} df, same SD)`;
+    case 'outliers':
+      return `Outliers (${num(s.fraction * 100)}% of errors multiplied by ${num(s.scale)})`;
+    case 'unequal-variance':
+      if (s.model === 'arm') return `Unequal variance (SD in arm 2 is ${num(s.sdRatio)} × arm 1)`;
+      return `Unequal variance (SD grows with the ${s.model}, ratio ${num(s.sdRatio)})`;
+    case 'nonlinear':
+      return `Curved relation (${s.shape} in ${s.on ?? 'time or a covariate'}, rising ${num(s.strength)} SD, fitted as a line)`;
+    case 'serial':
+      return `Serial correlation between occasions (AR(1) with ρ = ${num(s.ar)})`;
+  }
+}
+
+export const ANALYSIS_TITLES: Record<AnalysisName, string> = {
+  ols: 'ols — least squares, model-based SE (ignores clustering)',
+  'ols-hc3': 'ols-hc3 — least squares with HC3 robust SE',
+  'cluster-robust': 'cluster-robust — CR2 cluster-robust SE, small-sample df',
+  'cluster-means': 'cluster-means — analysis of cluster or unit means',
+  mixed: 'mixed — linear mixed model (REML, random intercepts)',
+  huber: 'huber — Huber M-estimation (k = 1.345), sandwich SE',
+  'log-ols': 'log-ols — least squares on the log outcome (effect as a ratio)',
+  glm: 'glm — logistic or Poisson regression',
+};
+
+export interface MetricValue {
+  value: number | null;
+  mcse: number | null;
+}
+
+/** The columns of the results table, in order; `rate` metrics are shown as percentages. */
+export const RESULT_COLUMNS = [
+  { key: 'power', label: 'Power', rate: true },
+  { key: 'typeIError', label: 'False-positive rate', rate: true },
+  { key: 'coverage', label: 'Coverage', rate: true },
+  { key: 'bias', label: 'Bias', rate: false },
+  { key: 'seRatio', label: 'SE ratio', rate: false },
+  { key: 'ciWidth', label: 'CI width', rate: false },
+  { key: 'nonConverged', label: 'Non-converged', rate: false },
+] as const;
+export type ResultColumn = (typeof RESULT_COLUMNS)[number]['key'];
+
+export function formatRate(p: number | null | undefined): string {
+  if (p === null || p === undefined || !Number.isFinite(p)) return '—';
+  return `${(100 * p).toFixed(1)}%`;
+}
+
+function formatPlain(x: number | null | undefined): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
+  if (Number.isInteger(x)) return x.toLocaleString('en-GB');
+  return Number(x.toPrecision(3)).toLocaleString('en-GB', { maximumFractionDigits: 6 });
+}
+
+/** "81.2% ± 1.2%" for a rate, "0.012 ± 0.031" otherwise; "—" where the value is missing. */
+export function formatMetric(m: MetricValue | undefined, rate: boolean): string {
+  if (!m || m.value === null || !Number.isFinite(m.value)) return '—';
+  const value = rate ? formatRate(m.value) : formatPlain(m.value);
+  if (m.mcse === null || !Number.isFinite(m.mcse)) return value;
+  return `${value} ± ${rate ? formatRate(m.mcse) : formatPlain(m.mcse)}`;
+}
+
+/** Monte Carlo SE of an estimated rate p over R replicates, √(p(1 − p)/R) (Morris, White & Crowther 2019, Stat Med 38:2074). */
+export function rateMcse(p: number, replicates: number): number {
+  return Math.sqrt((p * (1 - p)) / replicates);
+}
