@@ -11,7 +11,7 @@ describe.each([
     name: 'classroom (cluster-randomised, one follow-up after a baseline)',
     design: CLASSROOM_DESIGN,
     spec: {
-      design: { arms: 2, clustersPerArm: 20, clusterSize: 25, clusterSizeCv: 0.25 },
+      design: { arms: 2, clustersPerArm: 10, clusterSize: 25, clusterSizeCv: 0.25 },
       truth: { effect: 3, sd: 10, icc: 0.15 },
       scenarios: [{ violation: 'none' }],
       analyses: ['ols', 'cluster-robust', 'cluster-means', 'mixed'],
@@ -22,7 +22,7 @@ describe.each([
     design: GREENHOUSE_DESIGN,
     spec: {
       // Leaf ICC share: 0.4 / (1 − 0.2) = 0.5 of the variance left after the trays.
-      design: { arms: 2, clustersPerArm: 12, clusterSize: 6, clusterSizeCv: 0, occasions: 4 },
+      design: { arms: 2, clustersPerArm: 6, clusterSize: 6, clusterSizeCv: 0, occasions: 4 },
       truth: { effect: 2, sd: 4.5, icc: 0.2, occasionCorrelation: 0.5 },
       scenarios: [{ violation: 'none' }, { violation: 'skewed' }, { violation: 'unequal-variance' }],
       analyses: ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'log-ols'],
@@ -80,11 +80,11 @@ describe('independent units', () => {
     assumptions: { outcomeSd: { value: 8 }, effect: { value: 4 } },
   };
 
-  it('splits a per-arm count by an unequal allocation, and adds outliers and huber', () => {
+  it('splits the study total by an unequal allocation, and adds outliers and huber', () => {
     const out = specFromDesign(parse(base));
     if (!out.ok) throw new Error(out.missing.join('; '));
-    // 2 × 40 = 80 patients in the ratio 2 : 1 → 53 and 27.
-    expect(out.spec.design).toEqual({ arms: 2, unitsPerArm: [53, 27] });
+    // The top level's count is the total in the study: 40 patients in the ratio 2 : 1 → 27 and 13.
+    expect(out.spec.design).toEqual({ arms: 2, unitsPerArm: [27, 13] });
     expect(out.spec.scenarios).toEqual([{ violation: 'none' }, { violation: 'outliers' }]);
     expect(out.spec.analyses).toEqual(['ols', 'huber']);
     expect(simulationSpecSchema.safeParse(out.spec).success).toBe(true);
@@ -106,7 +106,7 @@ describe('independent units', () => {
     });
     const out = specFromDesign(design);
     if (!out.ok) throw new Error(out.missing.join('; '));
-    expect(out.spec.design).toEqual({ arms: 2, unitsPerArm: 30, occasions: 3, times: [0, 4, 12] });
+    expect(out.spec.design).toEqual({ arms: 2, unitsPerArm: 15, occasions: 3, times: [0, 4, 12] });
     expect(out.spec.truth).toEqual({ effect: 4, sd: 8, icc: 0, occasionCorrelation: 0.6 });
     expect(out.spec.scenarios).toEqual([{ violation: 'none' }, { violation: 'serial' }]);
     expect(out.spec.analyses).toEqual(['ols', 'cluster-robust', 'cluster-means', 'mixed']);

@@ -4,11 +4,13 @@
  *
  * What is taken from the design:
  * - design: two arms; the level the treatment is assigned at is the experimental unit.
- *   · assigned to a grouping level (classroom, tray): clustersPerArm = its count (per arm; half of
- *     it when the count is a total), clusterSize = the count of the level below (the units) and
- *     clusterSizeCv = that level's count CV.
- *   · assigned to independent units: unitsPerArm = the level's count (per arm; a total is split
- *     by the arms' allocation).
+ *   The assigned level is the top level, whose count is the total in the study over both arms
+ *   (the counting convention of lib/design/derive.ts); it is split by the arms' allocation.
+ *   · assigned to a grouping level (classroom, tray): clustersPerArm = the smaller arm's share
+ *     (the specification has one number of clusters per arm; with equal allocation that is half
+ *     the total), clusterSize = the count of the level below (the units) and clusterSizeCv =
+ *     that level's count CV.
+ *   · assigned to independent units: unitsPerArm = the total split by the allocation.
  *   · a level of repeated measures or sub-samples below the units (nights, leaves) becomes the
  *     occasions (count = that level's count; times from the design's occasions when there are as
  *     many non-baseline occasions, else 0, 1, 2, …). Without such a level, two or more
@@ -49,16 +51,10 @@ function iccOf(design: Design, levelId: string): number | undefined {
   return design.assumptions.iccs.find((c) => c.levelId === levelId)?.value;
 }
 
-/** Count per arm of the assigned level, from a per-arm count or a total split by allocation. */
-function perArm(level: Level, allocation: [number, number]): number | [number, number] {
-  if (!level.countIsTotal) {
-    if (allocation[0] === allocation[1]) return level.count;
-    const total = 2 * level.count;
-    const n1 = Math.round((total * allocation[0]) / (allocation[0] + allocation[1]));
-    return [n1, total - n1];
-  }
-  const n1 = Math.round((level.count * allocation[0]) / (allocation[0] + allocation[1]));
-  const n2 = level.count - n1;
+/** The top level's total split by the arms' allocation: one number when the arms are equal. */
+function perArm(total: number, allocation: [number, number]): number | [number, number] {
+  const n1 = Math.round((total * allocation[0]) / (allocation[0] + allocation[1]));
+  const n2 = total - n1;
   return n1 === n2 ? n1 : [n1, n2];
 }
 
@@ -156,8 +152,8 @@ export function specFromDesign(design: Design): SpecFromDesign {
     design: {
       arms: 2,
       ...(clustered
-        ? { clustersPerArm: Math.max(2, assigned.countIsTotal ? Math.floor(assigned.count / 2) : assigned.count), clusterSize: units!.count, clusterSizeCv: units!.countCv }
-        : { unitsPerArm: perArm(assigned, allocation) }),
+        ? { clustersPerArm: Math.max(2, Math.min(...[perArm(assigned.count, allocation)].flat())), clusterSize: units!.count, clusterSizeCv: units!.countCv }
+        : { unitsPerArm: perArm(assigned.count, allocation) }),
       ...(occasionCount !== undefined ? { occasions: occasionCount, ...(times ? { times } : {}) } : {}),
     },
     truth: {

@@ -1,58 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import fixture from './fixtures/normal.json';
 import { normalCdf, normalPdf, normalQuantile, normalSf } from './normal';
+import { expectNoMismatches, mismatch, tailTolerance, TINY, type Tolerance } from './test-helpers';
 
 /**
  * Reference values: `fixtures/normal.json`, written by `fixtures/generate_normal.py` with
  * Debian's SciPy (version in the file's header) plus 80-digit values from Python's decimal.
  */
 
-/** Below this the reference values are subnormal or underflow to 0: compare absolutely. */
-const TINY = 1e-300;
 const EPS = 2 ** -52;
-
-interface Tolerance {
-  relative?: number;
-  absolute?: number;
-}
-
-interface Mismatch {
-  input: string;
-  expected: number;
-  got: number;
-  difference: number;
-  tolerance: number;
-}
-
-/** Allowed |got − expected|: the larger of the relative and the absolute tolerance. */
-function allowed(expected: number, { relative = 0, absolute = 0 }: Tolerance): number {
-  return Math.max(relative * Math.abs(expected), absolute);
-}
-
-function mismatch(input: string, got: number, expected: number, tol: Tolerance): Mismatch | null {
-  const difference = Math.abs(got - expected);
-  const tolerance = allowed(expected, tol);
-  return difference <= tolerance ? null : { input, expected, got, difference, tolerance };
-}
-
-/** Fails with every mismatch listed: input, expected and got values, difference, tolerance. */
-function expectNoMismatches(mismatches: (Mismatch | null)[]): void {
-  const found = mismatches.filter((m): m is Mismatch => m !== null);
-  const report = found
-    .slice(0, 20)
-    .map(
-      (m) =>
-        `${m.input}: expected ${m.expected}, got ${m.got}, difference ${m.difference.toExponential(3)}, ` +
-        `tolerance ${m.tolerance.toExponential(3)}`,
-    )
-    .join('\n');
-  expect(found.length, `${found.length} value(s) outside tolerance:\n${report}`).toBe(0);
-}
-
-/** A relative tolerance where the value exceeds 1e-300; absolute 1e-300 below (subnormals). */
-function tailTolerance(expected: number, relative: number): Tolerance {
-  return Math.abs(expected) > TINY ? { relative } : { absolute: TINY };
-}
 
 /**
  * The accuracy claimed in normal.ts, checked against the 80-digit values. (Measured: below

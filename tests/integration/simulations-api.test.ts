@@ -257,13 +257,13 @@ describe('runs on a study', () => {
 
     const derived = await studySpec.GET(request('GET', `/api/v1/studies/${w.studyId}/simulations/spec`, { user: w.byRole.viewer }), ctx({ studyId: w.studyId }));
     expect(derived.status).toBe(200);
-    expect(await derived.json()).toMatchObject({ revision: 2, missing: [], spec: { design: { clustersPerArm: 20 }, replicates: 1000, seed: 1, alpha: 0.05 } });
+    expect(await derived.json()).toMatchObject({ revision: 2, missing: [], spec: { design: { clustersPerArm: 10 }, replicates: 1000, seed: 1, alpha: 0.05 } });
 
     const first = await post(w.byRole.consultant, { studyId: w.studyId, replicates: 10, seed: 3 });
     expect(first.status, JSON.stringify(first.body)).toBe(202);
     expect(first.body).toMatchObject({ studyId: w.studyId, revision: 2 });
     expect(first.body.spec).toMatchObject({
-      design: { clustersPerArm: 20, clusterSize: 25, clusterSizeCv: 0.25 },
+      design: { clustersPerArm: 10, clusterSize: 25, clusterSizeCv: 0.25 },
       truth: { effect: 3, sd: 10, icc: 0.15 },
       analyses: ['ols', 'cluster-robust', 'cluster-means', 'mixed'],
       replicates: 10,
