@@ -46,6 +46,15 @@ const engine: Engine<SimulationSpec> = {
   },
 };
 
+/** A run's stored per-replicate fits of each named scenario, merged in replicate order, as bytes. */
+async function perReplicate(id: string, scenarios: string[]): Promise<Buffer[]> {
+  const blocks = (await storedChunks(id)).map((c) => decodeResults(c.results) as ReplicateBlock);
+  return scenarios.map((name) => {
+    const m = mergeBlocks(blocks.filter((b) => b.scenario === name));
+    return Buffer.concat([m.estimate, m.se, m.df, m.converged].map((a) => Buffer.from(a.buffer, a.byteOffset, a.byteLength)));
+  });
+}
+
 let worker: RunningWorker | undefined;
 
 async function startTestWorker() {
@@ -164,20 +173,50 @@ describe('a run from a compact specification', () => {
     ended.forEach((e) => expect(e.status, e.error ?? '').toBe('done'));
 
     // The per-replicate fits, merged in replicate order: the same bytes.
-    const perReplicate = async (id: string) => {
-      const blocks = (await storedChunks(id)).map((c) => decodeResults(c.results) as ReplicateBlock);
-      return ['none', 'rare outliers'].map((name) => {
-        const m = mergeBlocks(blocks.filter((b) => b.scenario === name));
-        return Buffer.concat([m.estimate, m.se, m.df, m.converged].map((a) => Buffer.from(a.buffer, a.byteOffset, a.byteLength)));
-      });
-    };
-    const [one, four, whole] = await Promise.all(ids.map(perReplicate));
+    const [one, four, whole] = await Promise.all(ids.map((id) => perReplicate(id, ['none', 'rare outliers'])));
     expect(one![0]!.equals(four![0]!) && one![0]!.equals(whole![0]!)).toBe(true);
     expect(one![1]!.equals(four![1]!) && one![1]!.equals(whole![1]!)).toBe(true);
     // And the aggregated results, to the last digit.
     expect(JSON.stringify(ended[0].results)).toBe(JSON.stringify(ended[1].results));
     expect(JSON.stringify(ended[0].results)).toBe(JSON.stringify(ended[2].results));
     expect(Object.keys(ended[0].results)).toEqual(['none', 'rare outliers']);
+  });
+
+  it('gives the same bytes with one chunk at a time and with four at once, finishing out of order', async () => {
+    const me = await makeUser('parallel');
+    const spec: SimulationSpecInput = {
+      design: { arms: 2, clustersPerArm: 3, clusterSize: 4 },
+      truth: { effect: 1, sd: 2, icc: 0.2 },
+      scenarios: [{ violation: 'none' }, { violation: 'heavy-tailed' }],
+      analyses: ['ols', 'cluster-robust', 'mixed'],
+      replicates: 16,
+      seed: 23,
+    };
+    await startTestWorker();
+    const serial = await createSimulation(actor(me), { spec: spec as SimulationSpec }, { chunkSize: 1 });
+    const serialEnded = await waitUntilEnded(me, serial.id);
+    expect(serialEnded.status, serialEnded.error ?? '').toBe('done');
+    await pauseTestWorker();
+
+    // Four slots, and chunks that take longer or shorter by their position: they finish out of order.
+    const shuffled: Engine<SimulationSpec> = {
+      ...engine,
+      async computeChunk(s, scenarioIndex, from, to) {
+        await new Promise((resolve) => setTimeout(resolve, ((from * 7 + scenarioIndex * 3) % 5) * 15));
+        return engine.computeChunk(s, scenarioIndex, from, to);
+      },
+    };
+    const four = await startWorker({ db: db(), engine: shuffled, concurrency: 4, log: () => {} });
+    try {
+      const parallel = await createSimulation(actor(me), { spec: spec as SimulationSpec }, { chunkSize: 1 });
+      const parallelEnded = await waitUntilEnded(me, parallel.id);
+      expect(parallelEnded.status, parallelEnded.error ?? '').toBe('done');
+      const [a, b] = await Promise.all([serial.id, parallel.id].map((id) => perReplicate(id, ['none', 'heavy-tailed'])));
+      expect(a![0]!.equals(b![0]!) && a![1]!.equals(b![1]!)).toBe(true);
+      expect(JSON.stringify(parallelEnded.results)).toBe(JSON.stringify(serialEnded.results));
+    } finally {
+      await four.pause();
+    }
   });
 
   it('fails with a plain message when a chunk fails on every attempt', async () => {
