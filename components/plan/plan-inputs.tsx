@@ -2,6 +2,7 @@
 
 import { SelectField, TextField } from '@/components/ui/field';
 import { SOLVE_LABELS, type FieldSpec } from '@/components/calculations/kinds';
+import { SolveForChoice } from '@/components/calculations/solve-for-choice';
 
 export type InputValues = Record<string, string | boolean>;
 
@@ -27,19 +28,13 @@ export function PlanInputs({ fields, values, errors, solvable, solveFor, labels,
         </h3>
         <p className="mt-1 text-sm text-muted">Filled in from the design. Change any value to see the answer and the charts update; the design itself is not changed.</p>
       </div>
-      {solvable.length > 0 && (
-        <fieldset className="space-y-2">
-          <legend className="text-sm font-semibold">Solve for</legend>
-          <div className="flex flex-wrap gap-x-5 gap-y-2">
-            {solvable.map((name) => (
-              <label key={name} className="flex items-center gap-2 text-sm">
-                <input type="radio" name="plan-solve-for" value={name} checked={solveFor === name} onChange={() => onSolveFor(name)} />
-                {labels[name]?.toLowerCase() ?? SOLVE_LABELS[name] ?? name}
-              </label>
-            ))}
-          </div>
-        </fieldset>
-      )}
+      <SolveForChoice
+        name="plan-solve-for"
+        solvable={solvable}
+        value={solveFor}
+        onChange={onSolveFor}
+        labelOf={(name) => labels[name]?.toLowerCase() ?? SOLVE_LABELS[name] ?? name}
+      />
       <div className="grid gap-4 sm:grid-cols-2">
         {fields.map((field) => {
           const label = labels[field.name] ?? field.label;

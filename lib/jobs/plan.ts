@@ -17,8 +17,7 @@
  * random stream, so results do not depend on how the run is cut.
  */
 import type { AnalysisName } from '@/lib/models/types';
-import { clusterSizes } from '@/lib/sim/cluster-sizes';
-import type { SimulationSpec } from '@/lib/validation/simulations';
+import { rowsPerDataset as datasetRows, type SimulationSpec } from '@/lib/validation/simulations';
 
 /** Estimated µs per row per fit, by analysis. */
 const ANALYSIS_COST_US: Record<AnalysisName, number> = {
@@ -47,16 +46,11 @@ const GENERATION_US_PER_ROW = 0.12;
 /** At most this many chunks per scenario, so that a huge run does not flood the queue. */
 export const MAX_CHUNKS_PER_SCENARIO = 500;
 
-/** Rows (observations) of one simulated data set. */
+/** Rows (observations) of one simulated data set of a valid specification. */
 export function rowsPerDataset(design: SimulationSpec['design']): number {
-  const occasions = design.occasions ?? 1;
-  if (design.clustersPerArm !== undefined && design.clusterSize !== undefined) {
-    const sizes = clusterSizes(design.clustersPerArm, design.clusterSize, design.clusterSizeCv);
-    return 2 * sizes.reduce((s, m) => s + m, 0) * occasions;
-  }
-  const units = design.unitsPerArm ?? 0;
-  const [n1, n2] = typeof units === 'number' ? [units, units] : units;
-  return (n1 + n2) * occasions;
+  const rows = datasetRows(design);
+  if (rows === undefined) throw new RangeError('The specification has neither clusters nor units per arm.');
+  return rows;
 }
 
 /** Estimated seconds of one replicate (both hypotheses, every analysis). */

@@ -236,7 +236,7 @@ export function scenarioKey(scenario: Scenario): string {
 }
 
 /** Rows of one data set, or undefined when the design is incomplete (the refinements report that). */
-function rowsPerDataset(design: SimulationDesign): number | undefined {
+export function rowsPerDataset(design: SimulationDesign): number | undefined {
   const occasions = design.occasions ?? 1;
   if (design.clustersPerArm !== undefined && design.clusterSize !== undefined) {
     try {
