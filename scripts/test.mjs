@@ -28,7 +28,8 @@ const argv = process.argv.slice(2);
 const unitOnly = argv.includes('--unit-only');
 const e2e = !unitOnly && !argv.includes('--no-e2e');
 const TEST_DIR = path.join(root, '.data/test');
-const PG_PORT = 54329;
+// Another checkout's suite can run beside this one on its own database port (e2e ports stay fixed).
+const PG_PORT = Number(process.env.UNITWISE_TEST_PG_PORT || 54329);
 const APP_PORT = 3100;
 const SMTP_PORT = 2526;
 const APP_URL = `http://localhost:${APP_PORT}`;
