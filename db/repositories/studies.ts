@@ -1,5 +1,6 @@
 import { sql, type Kysely, type Transaction } from 'kysely';
 import type { Database, StudyRole, StudyStatus } from '../schema';
+import type { RowLock } from './workspaces';
 
 type Db = Kysely<Database> | Transaction<Database>;
 
@@ -57,21 +58,39 @@ export function rowToStudy(r: StudyColumns): Study {
   };
 }
 
-/** The study and the role of `userId` on it (null when not a member), with the workspace role. */
+/** The workspace a study belongs to (it never changes), or undefined when there is no such study. */
+export async function findStudyWorkspaceId(db: Db, studyId: string): Promise<string | undefined> {
+  const row = await db.selectFrom('studies').select('workspace_id').where('id', '=', studyId).executeTakeFirst();
+  return row?.workspace_id;
+}
+
+/** Locks the study's row until the transaction ends (lib/data/access.ts: after its workspace's). */
+export async function lockStudy(trx: Transaction<Database>, studyId: string, mode: RowLock): Promise<boolean> {
+  const q = trx.selectFrom('studies').select('id').where('id', '=', studyId);
+  const row = await (mode === 'share' ? q.forShare() : q.forNoKeyUpdate()).executeTakeFirst();
+  return row !== undefined;
+}
+
+/**
+ * The study and the role of `userId` on it (null when not a member), with the workspace role.
+ * With `lock` (in a transaction) the study's row stays locked until the transaction ends.
+ */
 export async function findStudyForUser(
   db: Db,
   studyId: string,
   userId: string,
+  lock?: RowLock,
 ): Promise<{ study: Study; role: StudyRole | null; workspaceRole: 'admin' | 'member' | null } | undefined> {
-  const row = await db
+  const query = db
     .selectFrom('studies')
     .leftJoin('study_members', (j) => j.onRef('study_members.study_id', '=', 'studies.id').on('study_members.user_id', '=', userId))
     .leftJoin('workspace_members', (j) =>
       j.onRef('workspace_members.workspace_id', '=', 'studies.workspace_id').on('workspace_members.user_id', '=', userId),
     )
     .select([...STUDY_COLUMNS, 'study_members.role as role', 'workspace_members.role as workspace_role'])
-    .where('studies.id', '=', studyId)
-    .executeTakeFirst();
+    .where('studies.id', '=', studyId);
+  const locked = lock === 'share' ? query.forShare('studies') : lock === 'update' ? query.forNoKeyUpdate('studies') : query;
+  const row = await locked.executeTakeFirst();
   if (!row) return undefined;
   return { study: rowToStudy(row), role: row.role, workspaceRole: row.workspace_role };
 }

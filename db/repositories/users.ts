@@ -21,6 +21,14 @@ export async function findUserByEmail(db: Db, email: string): Promise<(User & { 
   return { id: row.id, name: row.name, email: row.email, emailVerified: row.emailVerified, passwordHash: row.password_hash };
 }
 
+/**
+ * Locks the person's row until the transaction ends: checks of what one person may have at once
+ * (e.g. stress tests queued or running) and the write they guard happen one at a time.
+ */
+export async function lockUser(trx: Transaction<Database>, userId: string): Promise<void> {
+  await trx.selectFrom('User').select('id').where('id', '=', userId).forNoKeyUpdate().execute();
+}
+
 export async function findUserById(db: Db, id: string): Promise<User | undefined> {
   return db.selectFrom('User').select(['id', 'name', 'email', 'emailVerified']).where('id', '=', id).executeTakeFirst();
 }

@@ -3,6 +3,21 @@ import type { Database, WorkspaceRole } from '../schema';
 
 type Db = Kysely<Database> | Transaction<Database>;
 
+/**
+ * How a transaction holds a row it checks before writing (lib/data/access.ts explains the order):
+ * 'share' lets others share it but keeps out anyone who holds it for 'update' (FOR SHARE);
+ * 'update' holds it alone (FOR NO KEY UPDATE, which still lets other transactions insert rows
+ * that reference it).
+ */
+export type RowLock = 'share' | 'update';
+
+/** Locks the workspace's row until the transaction ends; false when there is no such workspace. */
+export async function lockWorkspace(trx: Transaction<Database>, workspaceId: string, mode: RowLock): Promise<boolean> {
+  const q = trx.selectFrom('workspaces').select('id').where('id', '=', workspaceId);
+  const row = await (mode === 'share' ? q.forShare() : q.forNoKeyUpdate()).executeTakeFirst();
+  return row !== undefined;
+}
+
 export interface Workspace {
   id: string;
   name: string;

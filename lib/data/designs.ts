@@ -8,12 +8,15 @@ import { db } from '@/lib/db';
 import { AppError } from '@/lib/errors';
 import type { DesignSaveInput, FindingNoteInput } from '@/lib/validation/design';
 import { requireStudy } from './access';
+import { transaction } from './transaction';
 
 /**
  * The study's design, saved as revisions: every save appends one JSON snapshot with its author,
  * time and the checks computed from it, so nothing is ever overwritten. Two people saving at
  * once: when they changed different parts of the design the second save is merged onto the first;
- * when they changed the same part the second gets a conflict that names who saved what.
+ * when they changed the same part the second gets a conflict that names who saved what. A save
+ * holds the study's row from reading the newest revision to appending the next one, so two saves
+ * at the same moment take turns and the second is merged or refused like a later one.
  */
 
 export interface DesignState {
@@ -54,55 +57,51 @@ export async function saveDesign(
   studyId: string,
   input: DesignSaveInput,
 ): Promise<DesignState & { merged: boolean }> {
-  const { actor: a, study } = await requireStudy(actor, studyId, 'design.edit');
-  if (input.baseRevision > study.currentRevision) {
-    throw new AppError('bad_request', `Revision ${input.baseRevision} does not exist yet; the newest is ${study.currentRevision}.`, {
-      fields: { baseRevision: ['Newer than the newest revision.'] },
-    });
-  }
-  let design = input.design;
-  let expected = input.baseRevision;
-  let merged = false;
-
-  if (input.baseRevision < study.currentRevision) {
-    const [base, current] = await Promise.all([findRevision(db(), studyId, input.baseRevision), findRevision(db(), studyId, study.currentRevision)]);
-    const baseDesign = parseStored(base?.design).design;
-    const currentDesign = parseStored(current?.design).design;
-    const mine = changedParts(baseDesign, design);
-    const theirs = changedParts(baseDesign, currentDesign);
-    const overlap = mine.filter((p) => theirs.includes(p));
-    if (overlap.length > 0) {
-      const when = current ? current.createdAt.toISOString().slice(11, 16) : '';
-      throw new AppError(
-        'conflict',
-        `${current?.authorName ?? 'Someone'} saved revision ${study.currentRevision} at ${when} UTC, which also changed ${overlap.map((p) => PART_LABEL[p]).join(' and ')}. Your edit was not saved and is kept in this browser: reload to see their version, then apply your change again.`,
-      );
+  return transaction(async (trx) => {
+    const { actor: a, study } = await requireStudy(actor, studyId, 'design.edit', { trx, lock: 'update' });
+    if (input.baseRevision > study.currentRevision) {
+      throw new AppError('bad_request', `Revision ${input.baseRevision} does not exist yet; the newest is ${study.currentRevision}.`, {
+        fields: { baseRevision: ['Newer than the newest revision.'] },
+      });
     }
-    // Different parts: take theirs, then mine on top.
-    const mergedDesign = { ...currentDesign } as Design;
-    for (const p of mine) (mergedDesign as Record<DesignPart, unknown>)[p] = design[p];
-    const reparsed = designSchema.safeParse(mergedDesign);
-    if (!reparsed.success) {
-      throw new AppError('conflict', 'Someone else changed the design meanwhile in a way that does not fit your edit. Reload to see their version.');
-    }
-    design = reparsed.data;
-    expected = study.currentRevision;
-    merged = true;
-  }
+    let design = input.design;
+    let merged = false;
 
-  const checks = runChecks(design);
-  const number = await db()
-    .transaction()
-    .execute(async (trx) => {
-      const n = await appendRevision(trx, { studyId, expected, design, checks, authorId: a.id, note: input.note ?? null });
-      if (n === undefined) return undefined;
-      await logActivity(trx, { workspaceId: study.workspaceId, studyId, actorId: a.id, action: 'design.saved', details: { revision: n, merged } });
-      return n;
-    });
-  if (number === undefined) {
-    throw new AppError('conflict', 'Someone saved the design at the same moment. Your edit is kept in this browser: reload, then apply it again.');
-  }
-  return { revision: number, design, savedAt: new Date().toISOString(), savedBy: a.name ?? a.email, readable: true, merged };
+    if (input.baseRevision < study.currentRevision) {
+      const base = await findRevision(trx, studyId, input.baseRevision);
+      const current = await findRevision(trx, studyId, study.currentRevision);
+      const baseDesign = parseStored(base?.design).design;
+      const currentDesign = parseStored(current?.design).design;
+      const mine = changedParts(baseDesign, design);
+      const theirs = changedParts(baseDesign, currentDesign);
+      const overlap = mine.filter((p) => theirs.includes(p));
+      if (overlap.length > 0) {
+        const when = current ? current.createdAt.toISOString().slice(11, 16) : '';
+        throw new AppError(
+          'conflict',
+          `${current?.authorName ?? 'Someone'} saved revision ${study.currentRevision} at ${when} UTC, which also changed ${overlap.map((p) => PART_LABEL[p]).join(' and ')}. Your edit was not saved and is kept in this browser: reload to see their version, then apply your change again.`,
+        );
+      }
+      // Different parts: take theirs, then mine on top.
+      const mergedDesign = { ...currentDesign } as Design;
+      for (const p of mine) (mergedDesign as Record<DesignPart, unknown>)[p] = design[p];
+      const reparsed = designSchema.safeParse(mergedDesign);
+      if (!reparsed.success) {
+        throw new AppError('conflict', 'Someone else changed the design meanwhile in a way that does not fit your edit. Reload to see their version.');
+      }
+      design = reparsed.data;
+      merged = true;
+    }
+
+    const checks = runChecks(design);
+    // The study's row is locked, so the compare-and-set cannot miss; it stays as a guard.
+    const number = await appendRevision(trx, { studyId, expected: study.currentRevision, design, checks, authorId: a.id, note: input.note ?? null });
+    if (number === undefined) {
+      throw new AppError('conflict', 'Someone saved the design at the same moment. Your edit is kept in this browser: reload, then apply it again.');
+    }
+    await logActivity(trx, { workspaceId: study.workspaceId, studyId, actorId: a.id, action: 'design.saved', details: { revision: number, merged } });
+    return { revision: number, design, savedAt: new Date().toISOString(), savedBy: a.name ?? a.email, readable: true, merged };
+  });
 }
 
 export async function checkDesign(actor: Actor | null, studyId: string, design?: Design) {
@@ -110,21 +109,20 @@ export async function checkDesign(actor: Actor | null, studyId: string, design?:
   return { revision: state.revision, ...runChecks(design ?? state.design) };
 }
 
+/** The note is kept with the revision that is the newest while the study's row is held. */
 export async function addFindingNote(actor: Actor | null, studyId: string, input: FindingNoteInput): Promise<FindingNote[]> {
-  const { actor: a, study } = await requireStudy(actor, studyId, 'finding.address');
-  await db()
-    .transaction()
-    .execute(async (trx) => {
-      await insertFindingNote(trx, { studyId, ...input, revision: study.currentRevision, actorId: a.id });
-      await logActivity(trx, {
-        workspaceId: study.workspaceId,
-        studyId,
-        actorId: a.id,
-        action: input.status === 'addressed' ? 'finding.addressed' : 'finding.reopened',
-        details: { ruleId: input.ruleId, key: input.key },
-      });
+  return transaction(async (trx) => {
+    const { actor: a, study } = await requireStudy(actor, studyId, 'finding.address', { trx, lock: 'share' });
+    await insertFindingNote(trx, { studyId, ...input, revision: study.currentRevision, actorId: a.id });
+    await logActivity(trx, {
+      workspaceId: study.workspaceId,
+      studyId,
+      actorId: a.id,
+      action: input.status === 'addressed' ? 'finding.addressed' : 'finding.reopened',
+      details: { ruleId: input.ruleId, key: input.key },
     });
-  return listNotesRows(db(), studyId);
+    return listNotesRows(trx, studyId);
+  });
 }
 
 export async function listFindingNotes(actor: Actor | null, studyId: string): Promise<FindingNote[]> {

@@ -10,8 +10,8 @@ import {
   type Invitation,
   type InvitationState,
 } from '@/db/repositories/invitations';
-import { upsertStudyMember } from '@/db/repositories/studies';
-import { findMembership, upsertWorkspaceMember } from '@/db/repositories/workspaces';
+import { lockStudy, upsertStudyMember } from '@/db/repositories/studies';
+import { findMembership, lockWorkspace, upsertWorkspaceMember } from '@/db/repositories/workspaces';
 import { logActivity } from '@/db/repositories/activity';
 import { canStudy, canWorkspace, STUDY_ROLE_DESCRIPTIONS } from '@/lib/auth/permissions';
 import type { Actor } from '@/lib/auth/session';
@@ -26,6 +26,7 @@ import { enforce, LIMITS } from '@/lib/rate-limit';
 import type { StudyInvitationCreateInput } from '@/lib/validation/member';
 import type { WorkspaceInvitationCreateInput } from '@/lib/validation/workspace';
 import { requireActor, requireStudy, requireWorkspace } from './access';
+import { transaction } from './transaction';
 
 /**
  * Invitations by e-mail: an expiring (7 days), single-use link. A workspace invitation makes the
@@ -53,22 +54,21 @@ export async function inviteToWorkspace(
   const { actor: a } = await requireWorkspace(actor, workspaceId, 'workspace.invite');
   await enforce(db(), `invite:${a.id}`, LIMITS.invitationsPerUser, 'invitations');
   const { token, hash } = newToken();
-  const inv = await db()
-    .transaction()
-    .execute(async (trx) => {
-      const created = await insertInvitation(trx, {
-        workspaceId,
-        studyId: null,
-        email: input.email,
-        workspaceRole: input.role,
-        studyRole: null,
-        tokenHash: hash,
-        invitedBy: a.id,
-        expiresAt: expiry(),
-      });
-      await logActivity(trx, { workspaceId, actorId: a.id, action: 'invitation.created', details: { email: input.email, role: input.role } });
-      return created;
+  const inv = await transaction(async (trx) => {
+    await requireWorkspace(a, workspaceId, 'workspace.invite', { trx, lock: 'share' });
+    const created = await insertInvitation(trx, {
+      workspaceId,
+      studyId: null,
+      email: input.email,
+      workspaceRole: input.role,
+      studyRole: null,
+      tokenHash: hash,
+      invitedBy: a.id,
+      expiresAt: expiry(),
     });
+    await logActivity(trx, { workspaceId, actorId: a.id, action: 'invitation.created', details: { email: input.email, role: input.role } });
+    return created;
+  });
   const roleSentence =
     input.role === 'admin'
       ? 'As a workspace admin you will manage its members and invitations.'
@@ -81,22 +81,21 @@ export async function inviteToStudy(actor: Actor | null, studyId: string, input:
   const { actor: a, study } = await requireStudy(actor, studyId, 'members.manage');
   await enforce(db(), `invite:${a.id}`, LIMITS.invitationsPerUser, 'invitations');
   const { token, hash } = newToken();
-  const inv = await db()
-    .transaction()
-    .execute(async (trx) => {
-      const created = await insertInvitation(trx, {
-        workspaceId: study.workspaceId,
-        studyId,
-        email: input.email,
-        workspaceRole: 'member',
-        studyRole: input.role,
-        tokenHash: hash,
-        invitedBy: a.id,
-        expiresAt: expiry(),
-      });
-      await logActivity(trx, { workspaceId: study.workspaceId, studyId, actorId: a.id, action: 'invitation.created', details: { email: input.email, role: input.role } });
-      return created;
+  const inv = await transaction(async (trx) => {
+    await requireStudy(a, studyId, 'members.manage', { trx, lock: 'share' });
+    const created = await insertInvitation(trx, {
+      workspaceId: study.workspaceId,
+      studyId,
+      email: input.email,
+      workspaceRole: 'member',
+      studyRole: input.role,
+      tokenHash: hash,
+      invitedBy: a.id,
+      expiresAt: expiry(),
     });
+    await logActivity(trx, { workspaceId: study.workspaceId, studyId, actorId: a.id, action: 'invitation.created', details: { email: input.email, role: input.role } });
+    return created;
+  });
   await sendMail(
     invitationMail(
       input.email,
@@ -123,23 +122,32 @@ export async function listStudyInvitations(actor: Actor | null, studyId: string)
   return (await listInvitations(db(), { workspaceId: study.workspaceId, studyId })).map(view);
 }
 
+/**
+ * Revoking and accepting lock the invitation's workspace and study rows (in that order) before
+ * they check, so a revoke and an acceptance at the same moment take turns; the conditional
+ * update of the invitation row decides which one it was.
+ */
 export async function revokeInvitation(actor: Actor | null, invitationId: string): Promise<void> {
   const a = requireActor(actor);
   if (!/^[0-9a-f-]{36}$/i.test(invitationId)) throw notFound('The invitation');
-  const inv = await findInvitationById(db(), invitationId);
-  if (!inv) throw notFound('The invitation');
-  const wsRole = await findMembership(db(), inv.workspaceId, a.id);
-  if (!wsRole) throw notFound('The invitation');
-  let allowed = canWorkspace(wsRole, 'workspace.invite');
-  if (!allowed && inv.studyId) {
-    const s = await findStudyForUser(db(), inv.studyId, a.id);
-    allowed = canStudy(s?.role, 'members.manage');
-  }
-  if (!allowed) throw forbidden('revoke this invitation');
-  if (!(await revokeInvitationRow(db(), invitationId))) {
-    throw new AppError('conflict', 'This invitation was already accepted or revoked.');
-  }
-  await logActivity(db(), { workspaceId: inv.workspaceId, studyId: inv.studyId, actorId: a.id, action: 'invitation.revoked', details: { email: inv.email } });
+  const found = await findInvitationById(db(), invitationId);
+  if (!found) throw notFound('The invitation');
+  await transaction(async (trx) => {
+    await lockWorkspace(trx, found.workspaceId, 'share');
+    if (found.studyId) await lockStudy(trx, found.studyId, 'share');
+    const wsRole = await findMembership(trx, found.workspaceId, a.id);
+    if (!wsRole) throw notFound('The invitation');
+    let allowed = canWorkspace(wsRole, 'workspace.invite');
+    if (!allowed && found.studyId) {
+      const s = await findStudyForUser(trx, found.studyId, a.id);
+      allowed = canStudy(s?.role, 'members.manage');
+    }
+    if (!allowed) throw forbidden('revoke this invitation');
+    if (!(await revokeInvitationRow(trx, invitationId))) {
+      throw new AppError('conflict', 'This invitation was already accepted or revoked.');
+    }
+    await logActivity(trx, { workspaceId: found.workspaceId, studyId: found.studyId, actorId: a.id, action: 'invitation.revoked', details: { email: found.email } });
+  });
 }
 
 /** What the invitation page shows before accepting. Knowing the token is the permission. */
@@ -149,30 +157,39 @@ export async function previewInvitation(token: string): Promise<InvitationView |
   return inv && view(inv);
 }
 
+/**
+ * Joining adds a workspace (and study) membership, so it holds the workspace's row shared and the
+ * study's row alone: removing the person from the workspace at the same moment waits, and then
+ * removes the new study membership too. The invitation is claimed by one conditional update, so
+ * it is used once, never after it was revoked or expired.
+ */
 export async function acceptInvitation(actor: Actor | null, token: string): Promise<{ workspaceId: string; studyId: string | null }> {
   const a = requireActor(actor);
-  const inv = await previewInvitation(token);
-  if (!inv) throw notFound('The invitation');
-  if (inv.state !== 'pending') {
-    throw new AppError('gone', inv.state === 'accepted' ? 'This invitation was already used.' : `This invitation is ${inv.state}. Ask for a new one.`);
-  }
-  if (inv.email !== a.email.toLowerCase()) {
-    throw new AppError('forbidden', `This invitation was sent to ${inv.email}. Sign in with that address to accept it.`);
-  }
-  return db()
-    .transaction()
-    .execute(async (trx) => {
-      const id = await claimInvitation(trx, hashToken(token), a.id);
-      if (!id) throw new AppError('gone', 'This invitation was already used.');
-      await upsertWorkspaceMember(trx, inv.workspaceId, a.id, inv.workspaceRole);
-      if (inv.studyId && inv.studyRole) await upsertStudyMember(trx, inv.studyId, a.id, inv.studyRole);
-      await logActivity(trx, {
-        workspaceId: inv.workspaceId,
-        studyId: inv.studyId,
-        actorId: a.id,
-        action: 'invitation.accepted',
-        details: { role: inv.studyRole ?? inv.workspaceRole },
-      });
-      return { workspaceId: inv.workspaceId, studyId: inv.studyId };
+  const found = await previewInvitation(token);
+  if (!found) throw notFound('The invitation');
+  return transaction(async (trx) => {
+    await lockWorkspace(trx, found.workspaceId, 'share');
+    if (found.studyId) await lockStudy(trx, found.studyId, 'update');
+    const stored = await findInvitationByTokenHash(trx, hashToken(token));
+    if (!stored) throw notFound('The invitation');
+    const inv = view(stored);
+    if (inv.state !== 'pending') {
+      throw new AppError('gone', inv.state === 'accepted' ? 'This invitation was already used.' : `This invitation is ${inv.state}. Ask for a new one.`);
+    }
+    if (inv.email !== a.email.toLowerCase()) {
+      throw new AppError('forbidden', `This invitation was sent to ${inv.email}. Sign in with that address to accept it.`);
+    }
+    const id = await claimInvitation(trx, hashToken(token), a.id);
+    if (!id) throw new AppError('gone', 'This invitation was already used.');
+    await upsertWorkspaceMember(trx, inv.workspaceId, a.id, inv.workspaceRole);
+    if (inv.studyId && inv.studyRole) await upsertStudyMember(trx, inv.studyId, a.id, inv.studyRole);
+    await logActivity(trx, {
+      workspaceId: inv.workspaceId,
+      studyId: inv.studyId,
+      actorId: a.id,
+      action: 'invitation.accepted',
+      details: { role: inv.studyRole ?? inv.workspaceRole },
     });
+    return { workspaceId: inv.workspaceId, studyId: inv.studyId };
+  });
 }

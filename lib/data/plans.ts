@@ -9,6 +9,7 @@ import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
 import type { PlanResultSaveInput } from '@/lib/validation/plans';
 import { requireStudy } from './access';
+import { transaction } from './transaction';
 
 /**
  * Results of the Plan tab saved to a study. The server recomputes every result from its request
@@ -32,39 +33,45 @@ function compute(request: PlanResultSaveInput['request']): CalculationOutput {
   }
 }
 
+function staleRevision(sent: number, newest: number): AppError {
+  return new AppError(
+    'conflict',
+    `The design was saved again (revision ${newest}) after this result was computed from revision ${sent}. Reload the Plan tab and save the result again.`,
+    { fields: { revision: [`The newest revision is ${newest}.`] } },
+  );
+}
+
+/**
+ * Checks the rights and the revision once before computing (so that a refused request costs no
+ * computation) and again, with the study's row shared, when storing: a design saved meanwhile
+ * either waits for this result or makes it stale.
+ */
 export async function savePlanResult(actor: Actor | null, studyId: string, input: PlanResultSaveInput): Promise<SavedPlanResult> {
-  const { actor: a, study } = await requireStudy(actor, studyId, 'calculation.save');
-  if (input.revision !== undefined && input.revision !== study.currentRevision) {
-    throw new AppError(
-      'conflict',
-      `The design was saved again (revision ${study.currentRevision}) after this result was computed from revision ${input.revision}. Reload the Plan tab and save the result again.`,
-      { fields: { revision: [`The newest revision is ${study.currentRevision}.`] } },
-    );
-  }
+  const first = await requireStudy(actor, studyId, 'calculation.save');
+  if (input.revision !== undefined && input.revision !== first.study.currentRevision) throw staleRevision(input.revision, first.study.currentRevision);
   const output = compute(input.request);
-  const row = {
-    studyId,
-    revision: study.currentRevision,
-    kind: input.request.kind,
-    request: input.request,
-    output,
-    note: input.note ? input.note : null,
-    createdBy: a.id,
-  };
-  const id = await db()
-    .transaction()
-    .execute(async (trx) => {
-      const newId = await insertPlanResult(trx, row);
-      await logActivity(trx, {
-        workspaceId: study.workspaceId,
-        studyId,
-        actorId: a.id,
-        action: 'plan.saved',
-        details: { resultId: newId, revision: row.revision, kind: row.kind, solvedFor: output.solvedFor },
-      });
-      return newId;
+  return transaction(async (trx) => {
+    const { actor: a, study } = await requireStudy(actor, studyId, 'calculation.save', { trx, lock: 'share' });
+    if (input.revision !== undefined && input.revision !== study.currentRevision) throw staleRevision(input.revision, study.currentRevision);
+    const row = {
+      studyId,
+      revision: study.currentRevision,
+      kind: input.request.kind,
+      request: input.request,
+      output,
+      note: input.note ? input.note : null,
+      createdBy: a.id,
+    };
+    const id = await insertPlanResult(trx, row);
+    await logActivity(trx, {
+      workspaceId: study.workspaceId,
+      studyId,
+      actorId: a.id,
+      action: 'plan.saved',
+      details: { resultId: id, revision: row.revision, kind: row.kind, solvedFor: output.solvedFor },
     });
-  return { id, ...row, createdByName: a.name ?? a.email, createdAt: new Date() };
+    return { id, ...row, createdByName: a.name ?? a.email, createdAt: new Date() };
+  });
 }
 
 export async function listPlanResults(actor: Actor | null, studyId: string): Promise<SavedPlanResult[]> {

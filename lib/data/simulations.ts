@@ -10,6 +10,7 @@ import {
   setJobIds,
   type Simulation,
 } from '@/db/repositories/simulations';
+import { lockUser } from '@/db/repositories/users';
 import type { Actor } from '@/lib/auth/session';
 import { db } from '@/lib/db';
 import { designSchema } from '@/lib/design/schema';
@@ -23,6 +24,7 @@ import { specFromDesign } from '@/lib/sim/from-design';
 import type { SimulationRunInput } from '@/lib/validation/simulation-run';
 import { simulationSpecSchema, type SimulationSpec } from '@/lib/validation/simulations';
 import { requireActor, requireStudy } from './access';
+import { afterCommit, transaction } from './transaction';
 
 /**
  * Stress-test runs. A run on a study needs the right to run simulations on it ('simulation.run':
@@ -32,7 +34,9 @@ import { requireActor, requireStudy } from './access';
  *
  * Limits, so that one person cannot flood the queue: at most SIM_MAX_ACTIVE_RUNS runs queued or
  * running at once, at most SIM_MAX_REPLICATES replicates per run (summed over its scenarios),
- * and at most `RUNS_PER_HOUR` runs started per hour.
+ * and at most `RUNS_PER_HOUR` runs started per hour. The number of active runs is checked once
+ * before the work of planning a run and again, with the person's row locked, where the run is
+ * stored, so that runs started at the same moment cannot pass the limit together.
  */
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -99,15 +103,20 @@ async function enforceLimits(actor: Actor, spec: SimulationSpec): Promise<void> 
       { fields: { replicates: [`At most ${Math.floor(config.maxReplicates / spec.scenarios.length).toLocaleString('en-GB')} with ${spec.scenarios.length} scenarios.`] } },
     );
   }
-  const load = await activeLoadOfUser(db(), actor.id);
-  if (load.runs >= config.maxActiveRuns) {
+  await refuseBeyondActiveRuns(db(), actor);
+  await enforce(db(), `simulations:${actor.id}`, RUNS_PER_HOUR, 'stress tests started in the last hour');
+}
+
+async function refuseBeyondActiveRuns(q: Parameters<typeof activeLoadOfUser>[0], actor: Actor): Promise<void> {
+  const max = jobsConfig().maxActiveRuns;
+  const load = await activeLoadOfUser(q, actor.id);
+  if (load.runs >= max) {
     throw new AppError(
       'rate_limited',
-      `You already have ${load.runs} stress test${load.runs === 1 ? '' : 's'} queued or running (at most ${config.maxActiveRuns}). Wait for one to finish, or cancel one, then start this one.`,
+      `You already have ${load.runs} stress test${load.runs === 1 ? '' : 's'} queued or running (at most ${max}). Wait for one to finish, or cancel one, then start this one.`,
       { retryAfterSeconds: 30 },
     );
   }
-  await enforce(db(), `simulations:${actor.id}`, RUNS_PER_HOUR, 'stress tests started in the last hour');
 }
 
 export async function createSimulation(actor: Actor | null, input: SimulationRunInput, options: { chunkSize?: number } = {}): Promise<SimulationDto> {
@@ -132,31 +141,32 @@ export async function createSimulation(actor: Actor | null, input: SimulationRun
 
   const chunkSize = Math.min(spec.replicates, options.chunkSize ?? chooseChunkSize(spec, jobsConfig().chunkSeconds));
   const chunks = planChunks(spec, chunkSize);
-  const run = await db()
-    .transaction()
-    .execute(async (trx) => {
-      const created = await insertSimulation(trx, {
-        studyId: study?.id ?? null,
-        revisionNumber: revision,
-        createdBy: a.id,
-        spec,
-        replicatesTotal: replicatesTotal(spec),
-        chunkSize,
-        chunkCount: chunks.length,
-      });
-      const jobIds = await enqueueChunks(trx, created.id, chunks);
-      await setJobIds(trx, created.id, jobIds);
-      if (study) {
-        await logActivity(trx, {
-          workspaceId: study.workspaceId,
-          studyId: study.id,
-          actorId: a.id,
-          action: 'simulation.started',
-          details: { simulationId: created.id, revision, replicates: spec.replicates, scenarios: spec.scenarios.length },
-        });
-      }
-      return { ...created, jobIds };
+  const run = await transaction(async (trx) => {
+    if (study) await requireStudy(a, study.id, 'simulation.run', { trx, lock: 'share' });
+    await lockUser(trx, a.id);
+    await refuseBeyondActiveRuns(trx, a);
+    const created = await insertSimulation(trx, {
+      studyId: study?.id ?? null,
+      revisionNumber: revision,
+      createdBy: a.id,
+      spec,
+      replicatesTotal: replicatesTotal(spec),
+      chunkSize,
+      chunkCount: chunks.length,
     });
+    const jobIds = await enqueueChunks(trx, created.id, chunks);
+    await setJobIds(trx, created.id, jobIds);
+    if (study) {
+      await logActivity(trx, {
+        workspaceId: study.workspaceId,
+        studyId: study.id,
+        actorId: a.id,
+        action: 'simulation.started',
+        details: { simulationId: created.id, revision, replicates: spec.replicates, scenarios: spec.scenarios.length },
+      });
+    }
+    return { ...created, jobIds };
+  });
   return simulationDto(run, { withSpec: true });
 }
 
@@ -182,13 +192,16 @@ export async function getSimulation(actor: Actor | null, id: string): Promise<Si
 /** Cancels a queued or running run; a run that has already ended is returned as it is. */
 export async function cancelSimulation(actor: Actor | null, id: string): Promise<SimulationDto> {
   const { actor: a, run } = await visibleRun(actor, id, 'cancel');
-  const ended = await endRun(db(), run.id, 'cancelled');
+  const ended = await transaction(async (trx) => {
+    const study = run.studyId ? (await requireStudy(a, run.studyId, 'simulation.run', { trx, lock: 'share' })).study : null;
+    const row = await endRun(trx, run.id, 'cancelled');
+    if (row && study) {
+      await logActivity(trx, { workspaceId: study.workspaceId, studyId: study.id, actorId: a.id, action: 'simulation.cancelled', details: { simulationId: row.id } });
+    }
+    return row;
+  });
   if (!ended) return simulationDto(run, { withSpec: true });
-  await withdrawChunks(ended.jobIds);
-  if (ended.studyId) {
-    const access = await requireStudy(a, ended.studyId, 'study.read');
-    await logActivity(db(), { workspaceId: access.study.workspaceId, studyId: ended.studyId, actorId: a.id, action: 'simulation.cancelled', details: { simulationId: ended.id } });
-  }
+  await afterCommit(() => withdrawChunks(ended.jobIds));
   return simulationDto(ended, { withSpec: true });
 }
 
