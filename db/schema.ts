@@ -222,6 +222,19 @@ export interface PlanResultTable {
   created_at: Generated<Date>;
 }
 
+/** A write's Idempotency-Key and the answer it got (lib/api/idempotency.ts); kept 24 hours. */
+export interface IdempotencyKeyTable {
+  user_id: string;
+  key: string;
+  method: string;
+  path: string;
+  request_hash: string;
+  /** Null only inside the transaction that claimed the key, never in a committed row. */
+  response_status: number | null;
+  response_body: string | null;
+  created_at: Generated<Date>;
+}
+
 export interface Database {
   User: UserTable;
   Account: AccountTable;
@@ -241,6 +254,7 @@ export interface Database {
   plan_results: PlanResultTable;
   simulations: SimulationTable;
   simulation_chunks: SimulationChunkTable;
+  idempotency_keys: IdempotencyKeyTable;
 }
 
 export type UserRow = Selectable<UserTable>;

@@ -3,11 +3,13 @@ import type { z } from 'zod';
 import { actorFromRequest, type Actor } from '@/lib/auth/session';
 import { env } from '@/lib/env';
 import { AppError, toAppError, unauthorized, type FieldErrors } from '@/lib/errors';
+import { idempotent } from './idempotency';
 
 /**
  * The thin shell around every /api/v1 route handler: refuses cross-site writes, resolves the
  * signed-in user, turns thrown AppErrors into `{"error": {"code", "message", "fields"?}}` with
- * the matching status, and hides every other error behind a logged 500.
+ * the matching status, and hides every other error behind a logged 500. Writes honour an
+ * Idempotency-Key header (lib/api/idempotency.ts).
  */
 export interface ApiContext<P> {
   req: Request;
@@ -62,10 +64,14 @@ export function api<P extends Record<string, string> = Record<string, never>>(
       const actor = options.public ? null : await actorFromRequest(req);
       if (!options.public && !actor) throw unauthorized();
       const params = ((await context?.params) ?? {}) as P;
-      const out = await fn({ req, actor, params });
-      if (out instanceof Response) return out;
-      if (out === undefined) return new Response(null, { status: 204 });
-      return Response.json(out, { status: options.status ?? 200 });
+      const respond = async (): Promise<Response> => {
+        const out = await fn({ req, actor, params });
+        if (out instanceof Response) return out;
+        if (out === undefined) return new Response(null, { status: 204 });
+        return Response.json(out, { status: options.status ?? 200 });
+      };
+      // A write with an Idempotency-Key is carried out once however often it is sent.
+      return MUTATING.has(req.method) ? await idempotent(req, actor, respond) : await respond();
     } catch (err) {
       return errorResponse(err);
     }

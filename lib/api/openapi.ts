@@ -342,6 +342,21 @@ export const API_ROUTES: RouteConfig[] = [
   },
 ];
 
+const WRITE_METHODS = new Set(['post', 'put', 'patch', 'delete']);
+
+/** The Idempotency-Key header of every signed-in write (lib/api/idempotency.ts). */
+const idempotencyHeaders = z.object({
+  'Idempotency-Key': z
+    .string()
+    .regex(/^[\x21-\x7e]{1,255}$/)
+    .optional()
+    .meta({
+      example: '3f0c9a52-8c1e-4b8e-9a57-2d6f0e4b1c77',
+      description:
+        'Optional; 1 to 255 visible characters, a new UUID per write is simplest. A write sent again with the same key (say, because its answer was lost) is carried out once: the repeat gets the first answer again, with the header `Idempotent-Replayed: true`. The same key with another method, path or body is refused with 409. Only successful answers are kept, for 24 hours, per signed-in person.',
+    }),
+});
+
 export function openApiDocument() {
   const registry = new OpenAPIRegistry();
   registry.registerComponent('securitySchemes', 'session', {
@@ -350,7 +365,11 @@ export function openApiDocument() {
     name: 'authjs.session-token',
     description: 'The session cookie set by signing in (named __Secure-authjs.session-token over https).',
   });
-  for (const route of API_ROUTES) registry.registerPath({ security: [{ session: [] }], ...route });
+  for (const route of API_ROUTES) {
+    const signedInWrite = WRITE_METHODS.has(route.method) && route.security === undefined;
+    const request = signedInWrite ? { ...route.request, headers: idempotencyHeaders } : route.request;
+    registry.registerPath({ security: [{ session: [] }], ...route, request });
+  }
   registry.registerPath({
     method: 'get',
     path: '/api/health',
