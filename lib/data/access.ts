@@ -16,10 +16,11 @@ import { AppError, forbidden, notFound, unauthorized } from '@/lib/errors';
  * A write makes its checks inside its transaction with `{ trx, lock }`: the rows the checks read
  * stay locked until the write commits, so that no other write can change what was checked in
  * between (two admins demoting each other, a member removed while creating a study). Locks are
- * always taken in the same order, so that two writes never wait for each other: the workspace's
- * row first (for a study: shared), then the study's row, then anything below (a person's row,
- * an invitation). `lock` is 'update' for a write that changes what others check (roles,
- * memberships, the study's status or revision) and 'share' for one that only depends on it.
+ * always taken in the same order, so that two writes never each wait for the other (a deadlock):
+ * the workspace's row first (shared, for a study), then the study's row, then the rows below it
+ * (a person's row; an invitation's row through its conditional update). `lock` is 'update' for a
+ * write that changes what others check (roles, memberships, the study's status or revision) and
+ * 'share' for one that only depends on it.
  */
 
 export interface Locked {

@@ -151,6 +151,25 @@ describe('duplicates sent together', () => {
   });
 });
 
+describe('writes with keys', () => {
+  it('take the same locks: two admins demoting each other still leave an admin', async () => {
+    for (let trial = 0; trial < 10; trial++) {
+      const w = await makeWorld();
+      const admin = w.byRole.editor;
+      await db().updateTable('workspace_members').set({ role: 'admin' }).where('workspace_id', '=', w.workspaceId).where('user_id', '=', admin.id).execute();
+      const demote = (by: TestUser, target: TestUser) =>
+        wsMember.PATCH(
+          request('PATCH', `/api/v1/workspaces/${w.workspaceId}/members/${target.id}`, { user: by, body: { role: 'member' }, headers: { 'Idempotency-Key': `demote-${trial}` } }),
+          ctx({ workspaceId: w.workspaceId, userId: target.id }),
+        );
+      const answers = await Promise.all([demote(w.byRole.owner, admin), demote(admin, w.byRole.owner)]);
+      expect(answers.map((r) => r.status).sort(), `trial ${trial}`).toEqual([200, 403]);
+      const admins = await db().selectFrom('workspace_members').select('user_id').where('workspace_id', '=', w.workspaceId).where('role', '=', 'admin').execute();
+      expect(admins, `trial ${trial}`).toHaveLength(1);
+    }
+  });
+});
+
 describe('a write whose transaction failed before it committed', () => {
   it('is carried out by its retry, once', async () => {
     const w = await makeWorld();
