@@ -9,6 +9,7 @@
  */
 import { randomUUID } from 'node:crypto';
 import { CompiledQuery, type Kysely, type Transaction } from 'kysely';
+import type PgBoss from 'pg-boss';
 import type { Database } from '@/db/schema';
 import { CHUNK_QUEUE, FAILED_CHUNK_QUEUE, getBoss, type ChunkJobData } from './boss';
 import { jobsConfig } from './config';
@@ -47,9 +48,17 @@ export async function enqueueChunks(trx: Transaction<Database>, simulationId: st
   return jobs.map((j) => j.id);
 }
 
-/** Cancels the chunk jobs that have not finished (those already taken are skipped by their worker). */
-export async function withdrawChunks(jobIds: readonly string[]): Promise<void> {
+/**
+ * Cancels the chunk jobs that have not finished (those already taken are skipped by their
+ * worker). With `db`, through that connection or transaction, so that it happens together with
+ * the change of the run's status.
+ */
+export async function withdrawChunks(
+  jobIds: readonly string[],
+  options: { db?: Kysely<Database> | Transaction<Database>; boss?: PgBoss } = {},
+): Promise<void> {
   if (jobIds.length === 0) return;
-  const boss = await getBoss();
-  for (let i = 0; i < jobIds.length; i += 1000) await boss.cancel(CHUNK_QUEUE, jobIds.slice(i, i + 1000));
+  const boss = options.boss ?? (await getBoss());
+  const connection = options.db ? { db: bossDb(options.db) } : {};
+  for (let i = 0; i < jobIds.length; i += 1000) await boss.cancel(CHUNK_QUEUE, jobIds.slice(i, i + 1000), connection);
 }
