@@ -17,7 +17,7 @@ import { AppError, notFound } from '@/lib/errors';
 import { jobsConfig } from '@/lib/jobs/config';
 import { simulationDto, type SimulationDto } from '@/lib/jobs/dto';
 import { chooseChunkSize, planChunks, replicatesTotal } from '@/lib/jobs/plan';
-import { enqueueChunks, withdrawChunks } from '@/lib/jobs/queue';
+import { enqueueChunks, placeRun, withdrawChunks } from '@/lib/jobs/queue';
 import { enforce, type Limit } from '@/lib/rate-limit';
 import { specFromDesign } from '@/lib/sim/from-design';
 import type { SimulationRunInput } from '@/lib/validation/simulation-run';
@@ -32,7 +32,8 @@ import { requireActor, requireStudy } from './access';
  *
  * Limits, so that one person cannot flood the queue: at most SIM_MAX_ACTIVE_RUNS runs queued or
  * running at once, at most SIM_MAX_REPLICATES replicates per run (summed over its scenarios),
- * and at most `RUNS_PER_HOUR` runs started per hour.
+ * and at most `RUNS_PER_HOUR` runs started per hour. Within the queue, runs take turns between
+ * people (lib/jobs/queue.ts): one person's large runs never hold up another person's run.
  */
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -135,6 +136,7 @@ export async function createSimulation(actor: Actor | null, input: SimulationRun
   const run = await db()
     .transaction()
     .execute(async (trx) => {
+      const firstTurn = await placeRun(trx, a.id);
       const created = await insertSimulation(trx, {
         studyId: study?.id ?? null,
         revisionNumber: revision,
@@ -143,8 +145,9 @@ export async function createSimulation(actor: Actor | null, input: SimulationRun
         replicatesTotal: replicatesTotal(spec),
         chunkSize,
         chunkCount: chunks.length,
+        firstTurn,
       });
-      const jobIds = await enqueueChunks(trx, created.id, chunks);
+      const jobIds = await enqueueChunks(trx, created.id, chunks, firstTurn);
       await setJobIds(trx, created.id, jobIds);
       if (study) {
         await logActivity(trx, {
