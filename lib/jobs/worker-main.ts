@@ -4,7 +4,7 @@
  * on one thread per core (SIM_WORKER_THREADS to change; lib/jobs/config.ts lists every setting).
  *
  * Runs without a supervisor: it waits for the database when it is not reachable yet, and keeps
- * running through a PostgreSQL restart or a network drop (lib/jobs/worker.ts waits and carries
+ * running through a PostgreSQL restart or a network drop (lib/jobs/consume.ts waits and carries
  * on; db/client.ts keeps lost connections from ending the process). SIGTERM or SIGINT: stop
  * taking chunks, let the ones in progress finish (up to 10 s; a chunk cut short is retried by
  * another worker once it expires), then exit.
@@ -15,7 +15,8 @@ import { isDatabaseUnavailable } from '@/lib/errors';
 import { logger } from '@/lib/log';
 import { jobsConfig } from './config';
 import { createPool, poolEngine } from './pool';
-import { reconnectDelayMs, startWorker, type RunningWorker } from './worker';
+import { reconnectDelayMs } from './consume';
+import { startWorker, type RunningWorker } from './worker';
 
 const log = logger(`worker ${process.pid}`);
 
