@@ -190,6 +190,8 @@ export interface SimulationTable {
   chunk_count: number;
   /** pg-boss job ids of the chunks (withdrawn when the run is cancelled). */
   job_ids: ColumnType<string[], string[] | undefined, string[]>;
+  /** The run's place in the fair queue: its k-th chunk is served at turn first_turn + k (null: queued before turns). */
+  first_turn: ColumnType<number | null, number | null | undefined, number | null>;
   error: string | null;
   results: ColumnType<unknown | null, string | null | undefined, string | null>;
   started_at: NullableTimestamp;

@@ -3,6 +3,11 @@
  * show to the person who caused it. Database and other internal details are logged on the
  * server and never sent to the client.
  */
+import { noteDatabaseDown } from '@/db/availability';
+import { logger } from './log';
+
+const log = logger('errors');
+
 export const ERROR_STATUS = {
   bad_request: 400,
   unauthorized: 401,
@@ -42,23 +47,69 @@ export const unauthorized = () => new AppError('unauthorized', 'Sign in to conti
 export const forbidden = (what = 'do that') => new AppError('forbidden', `Your role does not allow you to ${what}.`);
 export const notFound = (what = 'That item') => new AppError('not_found', `${what} was not found.`);
 
-/** Connection-level failures of PostgreSQL (server down, refused, terminated). */
-export function isDatabaseUnavailable(err: unknown): boolean {
-  const e = err as { code?: string; message?: string } | undefined;
-  if (!e) return false;
-  const codes = ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'ENOTFOUND', '57P01', '57P02', '57P03', '08006', '08001', '08004'];
-  if (e.code && codes.includes(e.code)) return true;
-  const msg = e.message ?? '';
-  return /connection terminated|timeout exceeded when trying to connect|Connection terminated|ECONNREFUSED/i.test(msg);
+/**
+ * SQLSTATE codes with which PostgreSQL says it cannot serve this connection now: class 08
+ * (connection exception), 57P01–57P03 (shutting down, crashed, starting up) and 53300 (too many
+ * connections). Only PostgreSQL sends five-character SQLSTATEs.
+ */
+const UNAVAILABLE_SQLSTATE = /^(?:08[0-9A-Z]{3}|57P0[123]|53300)$/;
+/** Failures to open a connection: only an outgoing connection (to the database) can end in these. */
+const CONNECT_CODES = new Set(['ECONNREFUSED', 'ETIMEDOUT', 'ENOTFOUND', 'EAI_AGAIN', 'EHOSTUNREACH', 'ENETUNREACH']);
+/** Resets of an open socket: the database's when the socket was ours (a failed system call), a browser's otherwise. */
+const RESET_CODES = new Set(['ECONNRESET', 'EPIPE']);
+/** What node-postgres (pg, pg-pool) says when its connection is lost or cannot be made in time. */
+const DRIVER_MESSAGE = /^(?:Connection terminated|timeout exceeded when trying to connect|Client has encountered a connection error and is not queryable|Client was closed and is not queryable)/;
+
+interface ErrorShape {
+  name?: unknown;
+  code?: unknown;
+  syscall?: unknown;
+  message?: unknown;
+  cause?: unknown;
+  errors?: unknown;
+}
+
+/**
+ * A request that its client gave up on: the browser closed the connection or aborted the fetch
+ * while the body was read or the answer computed (Node's `aborted`, an AbortError, Next's
+ * ResponseAborted). Nothing is wrong on our side, and the answer reaches nobody.
+ */
+export function isClientAbort(err: unknown): boolean {
+  const e = err as ErrorShape | null | undefined;
+  if (!e || typeof e !== 'object') return false;
+  return e.name === 'AbortError' || e.name === 'ResponseAborted' || e.code === 'ABORT_ERR' || e.message === 'aborted';
+}
+
+/**
+ * A connection-level failure of PostgreSQL (server down, refused, restarting, connection lost):
+ * the request may succeed once the database is back, so it is answered 503, and a worker waits
+ * and tries again. Errors about the query itself (a constraint, a syntax error) are not, and
+ * neither is a client that went away: its ECONNRESET comes from the HTTP side (no failed system
+ * call of ours; message `aborted`). Looks through `cause` and through the attempts of an
+ * AggregateError (a host name with several addresses).
+ */
+export function isDatabaseUnavailable(err: unknown, depth = 0): boolean {
+  const e = err as ErrorShape | null | undefined;
+  if (!e || typeof e !== 'object' || depth > 4 || isClientAbort(e)) return false;
+  const code = typeof e.code === 'string' ? e.code : '';
+  if (UNAVAILABLE_SQLSTATE.test(code) || CONNECT_CODES.has(code)) return true;
+  if (RESET_CODES.has(code) && typeof e.syscall === 'string') return true;
+  if (typeof e.message === 'string' && DRIVER_MESSAGE.test(e.message)) return true;
+  if (Array.isArray(e.errors) && e.errors.some((inner) => isDatabaseUnavailable(inner, depth + 1))) return true;
+  return isDatabaseUnavailable(e.cause, depth + 1);
 }
 
 /** Turns any thrown value into an AppError that is safe to send. Logs what is not. */
 export function toAppError(err: unknown): AppError {
   if (err instanceof AppError) return err;
   if (isDatabaseUnavailable(err)) {
-    console.error('[db] unavailable:', (err as Error).message);
+    noteDatabaseDown(err, 'a request');
     return new AppError('unavailable', 'The database is not reachable right now. Try again in a moment.', { retryAfterSeconds: 5 });
   }
-  console.error('[internal]', err);
+  if (isClientAbort(err)) {
+    log.info('the client closed the connection before the answer was ready');
+    return new AppError('bad_request', 'The request was cut off before it arrived in full. Send it again.');
+  }
+  log.error('unexpected error', err);
   return new AppError('internal', 'Something went wrong on our side. The error has been logged.');
 }

@@ -8,6 +8,7 @@ import * as designChecks from './20261201T230000_design_checks';
 import * as simulations from './20261202T033500_simulations';
 import * as planResults from './20261202T034000_plan_results';
 import * as idempotencyKeys from './20261203T110000_idempotency_keys';
+import * as fairQueue from './20261203T120000_fair_queue';
 
 export const migrations: Record<string, Migration> = {
   '20261201T100000_foundation': foundation,
@@ -15,4 +16,5 @@ export const migrations: Record<string, Migration> = {
   '20261202T033500_simulations': simulations,
   '20261202T034000_plan_results': planResults,
   '20261203T110000_idempotency_keys': idempotencyKeys,
+  '20261203T120000_fair_queue': fairQueue,
 };

@@ -16,6 +16,8 @@ export interface Simulation {
   chunkSize: number;
   chunkCount: number;
   jobIds: string[];
+  /** The run's place in the fair queue (lib/jobs/queue.ts); null for runs queued before turns. */
+  firstTurn: number | null;
   error: string | null;
   results: unknown | null;
   startedAt: Date | null;
@@ -38,6 +40,7 @@ export function rowToSimulation(r: Selectable<SimulationTable>): Simulation {
     chunkSize: r.chunk_size,
     chunkCount: r.chunk_count,
     jobIds: r.job_ids ?? [],
+    firstTurn: r.first_turn,
     error: r.error,
     results: r.results,
     startedAt: r.started_at,
@@ -56,6 +59,8 @@ export async function insertSimulation(
     replicatesTotal: number;
     chunkSize: number;
     chunkCount: number;
+    /** Null: outside the fair queue's turns (tests that never queue the run). */
+    firstTurn?: number | null;
   },
 ): Promise<Simulation> {
   const row = await db
@@ -68,6 +73,7 @@ export async function insertSimulation(
       replicates_total: input.replicatesTotal,
       chunk_size: input.chunkSize,
       chunk_count: input.chunkCount,
+      first_turn: input.firstTurn ?? null,
     })
     .returningAll()
     .executeTakeFirstOrThrow();
@@ -111,6 +117,25 @@ export async function activeLoadOfUser(db: Db, userId: string): Promise<{ runs: 
     .where('status', 'in', ACTIVE_STATUSES)
     .executeTakeFirstOrThrow();
   return { runs: Number(r.runs), replicatesLeft: Number(r.left) };
+}
+
+/**
+ * Where the fair queue stands (lib/jobs/queue.ts), over the queued and running runs:
+ * `current`, the lowest turn still to be served (a run's next turn is its first turn plus the
+ * number of its chunks stored), and `ownerEnd`, the turn after the last chunk of the person's own
+ * runs. Both 0 when nothing is waiting.
+ */
+export async function queueTurns(db: Db, userId: string): Promise<{ current: number; ownerEnd: number }> {
+  const r = await db
+    .selectFrom('simulations as s')
+    .select([
+      sql<number>`coalesce(min(s.first_turn + (select count(*) from simulation_chunks c where c.simulation_id = s.id)), 0)::int`.as('current'),
+      sql<number>`coalesce(max(s.first_turn + s.chunk_count) filter (where s.created_by = ${userId}), 0)::int`.as('ownerEnd'),
+    ])
+    .where('s.status', 'in', ACTIVE_STATUSES)
+    .where('s.first_turn', 'is not', null)
+    .executeTakeFirstOrThrow();
+  return { current: r.current, ownerEnd: r.ownerEnd };
 }
 
 export async function chunkExists(db: Db, simulationId: string, scenarioIndex: number, chunkIndex: number): Promise<boolean> {

@@ -18,7 +18,7 @@ import { AppError, notFound } from '@/lib/errors';
 import { jobsConfig } from '@/lib/jobs/config';
 import { simulationDto, type SimulationDto } from '@/lib/jobs/dto';
 import { chooseChunkSize, planChunks, replicatesTotal } from '@/lib/jobs/plan';
-import { enqueueChunks, withdrawChunks } from '@/lib/jobs/queue';
+import { enqueueChunks, placeRun, withdrawChunks } from '@/lib/jobs/queue';
 import { enforce, type Limit } from '@/lib/rate-limit';
 import { specFromDesign } from '@/lib/sim/from-design';
 import type { SimulationRunInput } from '@/lib/validation/simulation-run';
@@ -36,7 +36,9 @@ import { afterCommit, transaction } from './transaction';
  * running at once, at most SIM_MAX_REPLICATES replicates per run (summed over its scenarios),
  * and at most `RUNS_PER_HOUR` runs started per hour. The number of active runs is checked once
  * before the work of planning a run and again, with the person's row locked, where the run is
- * stored, so that runs started at the same moment cannot pass the limit together.
+ * stored, so that runs started at the same moment cannot pass the limit together. Within the queue,
+ * runs take turns between people (lib/jobs/queue.ts): one person's large runs never hold up
+ * another person's run.
  */
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -145,6 +147,7 @@ export async function createSimulation(actor: Actor | null, input: SimulationRun
     if (study) await requireStudy(a, study.id, 'simulation.run', { trx, lock: 'share' });
     await lockUser(trx, a.id);
     await refuseBeyondActiveRuns(trx, a);
+    const firstTurn = await placeRun(trx, a.id);
     const created = await insertSimulation(trx, {
       studyId: study?.id ?? null,
       revisionNumber: revision,
@@ -153,8 +156,9 @@ export async function createSimulation(actor: Actor | null, input: SimulationRun
       replicatesTotal: replicatesTotal(spec),
       chunkSize,
       chunkCount: chunks.length,
+      firstTurn,
     });
-    const jobIds = await enqueueChunks(trx, created.id, chunks);
+    const jobIds = await enqueueChunks(trx, created.id, chunks, firstTurn);
     await setJobIds(trx, created.id, jobIds);
     if (study) {
       await logActivity(trx, {

@@ -13,9 +13,18 @@
  * Queues: `simulation-chunk` (one job per chunk of replicates) and its dead-letter queue
  * `simulation-chunk-failed`, which receives a chunk once its retries are used up (whether its
  * handler threw or its worker vanished) so that a worker can mark the run failed.
+ *
+ * pg-boss keeps its own pg pool. Its maintenance runs on a timer and reports failures as 'error'
+ * events: while the database is down they come every SIM_MAINTENANCE_SECONDS, so they go to
+ * db/availability.ts, which logs the outage once when it begins and once when it ends.
  */
 import PgBoss from 'pg-boss';
+import { noteDatabaseDown, noteDatabaseUp } from '@/db/availability';
+import { isDatabaseUnavailable } from '@/lib/errors';
+import { logger } from '@/lib/log';
 import { jobsConfig } from './config';
+
+const log = logger('jobs');
 
 export const CHUNK_QUEUE = 'simulation-chunk';
 export const FAILED_CHUNK_QUEUE = 'simulation-chunk-failed';
@@ -45,7 +54,11 @@ async function start(url: string): Promise<PgBoss> {
     schedule: false,
     maintenanceIntervalSeconds: config.maintenanceSeconds,
   });
-  boss.on('error', (err) => console.error('[jobs] queue error:', err.message));
+  boss.on('error', (err) => {
+    if (isDatabaseUnavailable(err)) noteDatabaseDown(err, 'the queue');
+    else log.error('queue error', err);
+  });
+  boss.on('maintenance', () => noteDatabaseUp());
   await boss.start();
   await boss.createQueue(FAILED_CHUNK_QUEUE, { name: FAILED_CHUNK_QUEUE, retryLimit: 5, retryDelay: 2 });
   await boss.createQueue(CHUNK_QUEUE, { name: CHUNK_QUEUE, deadLetter: FAILED_CHUNK_QUEUE });

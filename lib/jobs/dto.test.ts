@@ -14,6 +14,7 @@ const base: Simulation = {
   chunkSize: 50,
   chunkCount: 20,
   jobIds: [],
+  firstTurn: 0,
   error: null,
   results: null,
   startedAt: new Date('2026-12-02T10:00:00Z'),

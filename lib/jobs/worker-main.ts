@@ -3,21 +3,39 @@
  * worker that `npm start` runs beside the web server. Computes stress-test chunks from the queue
  * on one thread per core (SIM_WORKER_THREADS to change; lib/jobs/config.ts lists every setting).
  *
- * Waits for the database when it is not reachable yet. SIGTERM or SIGINT: stop taking chunks, let
- * the ones in progress finish (up to 10 s; a chunk cut short is retried by another worker once it
- * expires), then exit.
+ * Runs without a supervisor: it waits for the database when it is not reachable yet, and keeps
+ * running through a PostgreSQL restart or a network drop (lib/jobs/consume.ts waits and carries
+ * on; db/client.ts keeps lost connections from ending the process). SIGTERM or SIGINT: stop
+ * taking chunks, let the ones in progress finish (up to 10 s; a chunk cut short is retried by
+ * another worker once it expires), then exit.
  */
+import { noteDatabaseDown } from '@/db/availability';
 import { createDb } from '@/db/client';
+import { isDatabaseUnavailable } from '@/lib/errors';
+import { logger } from '@/lib/log';
 import { jobsConfig } from './config';
 import { createPool, poolEngine } from './pool';
+import { reconnectDelayMs } from './consume';
 import { startWorker, type RunningWorker } from './worker';
 
-const log = (m: string) => console.log(`[worker ${process.pid}] ${m}`);
+const log = logger(`worker ${process.pid}`);
+
+// A last line of defence, for a library that forgets to await a query: a promise rejected because
+// the database is away must not end a worker that is built to wait for it. Anything else is a bug:
+// logged, and the process ends as Node would end it.
+process.on('unhandledRejection', (reason) => {
+  if (isDatabaseUnavailable(reason)) {
+    noteDatabaseDown(reason, 'a background query');
+    return;
+  }
+  log.error('unhandled promise rejection', reason);
+  process.exit(1);
+});
 
 async function main(): Promise<void> {
   const url = process.env.DATABASE_URL;
   if (!url) {
-    console.error('DATABASE_URL is not set: the worker takes its chunks from the database. `npm start` sets it; see .env.example.');
+    log.error('DATABASE_URL is not set: the worker takes its chunks from the database. `npm start` sets it; see .env.example.');
     process.exit(1);
   }
   const config = jobsConfig();
@@ -32,7 +50,7 @@ async function main(): Promise<void> {
   const stop = async (signal: string) => {
     if (stopping) return;
     stopping = true;
-    log(`${signal}: finishing the chunks in progress`);
+    log.info(`${signal}: finishing the chunks in progress`);
     try {
       await worker?.stop(10_000);
       await pool.destroy();
@@ -43,19 +61,22 @@ async function main(): Promise<void> {
   };
   for (const signal of ['SIGTERM', 'SIGINT', 'SIGHUP'] as const) process.on(signal, () => void stop(signal));
 
-  for (let attempt = 1; !stopping; attempt++) {
+  const workerLog = (m: string) => log.info(m);
+  for (let attempt = 0; !stopping; attempt++) {
     try {
-      worker = await startWorker({ db, engine, concurrency: config.threads, url, log });
+      worker = await startWorker({ db, engine, concurrency: config.threads, url, log: workerLog });
       return;
     } catch (err) {
-      const wait = Math.min(30, 2 * attempt);
-      log(`cannot reach the queue yet (${(err as Error).message}); trying again in ${wait} s`);
-      await new Promise((r) => setTimeout(r, wait * 1000));
+      // The queue's tables are created on the first start, which needs the database.
+      const unavailable = isDatabaseUnavailable(err);
+      if (unavailable) noteDatabaseDown(err, 'the worker starting');
+      else log.error('cannot start taking chunks; trying again in 5 s', err);
+      await new Promise((r) => setTimeout(r, unavailable ? reconnectDelayMs(attempt) : 5_000));
     }
   }
 }
 
 main().catch((err) => {
-  console.error('[worker] failed:', err);
+  log.error('failed', err);
   process.exit(1);
 });

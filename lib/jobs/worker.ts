@@ -1,9 +1,14 @@
 /**
  * A simulation worker: takes chunk jobs from the queue and computes them on a pool of worker
- * threads. One pg-boss subscription per thread, each claiming one chunk at a time, so that every
- * core stays busy and no chunk waits on another. After a chunk, the subscription asks again at
- * once (pg-boss would otherwise pause for its polling interval, 0.5 s at least, which is more
- * than a chunk's work); an idle subscription polls every SIM_POLL_SECONDS.
+ * threads. One slot per thread (lib/jobs/consume.ts), each claiming one chunk at a time, computing
+ * and storing it and at once asking for the next, so that every core stays busy and no chunk waits
+ * on another; a slot that finds the queue empty asks again every SIM_POLL_SECONDS. One more slot
+ * takes the chunks whose retries are used up and fails their runs.
+ *
+ * The worker outlives the database: every step waits while PostgreSQL is unreachable and carries
+ * on when it answers (consume.ts says how). A chunk whose store failed is run again once the
+ * database answers, without using up a retry; every step of lib/jobs/handler.ts is idempotent,
+ * and the chunk's primary key keeps a chunk from being stored or counted twice.
  *
  * The same code runs inside `npm start` (a worker process beside the web server, see
  * scripts/start.mjs) and as `npm run worker` on any machine that reaches the database.
@@ -11,14 +16,17 @@
 import type { Kysely } from 'kysely';
 import type PgBoss from 'pg-boss';
 import type { Database } from '@/db/schema';
+import { logger } from '@/lib/log';
 import { CHUNK_QUEUE, FAILED_CHUNK_QUEUE, getBoss, stopBoss, type ChunkJobData } from './boss';
 import { jobsConfig } from './config';
+import { consume } from './consume';
 import { describeFailure, failRun, processChunk, type Engine } from './handler';
+import { withdrawChunks } from './queue';
 
 export interface WorkerOptions<Spec> {
   db: Kysely<Database>;
   engine: Engine<Spec>;
-  /** Parallel chunk subscriptions (default: SIM_WORKER_THREADS). */
+  /** Parallel chunk slots (default: SIM_WORKER_THREADS). */
   concurrency?: number;
   url?: string;
   log?: (message: string) => void;
@@ -26,53 +34,58 @@ export interface WorkerOptions<Spec> {
 
 export interface RunningWorker {
   boss: PgBoss;
-  /** Stops taking new chunks (those in progress finish); the process's pg-boss keeps running. */
+  /** Stops taking new chunks and waits for those in progress; the process's pg-boss keeps running. */
   pause(): Promise<void>;
   /** Stops taking chunks, waits for those in progress (up to timeoutMs), stops pg-boss. */
   stop(timeoutMs?: number): Promise<void>;
 }
 
+type Job = PgBoss.JobWithMetadata<ChunkJobData>;
+
 export async function startWorker<Spec>(options: WorkerOptions<Spec>): Promise<RunningWorker> {
   const config = jobsConfig();
-  const log = options.log ?? ((m: string) => console.log(`[worker] ${m}`));
+  const defaultLog = logger('worker');
+  const log = options.log ?? ((m: string) => defaultLog.info(m));
   const boss = await getBoss(options.url);
   const concurrency = options.concurrency ?? config.threads;
-  const workOptions = { batchSize: 1, includeMetadata: true as const, pollingIntervalSeconds: config.pollSeconds };
+  const stopping = new AbortController();
 
-  const ids: string[] = [];
-  for (let i = 0; i < concurrency; i++) {
-    const id: string = await boss.work<ChunkJobData>(CHUNK_QUEUE, workOptions, async ([job]) => {
-      if (!job) return;
-      try {
-        const outcome = await processChunk(options.db, job.data, options.engine);
-        if (outcome === 'finished') log(`run ${job.data.simulationId} done`);
-      } finally {
-        boss.notifyWorker(id);
-      }
-    });
-    ids.push(id);
-  }
+  const computeChunk = async (job: Job) => {
+    const outcome = await processChunk(options.db, job.data, options.engine);
+    if (outcome === 'finished') log(`run ${job.data.simulationId} done`);
+  };
 
-  const failedId = await boss.work<ChunkJobData>(FAILED_CHUNK_QUEUE, workOptions, async ([job]) => {
-    if (!job) return;
+  // A chunk out of retries: the run fails and its waiting chunks are withdrawn, in one transaction.
+  const failChunk = async (job: Job) => {
     const reason = describeFailure(job.output);
-    const jobIds = await failRun(options.db, job.data, reason, job.retryLimit + 1);
-    if (jobIds) {
+    await options.db.transaction().execute(async (trx) => {
+      const jobIds = await failRun(trx, job.data, reason, job.retryLimit + 1);
+      if (!jobIds) return;
+      await withdrawChunks(jobIds, { db: trx, boss });
       log(`run ${job.data.simulationId} failed: ${reason}`);
-      if (jobIds.length) await boss.cancel(CHUNK_QUEUE, jobIds);
-    }
-  });
+    });
+  };
 
+  const slot = { signal: stopping.signal, pollSeconds: config.pollSeconds };
+  const loops = [
+    ...Array.from({ length: concurrency }, () => consume(boss, CHUNK_QUEUE, computeChunk, slot)),
+    consume(boss, FAILED_CHUNK_QUEUE, failChunk, slot),
+  ];
   log(`taking stress-test chunks with ${concurrency} parallel slot${concurrency === 1 ? '' : 's'}`);
-  ids.push(failedId);
-  const pause = async () => {
-    for (const id of ids) await boss.offWork({ id });
+
+  const pause = async (timeoutMs = Infinity) => {
+    stopping.abort();
+    const finished = Promise.all(loops).then(() => undefined);
+    if (!Number.isFinite(timeoutMs)) return finished;
+    let timer: NodeJS.Timeout | undefined;
+    await Promise.race([finished, new Promise<void>((resolve) => (timer = setTimeout(resolve, timeoutMs)))]);
+    clearTimeout(timer);
   };
   return {
     boss,
-    pause,
+    pause: () => pause(),
     async stop(timeoutMs = 10_000) {
-      await pause();
+      await pause(timeoutMs);
       await stopBoss({ graceful: true, timeout: timeoutMs });
     },
   };
