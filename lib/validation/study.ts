@@ -25,7 +25,7 @@ export const STUDY_SORTS = ['title', 'status', 'role', 'updated', 'created'] as 
 export const studyListQuerySchema = z
   .object({
     workspaceId: idSchema,
-    q: z.string().trim().max(200).optional(),
+    q: text('The search', 0, 200).optional(),
     status: z.enum(['active', 'archived', 'all', ...STUDY_STATUSES]).default('active'),
     sort: z.enum(STUDY_SORTS).default('updated'),
     dir: z.enum(['asc', 'desc']).default('desc'),
