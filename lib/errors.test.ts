@@ -1,5 +1,5 @@
 import { describe, expect, it, vi } from 'vitest';
-import { AppError, ERROR_STATUS, isClientAbort, isDatabaseUnavailable, toAppError } from './errors';
+import { AppError, DATABASE_INPUT_MESSAGE, ERROR_STATUS, isClientAbort, isDatabaseUnavailable, toAppError } from './errors';
 
 describe('AppError', () => {
   it.each(Object.entries(ERROR_STATUS))('%s → %i', (code, status) => {
@@ -67,5 +67,28 @@ describe('a client that went away', () => {
   it('is not a database failure', () => {
     expect(isClientAbort(socketError('ECONNREFUSED', 'connect'))).toBe(false);
     expect(isClientAbort(new Error('Connection terminated unexpectedly'))).toBe(false);
+  });
+});
+
+describe('input PostgreSQL refuses', () => {
+  it.each([
+    ['22P02', 'invalid input syntax for type uuid: "abc"'],
+    ['22P05', 'unsupported Unicode escape sequence'],
+    ['22021', 'invalid byte sequence for encoding "UTF8": 0x00'],
+    ['22001', 'value too long for type character varying(200)'],
+    ['22003', 'value "99999999999" is out of range for type integer'],
+    ['22007', 'invalid input syntax for type timestamp with time zone'],
+    ['22008', 'date/time field value out of range'],
+    ['22025', 'invalid escape string'],
+  ])('%s becomes a 400 with a plain message, logged (and only these input errors do)', (code, message) => {
+    const logged = vi.spyOn(console, 'error').mockImplementation(() => {});
+    const e = toAppError(Object.assign(new Error(message), { code }));
+    expect(e.status).toBe(400);
+    expect(e.message).toBe(DATABASE_INPUT_MESSAGE);
+    expect(e.message).not.toContain(message);
+    expect(logged.mock.calls.flat().join(' ')).toContain(code);
+    // Other database errors stay a logged 500.
+    expect(toAppError(Object.assign(new Error('duplicate key value violates unique constraint'), { code: '23505' })).status).toBe(500);
+    logged.mockRestore();
   });
 });

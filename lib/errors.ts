@@ -99,9 +99,40 @@ export function isDatabaseUnavailable(err: unknown, depth = 0): boolean {
   return isDatabaseUnavailable(e.cause, depth + 1);
 }
 
+/**
+ * PostgreSQL's data exceptions that only a value sent by a client can cause: text it cannot
+ * represent or store (NUL, broken UTF-8, a malformed uuid or JSON text), a value too long or out
+ * of range for its column, a malformed date. The schemas in lib/validation refuse all of these
+ * first with a field error; this is the net for a field they missed, so that it is a 400 and not
+ * a 500 — logged, because it means a schema has a gap.
+ */
+const DATABASE_INPUT_ERRORS: Record<string, string> = {
+  '22P02': 'invalid_text_representation',
+  '22P05': 'untranslatable_character',
+  '22021': 'character_not_in_repertoire',
+  '22001': 'string_data_right_truncation',
+  '22003': 'numeric_value_out_of_range',
+  '22007': 'invalid_datetime_format',
+  '22008': 'datetime_field_overflow',
+  '22025': 'invalid_escape_sequence',
+};
+
+/** The message of the net above; tests/integration/fuzz.test.ts counts how often it is answered. */
+export const DATABASE_INPUT_MESSAGE = 'A value sent cannot be stored: check the text for invisible characters and the numbers for their range.';
+
+export function isDatabaseInputError(err: unknown): boolean {
+  const code = (err as { code?: unknown } | undefined)?.code;
+  return typeof code === 'string' && code in DATABASE_INPUT_ERRORS;
+}
+
 /** Turns any thrown value into an AppError that is safe to send. Logs what is not. */
 export function toAppError(err: unknown): AppError {
   if (err instanceof AppError) return err;
+  if (isDatabaseInputError(err)) {
+    const { code, message } = err as { code: string; message?: string };
+    log.warn(`input refused by PostgreSQL, answered 400 (a schema missed it): ${code} ${DATABASE_INPUT_ERRORS[code]}: ${message ?? ''}`);
+    return new AppError('bad_request', DATABASE_INPUT_MESSAGE, { cause: err });
+  }
   if (isDatabaseUnavailable(err)) {
     noteDatabaseDown(err, 'a request');
     return new AppError('unavailable', 'The database is not reachable right now. Try again in a moment.', { retryAfterSeconds: 5 });

@@ -14,10 +14,21 @@ import { idempotent } from './idempotency';
 export interface ApiContext<P> {
   req: Request;
   actor: Actor | null;
+  /** The path parameters as parsed by the route's `params` schema; `{}` for a route without one. */
   params: P;
 }
 
 type RouteContext = { params: Promise<Record<string, string | string[] | undefined>> };
+
+/** A schema of a route's path parameters (lib/validation/params.ts). */
+type ParamsSchema = z.ZodType<Record<string, string>>;
+
+interface ApiOptions<S extends ParamsSchema> {
+  status?: number;
+  public?: boolean;
+  /** Validates the path parameters after the sign-in check; without it the handler sees none. */
+  params?: S;
+}
 
 const MUTATING = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 const MAX_BODY_BYTES = 256 * 1024;
@@ -54,16 +65,16 @@ export function assertSameOrigin(req: Request): void {
   }
 }
 
-export function api<P extends Record<string, string> = Record<string, never>>(
-  fn: (ctx: ApiContext<P>) => Promise<unknown>,
-  options: { status?: number; public?: boolean } = {},
+export function api<S extends ParamsSchema = z.ZodObject<Record<string, never>>>(
+  fn: (ctx: ApiContext<z.output<S>>) => Promise<unknown>,
+  options: ApiOptions<S> = {},
 ) {
   return async (req: Request, context: RouteContext): Promise<Response> => {
     try {
       if (MUTATING.has(req.method)) assertSameOrigin(req);
       const actor = options.public ? null : await actorFromRequest(req);
       if (!options.public && !actor) throw unauthorized();
-      const params = ((await context?.params) ?? {}) as P;
+      const params = (options.params ? parseParams((await context?.params) ?? {}, options.params) : {}) as z.output<S>;
       const respond = async (): Promise<Response> => {
         const out = await fn({ req, actor, params });
         if (out instanceof Response) return out;
@@ -118,4 +129,15 @@ export function parseQuery<S extends z.ZodType>(req: Request, schema: S): z.infe
   const parsed = schema.safeParse(params);
   if (!parsed.success) throw invalid(parsed.error);
   return parsed.data;
+}
+
+/**
+ * Path parameters name a resource: one that cannot be valid names nothing, so the answer is the
+ * same 404 as for an id that does not exist or is not visible, with the offending field.
+ */
+export function parseParams<S extends z.ZodType>(params: unknown, schema: S): z.output<S> {
+  const parsed = schema.safeParse(params);
+  if (parsed.success) return parsed.data;
+  const fields = zodFieldErrors(parsed.error);
+  throw new AppError('not_found', Object.values(fields)[0]?.[0] ?? 'Nothing was found at this address.', { fields });
 }

@@ -25,6 +25,14 @@ import { activityDtoSchema, errorSchema, invitationDtoSchema, studyMemberDtoSche
 import { simulationRunSchema, simulationSpecQuerySchema } from '@/lib/validation/simulation-run';
 import { simulationSpecSchema } from '@/lib/validation/simulations';
 import { simulationDtoSchema } from '@/lib/jobs/dto';
+import {
+  invitationParamsSchema,
+  simulationParamsSchema,
+  studyMemberParamsSchema,
+  studyParamsSchema as studyParams,
+  workspaceMemberParamsSchema,
+  workspaceParamsSchema as workspaceParams,
+} from '@/lib/validation/params';
 
 const json = <T extends z.ZodType>(schema: T, description: string) => ({ description, content: { 'application/json': { schema } } });
 const err = (description: string) => json(errorSchema, description);
@@ -36,10 +44,6 @@ const standardErrors = {
   404: err('Not found, or not visible to you (another workspace, or a study you are not a member of).'),
 };
 const writeErrors = { ...standardErrors, 400: err('Invalid input: see error.fields.'), 409: err('Conflicts with the current state.'), 429: err('Rate limited.') };
-
-const p = (name: string) => z.string().meta({ param: { name, in: 'path' } });
-const studyParams = z.object({ studyId: p('studyId') });
-const workspaceParams = z.object({ workspaceId: p('workspaceId') });
 
 /** Per kind, the example request and the answer the engine gives for it (computed here, never by hand). */
 function calculationExamples() {
@@ -105,7 +109,7 @@ export const API_ROUTES: RouteConfig[] = [
     path: '/api/v1/workspaces/{workspaceId}/members/{userId}',
     summary: 'Change a workspace member’s role (admins)',
     request: {
-      params: z.object({ workspaceId: p('workspaceId'), userId: p('userId') }),
+      params: workspaceMemberParamsSchema,
       body: { content: { 'application/json': { schema: workspaceMemberRoleUpdateSchema } } },
     },
     responses: { 200: json(list(workspaceMemberDtoSchema), 'Members after the change'), ...writeErrors },
@@ -114,7 +118,7 @@ export const API_ROUTES: RouteConfig[] = [
     method: 'delete',
     path: '/api/v1/workspaces/{workspaceId}/members/{userId}',
     summary: 'Remove a member from a workspace (admins)',
-    request: { params: z.object({ workspaceId: p('workspaceId'), userId: p('userId') }) },
+    request: { params: workspaceMemberParamsSchema },
     responses: { 204: { description: 'Removed' }, ...writeErrors },
   },
   {
@@ -192,7 +196,7 @@ export const API_ROUTES: RouteConfig[] = [
     path: '/api/v1/studies/{studyId}/members/{userId}',
     summary: 'Change a member’s role (owner)',
     request: {
-      params: z.object({ studyId: p('studyId'), userId: p('userId') }),
+      params: studyMemberParamsSchema,
       body: { content: { 'application/json': { schema: memberRoleUpdateSchema } } },
     },
     responses: { 200: json(list(studyMemberDtoSchema), 'Members after the change'), ...writeErrors },
@@ -201,7 +205,7 @@ export const API_ROUTES: RouteConfig[] = [
     method: 'delete',
     path: '/api/v1/studies/{studyId}/members/{userId}',
     summary: 'Remove a member from a study (owner)',
-    request: { params: z.object({ studyId: p('studyId'), userId: p('userId') }) },
+    request: { params: studyMemberParamsSchema },
     responses: { 204: { description: 'Removed' }, ...writeErrors },
   },
   {
@@ -283,7 +287,7 @@ export const API_ROUTES: RouteConfig[] = [
     method: 'delete',
     path: '/api/v1/invitations/{invitationId}',
     summary: 'Revoke a pending invitation (workspace admins; study owner for study invitations)',
-    request: { params: z.object({ invitationId: p('invitationId') }) },
+    request: { params: invitationParamsSchema },
     responses: { 204: { description: 'Revoked' }, ...writeErrors },
   },
   {
@@ -311,14 +315,14 @@ export const API_ROUTES: RouteConfig[] = [
     method: 'get',
     path: '/api/v1/simulations/{simulationId}',
     summary: 'A stress test: status, progress and, when done, results and summary',
-    request: { params: z.object({ simulationId: p('simulationId') }) },
+    request: { params: simulationParamsSchema },
     responses: { 200: json(simulationDtoSchema, 'The run'), ...standardErrors },
   },
   {
     method: 'delete',
     path: '/api/v1/simulations/{simulationId}',
     summary: 'Cancel a queued or running stress test (its creator; on a study: owner, editor, consultant)',
-    request: { params: z.object({ simulationId: p('simulationId') }) },
+    request: { params: simulationParamsSchema },
     responses: { 200: json(simulationDtoSchema, 'The run, cancelled (or as it was, if it had already ended)'), ...writeErrors },
   },
   {

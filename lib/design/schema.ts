@@ -9,28 +9,15 @@
  * the error messages say what to fix.
  */
 import { z } from 'zod';
+import { rawText, text } from '@/lib/validation/common';
 
-const name = (label: string, max = 120) =>
-  z
-    .string({ error: `${label} must be text.` })
-    .trim()
-    .min(1, `${label} is required.`)
-    .max(max, `${label} can be at most ${max} characters.`)
-    .refine((v) => !/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(v), `${label} contains control characters.`);
-
-const note = (label: string, max = 2000) =>
-  z
-    .string({ error: `${label} must be text.` })
-    .trim()
-    .max(max, `${label} can be at most ${max} characters.`)
-    .refine((v) => !/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(v), `${label} contains control characters.`);
+const name = (label: string, max = 120) => text(label, 1, max);
+const note = (label: string, max = 2000) => text(label, 0, max);
 
 const probability = (label: string) =>
   z.number({ error: `${label} must be a number.` }).min(0, `${label} is at least 0.`).max(1, `${label} is at most 1.`);
 
-export const idSchema = z
-  .string()
-  .regex(/^[a-z0-9-]{1,40}$/, 'An id is 1–40 lower-case letters, digits or dashes.');
+export const idSchema = rawText('An id').regex(/^[a-z0-9-]{1,40}$/, 'An id is 1–40 lower-case letters, digits or dashes.');
 
 // ---------------------------------------------------------------- outcome
 

@@ -97,4 +97,11 @@ describe('noncentralFCdf and noncentralFSf', () => {
       expect(noncentralFSf(x!, d1!, d2!, ncp!)).toBeNaN();
     }
   });
+
+  it('answer λ far beyond x with 0 and 1 at once', () => {
+    // A regression with f2 = 10,000 on 10 million observations: λ = 1e11.
+    expect(noncentralFSf(3, 1, 1e7, 1e11)).toBe(1);
+    expect(noncentralFCdf(3, 1, 1e7, 1e11)).toBe(0);
+    expect(noncentralFSf(2, 3, 10, 1e15)).toBe(1);
+  });
 });

@@ -138,4 +138,16 @@ describe('noncentralTCdf and noncentralTSf', () => {
       expect(noncentralTSf(t!, df!, ncp!)).toBeNaN();
     }
   });
+
+  it('answer δ far beyond t with 0 and 1 at once, and NaN where the series would not end in time', () => {
+    // An effect a billion SDs wide (the Plan asked with sd 1e-9): every digit is 0 or 1.
+    expect(noncentralTSf(2, 78, 1e9)).toBe(1);
+    expect(noncentralTCdf(2, 78, 1e9)).toBe(0);
+    expect(noncentralTCdf(-2, 78, -1e9)).toBe(1);
+    expect(noncentralTSf(-2, 78, -1e9)).toBe(0);
+    expect(noncentralTSf(2, 1, 1e4)).toBe(1);
+    // δ near an equally far t (a tiny alpha with 2 df): more terms than poissonMixture sums.
+    expect(noncentralTSf(1e7, 2, 1e7)).toBeNaN();
+    expect(noncentralTCdf(1e7, 2, 1e7)).toBeNaN();
+  });
 });

@@ -49,6 +49,13 @@ export interface MixtureTerms {
 }
 
 const RELATIVE_CUTOFF = 1e-17;
+/**
+ * At most this many terms (some 40 ms): λ up to about 7e9 from the Poisson mode outward. A sum
+ * that needs more — λ beyond that, or a lower tail running from far above the mode down to 0 —
+ * returns NaN rather than computing for minutes or without end; the callers' special cases
+ * answer the far tails (0 or 1 to the last bit) without the sum.
+ */
+export const MAX_TERMS = 2_000_000;
 /** Rescale the running values when they exceed this (and multiply the scale by it). */
 const RESCALE_ABOVE = 1e200;
 const LOG_RESCALE = Math.log(RESCALE_ABOVE);
@@ -58,6 +65,8 @@ export function poissonMixture(terms: MixtureTerms): number {
   const mode = Math.max(0, Math.floor(lambda - shift));
   const reach = Math.ceil(12 * Math.sqrt(lambda) + 50);
   const start = increasing ? Math.max(0, mode - reach) : mode + reach;
+  if (2 * reach > MAX_TERMS) return NaN;
+  const last = increasing ? start + MAX_TERMS : Math.max(0, start - MAX_TERMS);
 
   // Values at the start, in logs; then scaled by e^(−scale).
   let logW = logPoissonDensity(start + shift, lambda);
@@ -72,6 +81,7 @@ export function poissonMixture(terms: MixtureTerms): number {
   if (increasing) {
     // Up: T_{j+1} = (λ/(j + s + 1)) (T_j + H_j), H_{j+1} = (λ/(j + s + 1)) ρ_j H_j.
     for (let j = start; ; j++) {
+      if (j > last) return NaN;
       const ratio = lambda / (j + shift + 1);
       t = ratio * (t + h);
       h *= ratio * terms.stepRatio(j);
@@ -90,6 +100,7 @@ export function poissonMixture(terms: MixtureTerms): number {
   } else {
     // Down: H_{j−1} = ((j + s)/λ) H_j / ρ_{j−1}, T_{j−1} = ((j + s)/λ) T_j + H_{j−1}.
     for (let j = start; j > 0; j--) {
+      if (j < last) return NaN;
       const ratio = (j + shift) / lambda;
       h = (h * ratio) / terms.stepRatio(j - 1);
       t = ratio * t + h;

@@ -4,20 +4,19 @@
  * server only (lib/auth/password.ts) and is not part of these schemas.
  */
 import { z } from 'zod';
-import { emailSchema, text } from './common';
+import { emailSchema, rawText, text } from './common';
 
 export const PASSWORD_MIN = 10;
 export const PASSWORD_MAX = 128;
 
-export const passwordSchema = z
-  .string({ error: 'Enter a password.' })
+export const passwordSchema = rawText('The password', 'Enter a password.')
   .min(PASSWORD_MIN, `Use at least ${PASSWORD_MIN} characters. A short phrase is easier to remember.`)
   .max(PASSWORD_MAX, `Use at most ${PASSWORD_MAX} characters.`);
 
 export const signInSchema = z.object({
   email: emailSchema,
-  password: z.string().min(1, 'Enter your password.').max(PASSWORD_MAX),
-  callbackUrl: z.string().max(500).optional(),
+  password: rawText('The password', 'Enter your password.').min(1, 'Enter your password.').max(PASSWORD_MAX, `Use at most ${PASSWORD_MAX} characters.`),
+  callbackUrl: text('The return address', 0, 500).optional(),
 });
 export type SignInInput = z.infer<typeof signInSchema>;
 
@@ -26,7 +25,7 @@ export const signUpSchema = z.object({
   email: emailSchema,
   password: passwordSchema,
   /** Where to go after the address is confirmed and the user signs in (an invitation, say). */
-  callbackUrl: z.string().max(500).optional(),
+  callbackUrl: text('The return address', 0, 500).optional(),
 });
 export type SignUpInput = z.infer<typeof signUpSchema>;
 
@@ -38,9 +37,11 @@ export type ResetRequestInput = z.infer<typeof resetRequestSchema>;
 
 export const resetPasswordSchema = z
   .object({
-    token: z.string().min(20, 'This reset link is incomplete. Open the link from the e-mail again.').max(200),
+    token: rawText('The reset link')
+      .min(20, 'This reset link is incomplete. Open the link from the e-mail again.')
+      .max(200, 'This reset link is too long. Open the link from the e-mail again.'),
     password: passwordSchema,
-    confirm: z.string(),
+    confirm: rawText('The repeated password', 'Repeat the password.'),
   })
   .refine((v) => v.password === v.confirm, { path: ['confirm'], message: 'The two passwords do not match.' });
 export type ResetPasswordInput = z.infer<typeof resetPasswordSchema>;

@@ -8,6 +8,7 @@
  * Bounds keep every calculation finite and fast; the messages say what to fix.
  */
 import { z } from 'zod';
+import { rawText } from './common';
 
 const num = (label: string) => z.number({ error: `${label} must be a number.` }).finite(`${label} must be finite.`);
 const positive = (label: string, max = 1e9) => num(label).gt(0, `${label} must be above 0.`).max(max, `${label} can be at most ${max.toLocaleString('en-GB')}.`);
@@ -28,7 +29,7 @@ const common = {
   /** Number of primary outcomes tested, each at the adjusted alpha. */
   outcomes: whole('outcomes', 1, 100).default(1),
   multiplicity: z.enum(['none', 'bonferroni', 'holm'], { error: 'multiplicity is none, bonferroni or holm.' }).default('none'),
-  solveFor: z.string().optional(),
+  solveFor: rawText('solveFor').max(40, 'solveFor names one quantity of the kind.').optional(),
 };
 
 const sides = z.union([z.literal(1), z.literal(2)], { error: 'sides is 1 or 2.' }).default(2);

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { FINDING_NOTE_STATUSES } from '@/db/schema';
 import { designSchema } from '@/lib/design/schema';
-import { text } from './common';
+import { rawText, text } from './common';
 
 export const designSaveSchema = z
   .object({
@@ -19,8 +19,9 @@ export const checkRunSchema = z
 
 export const findingNoteSchema = z
   .object({
-    ruleId: z.string().regex(/^[a-z0-9-]{1,60}$/, 'Unknown rule id.'),
-    key: z.string().min(1).max(200),
+    ruleId: rawText('ruleId').regex(/^[a-z0-9-]{1,60}$/, 'Unknown rule id.'),
+    /** The finding's key within its rule, as the checks report it (kept exactly as sent). */
+    key: rawText('key').min(1, 'key is required.').max(200, 'key can be at most 200 characters.'),
     status: z.enum(FINDING_NOTE_STATUSES, { error: 'Choose addressed or reopened.' }),
     reason: text('Reason', 1, 2000),
   })

@@ -12,6 +12,7 @@
 import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
 import { clusterSizes } from '@/lib/sim/cluster-sizes';
+import { rawText } from './common';
 
 export const MAX_REPLICATES = 100_000;
 export const MAX_ROWS = 50_000;
@@ -107,8 +108,7 @@ export const simulationTruthSchema = z.object({
   overdispersion: num('overdispersion').gt(0, 'overdispersion must be above 0.').max(1e6, 'overdispersion can be at most 1,000,000.').optional(),
 });
 
-const scenarioName = z
-  .string({ error: 'name must be text.' })
+const scenarioName = rawText('name')
   .trim()
   .min(1, 'name is required when given.')
   .max(60, 'name can be at most 60 characters.')

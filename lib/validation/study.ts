@@ -2,18 +2,27 @@ import { z } from 'zod';
 import { STUDY_STATUSES } from '@/db/schema';
 import { idSchema, text } from './common';
 
+const title = text('Title', 1, 200).meta({ example: 'Reading-support programme, randomised by classroom' });
+const description = text('Description', 0, 2000);
+
 export const studyCreateSchema = z
-  .object({
-    workspaceId: idSchema,
-    title: text('Title', 1, 200).meta({ example: 'Reading-support programme, randomised by classroom' }),
-    description: text('Description', 0, 2000).default(''),
-  })
+  .object({ workspaceId: idSchema, title, description: description.default('') })
   .meta({ id: 'StudyCreate' });
 export type StudyCreateInput = z.infer<typeof studyCreateSchema>;
 
-export const studyUpdateSchema = studyCreateSchema
-  .pick({ title: true, description: true })
-  .partial()
+/**
+ * A partial update: a field left out is left as it is (no defaults here, or `{}` would reset
+ * them); `description: null` clears the description. The title cannot be cleared.
+ */
+export const studyUpdateSchema = z
+  .object({
+    title: title.optional(),
+    description: description
+      .nullable()
+      .transform((v) => v ?? '')
+      .optional()
+      .meta({ description: 'null clears the description.' }),
+  })
   .refine((v) => v.title !== undefined || v.description !== undefined, {
     message: 'Send at least one of title or description.',
   })
@@ -25,7 +34,7 @@ export const STUDY_SORTS = ['title', 'status', 'role', 'updated', 'created'] as 
 export const studyListQuerySchema = z
   .object({
     workspaceId: idSchema,
-    q: z.string().trim().max(200).optional(),
+    q: text('The search', 0, 200).optional(),
     status: z.enum(['active', 'archived', 'all', ...STUDY_STATUSES]).default('active'),
     sort: z.enum(STUDY_SORTS).default('updated'),
     dir: z.enum(['asc', 'desc']).default('desc'),

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { WORKSPACE_ROLES } from '@/db/schema';
-import { emailSchema, idSchema, text } from './common';
+import { emailSchema, idSchema, rawText, text } from './common';
 
 export const workspaceCreateSchema = z
   .object({ name: text('Workspace name', 2, 100).meta({ example: 'Harrow Vale Institute' }) })
@@ -20,7 +20,7 @@ export const workspaceMemberRoleUpdateSchema = z
   .meta({ id: 'WorkspaceMemberRoleUpdate' });
 
 export const invitationAcceptSchema = z
-  .object({ token: z.string().min(20, 'This invitation link is incomplete.').max(200) })
+  .object({ token: rawText('The invitation link').min(20, 'This invitation link is incomplete.').max(200, 'This invitation link is too long.') })
   .meta({ id: 'InvitationAccept' });
 
 export const workspaceSchema = z

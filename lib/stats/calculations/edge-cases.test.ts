@@ -246,3 +246,20 @@ describe('effects solved in other forms', () => {
     expectRelativelyClose('power', out.result.power as number, 0.9, 1e-9);
   });
 });
+
+describe('inputs at the far ends of the bounds answer at once', () => {
+  it('an effect a billion SDs wide has power 1', () => {
+    expect(run({ kind: 'two-group-means', delta: 1e9, sd: 1e-9, nPerGroup: 40 }).result.power).toBe(1);
+    expect(run({ kind: 'longitudinal-slopes', slopeDifference: 3, sd: 60, rho: 0.6, times: [9007199254740991, 2, 3, 4, 5, 6, 7, 8], nPerGroup: 40 }).result.power).toBe(1);
+    expect(run({ kind: 'regression', f2: 1e4, n: 1e7, predictors: 3 }).result.power).toBe(1);
+  });
+
+  it('a tiny alpha with 2 df is refused with what to change', () => {
+    expectInputError({ kind: 'two-group-means', sd: 1, nPerGroup: 2, alpha: 1e-10, power: 0.9999 }, 'alpha', /alpha is too small for so few degrees of freedom/);
+  });
+
+  it('a best cluster size beyond any cluster is refused, not a crash', () => {
+    expectInputError({ kind: 'optimal-allocation', icc: 1e-300, costPerCluster: 1e9, costPerUnit: 1e-300, budget: 1e12 }, 'icc', /best cluster would have no limit on its units/);
+    expectInputError({ kind: 'optimal-allocation', icc: 1e-9, costPerCluster: 1e6, costPerUnit: 1, budget: 1e12 }, 'costPerUnit', /best cluster would have [\d,]+ units, more than the 1,000,000/);
+  });
+});

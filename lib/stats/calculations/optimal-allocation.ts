@@ -13,7 +13,7 @@
  * - with delta, sd and power: the clusters per arm that reach the power (cluster-means.ts, cv 0)
  *   and the budget 2k·(c_cluster + m·c_unit) they cost.
  *
- * Valid range: 0 < ICC < 1, positive costs. Bad input: CalculationInputError.
+ * Valid range: 0 < ICC < 1, positive costs, m* up to 1,000,000. Bad input: CalculationInputError.
  */
 import { COHEN_1988, DONNER_KLAR_2000, RAUDENBUSH_1997 } from '@/lib/rules/citations';
 import { designEffect } from '@/lib/stats/design-effect';
@@ -26,6 +26,9 @@ import { requireTargetPower } from './solve';
 import type { CalculationOutput, Feasibility, ResultValue } from './types';
 
 export type OptimalAllocationRequest = Extract<CalculationRequest, { kind: 'optimal-allocation' }>;
+
+/** The largest cluster size the calculations take (as clusterSize of cluster-means). */
+const MAX_CLUSTER_SIZE = 1_000_000;
 
 /** Raudenbush's m* (unrounded). */
 export function optimalClusterSize(icc: number, costPerCluster: number, costPerUnit: number): number {
@@ -50,6 +53,12 @@ export function optimalAllocation(request: OptimalAllocationRequest): Calculatio
   const adjusted = adjustAlpha(nominalAlpha, request.outcomes ?? 1, request.multiplicity ?? 'none');
   const alpha = adjusted.alphaAdjusted;
   const mStar = optimalClusterSize(icc, costPerCluster, costPerUnit);
+  if (!(mStar <= MAX_CLUSTER_SIZE)) {
+    throw inputError(
+      `At this ICC and these costs the best cluster would have ${Number.isFinite(mStar) ? `${formatNumber(mStar)} units` : 'no limit on its units'}, more than the ${MAX_CLUSTER_SIZE.toLocaleString('en-GB')} a cluster can have here: check the ICC and the two costs.`,
+      ['icc', 'costPerCluster', 'costPerUnit'],
+    );
+  }
   const m = optimalWholeClusterSize(icc, costPerCluster, costPerUnit);
   const costOfCluster = costPerCluster + m * costPerUnit;
   const hasEffect = delta !== undefined && sd !== undefined;

@@ -7,6 +7,7 @@ import { noncentralTCdf, noncentralTSf } from '@/lib/stats/noncentral-t';
 import { normalQuantile, normalSf } from '@/lib/stats/normal';
 import { fQuantileUpper } from '@/lib/stats/f';
 import { tQuantileUpper } from '@/lib/stats/t';
+import { inputError } from './errors';
 
 export type Sides = 1 | 2;
 
@@ -20,9 +21,25 @@ export type Sides = 1 | 2;
  * 0 < α < 1, ncp finite.
  */
 export function tTestPower(ncp: number, df: number, alpha: number, sides: Sides): number {
-  if (sides === 1) return noncentralTSf(tQuantileUpper(alpha, df), df, ncp);
+  if (sides === 1) return computable(noncentralTSf(tQuantileUpper(alpha, df), df, ncp));
   const critical = tQuantileUpper(alpha / 2, df);
-  return noncentralTSf(critical, df, ncp) + noncentralTCdf(-critical, df, ncp);
+  return computable(noncentralTSf(critical, df, ncp) + noncentralTCdf(-critical, df, ncp));
+}
+
+/**
+ * The noncentral distributions return NaN where their sums would take longer than a request may
+ * (lib/stats/poisson-mixture.ts `MAX_TERMS`): a noncentrality in the hundreds of thousands near
+ * an equally far critical value, which only a tiny alpha with very few degrees of freedom asks
+ * (an effect far beyond an ordinary critical value is answered at once: power 1).
+ */
+function computable(power: number): number {
+  if (Number.isNaN(power)) {
+    throw inputError(
+      'alpha is too small for so few degrees of freedom: the critical value is too far out to compute the power. Use a larger alpha, or more units or clusters.',
+      ['alpha'],
+    );
+  }
+  return power;
 }
 
 /** z₁₋α/sides, computed as −Φ⁻¹(α/sides) so tiny α keeps its precision. */
@@ -47,7 +64,7 @@ export function zTestPower(ncp: number, alpha: number, sides: Sides): number {
  * Accuracy: that of the noncentral F and the F quantile. Valid range: df1, df2 > 0, λ ≥ 0.
  */
 export function fTestPower(lambda: number, df1: number, df2: number, alpha: number): number {
-  return noncentralFSf(fQuantileUpper(alpha, df1, df2), df1, df2, lambda);
+  return computable(noncentralFSf(fQuantileUpper(alpha, df1, df2), df1, df2, lambda));
 }
 
 /**

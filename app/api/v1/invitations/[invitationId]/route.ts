@@ -1,6 +1,10 @@
 import { api } from '@/lib/api/handler';
 import { revokeInvitation } from '@/lib/data/invitations';
+import { invitationParamsSchema } from '@/lib/validation/params';
 
-export const DELETE = api<{ invitationId: string }>(async ({ actor, params }) => {
-  await revokeInvitation(actor, params.invitationId);
-});
+export const DELETE = api(
+  async ({ actor, params }) => {
+    await revokeInvitation(actor, params.invitationId);
+  },
+  { params: invitationParamsSchema },
+);

@@ -1,8 +1,7 @@
 import { api } from '@/lib/api/handler';
 import { cancelSimulation, getSimulation } from '@/lib/data/simulations';
+import { simulationParamsSchema } from '@/lib/validation/params';
 
-type Params = { simulationId: string };
+export const GET = api(async ({ actor, params }) => getSimulation(actor, params.simulationId), { params: simulationParamsSchema });
 
-export const GET = api<Params>(async ({ actor, params }) => getSimulation(actor, params.simulationId));
-
-export const DELETE = api<Params>(async ({ actor, params }) => cancelSimulation(actor, params.simulationId));
+export const DELETE = api(async ({ actor, params }) => cancelSimulation(actor, params.simulationId), { params: simulationParamsSchema });

@@ -1,17 +1,19 @@
 import { api, parseBody } from '@/lib/api/handler';
 import { addFindingNote, listFindingNotes, type FindingNote } from '@/lib/data/designs';
 import { findingNoteSchema } from '@/lib/validation/design';
-
-type Params = { studyId: string };
+import { studyParamsSchema } from '@/lib/validation/params';
 
 const dto = (n: FindingNote) => ({ ...n, createdAt: n.createdAt.toISOString() });
 
-export const GET = api<Params>(async ({ actor, params }) => ({ items: (await listFindingNotes(actor, params.studyId)).map(dto) }));
+export const GET = api(
+  async ({ actor, params }) => ({ items: (await listFindingNotes(actor, params.studyId)).map(dto) }),
+  { params: studyParamsSchema },
+);
 
-export const POST = api<Params>(
+export const POST = api(
   async ({ req, actor, params }) => {
     const input = await parseBody(req, findingNoteSchema);
     return { items: (await addFindingNote(actor, params.studyId, input)).map(dto) };
   },
-  { status: 201 },
+  { params: studyParamsSchema, status: 201 },
 );

@@ -2,17 +2,19 @@ import { api, parseBody } from '@/lib/api/handler';
 import { invitationDto } from '@/lib/api/dto';
 import { inviteToStudy, listStudyInvitations } from '@/lib/data/invitations';
 import { studyInvitationCreateSchema } from '@/lib/validation/member';
+import { studyParamsSchema } from '@/lib/validation/params';
 
-type Params = { studyId: string };
+export const GET = api(
+  async ({ actor, params }) => ({
+    items: (await listStudyInvitations(actor, params.studyId)).map(invitationDto),
+  }),
+  { params: studyParamsSchema },
+);
 
-export const GET = api<Params>(async ({ actor, params }) => ({
-  items: (await listStudyInvitations(actor, params.studyId)).map(invitationDto),
-}));
-
-export const POST = api<Params>(
+export const POST = api(
   async ({ req, actor, params }) => {
     const input = await parseBody(req, studyInvitationCreateSchema);
     return invitationDto(await inviteToStudy(actor, params.studyId, input));
   },
-  { status: 201 },
+  { params: studyParamsSchema, status: 201 },
 );

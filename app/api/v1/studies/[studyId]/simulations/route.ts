@@ -1,6 +1,8 @@
 import { api } from '@/lib/api/handler';
 import { listStudySimulations } from '@/lib/data/simulations';
+import { studyParamsSchema } from '@/lib/validation/params';
 
-type Params = { studyId: string };
-
-export const GET = api<Params>(async ({ actor, params }) => ({ items: await listStudySimulations(actor, params.studyId) }));
+export const GET = api(
+  async ({ actor, params }) => ({ items: await listStudySimulations(actor, params.studyId) }),
+  { params: studyParamsSchema },
+);

@@ -1,0 +1,15 @@
+/**
+ * The path parameters of /api/v1: every id in an address is a UUID. An address whose id is not
+ * one names nothing, so `parseParams` answers 404 (the same as an id that does not exist or is
+ * not visible to the caller), with the field that is wrong.
+ */
+import { z } from 'zod';
+
+const pathId = (thing: string) => z.uuid({ error: `${thing} was not found: the address does not hold a valid id (a UUID).` });
+
+export const studyParamsSchema = z.object({ studyId: pathId('The study') });
+export const studyMemberParamsSchema = studyParamsSchema.extend({ userId: pathId('That member') });
+export const workspaceParamsSchema = z.object({ workspaceId: pathId('The workspace') });
+export const workspaceMemberParamsSchema = workspaceParamsSchema.extend({ userId: pathId('That member') });
+export const invitationParamsSchema = z.object({ invitationId: pathId('The invitation') });
+export const simulationParamsSchema = z.object({ simulationId: pathId('The stress test') });
