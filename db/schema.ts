@@ -106,6 +106,8 @@ export interface InvitationTable {
   accepted_by: string | null;
   revoked_at: NullableTimestamp;
   created_at: Generated<Date>;
+  /** The message that carries the current link (lib/mail/queue.ts). */
+  mail_id: Generated<string | null>;
 }
 
 export interface StudyTable {
@@ -173,6 +175,27 @@ export interface RateLimitTable {
   count: number;
 }
 
+export const MAIL_STATUSES = ['queued', 'sending', 'sent', 'retrying', 'failed', 'suppressed'] as const;
+export type MailStatus = (typeof MAIL_STATUSES)[number];
+
+/** One outgoing message (lib/mail/queue.ts); text and html are erased once it is sent. */
+export interface MailTable {
+  id: Generated<string>;
+  idempotency_key: string;
+  kind: string;
+  recipient: string;
+  subject: string;
+  text: string | null;
+  html: string | null;
+  status: Generated<MailStatus>;
+  attempts: Generated<number>;
+  last_error: string | null;
+  claimed_at: NullableTimestamp;
+  sent_at: NullableTimestamp;
+  created_at: Generated<Date>;
+  updated_at: Generated<Date>;
+}
+
 export const SIMULATION_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export type SimulationStatus = (typeof SIMULATION_STATUSES)[number];
 
@@ -237,6 +260,7 @@ export interface Database {
   study_revisions: StudyRevisionTable;
   activity_log: ActivityTable;
   rate_limits: RateLimitTable;
+  mail: MailTable;
   finding_notes: FindingNoteTable;
   plan_results: PlanResultTable;
   simulations: SimulationTable;

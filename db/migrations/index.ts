@@ -7,10 +7,12 @@ import * as foundation from './20261201T100000_foundation';
 import * as designChecks from './20261201T230000_design_checks';
 import * as simulations from './20261202T033500_simulations';
 import * as planResults from './20261202T034000_plan_results';
+import * as mailQueue from './20261203T100000_mail_queue';
 
 export const migrations: Record<string, Migration> = {
   '20261201T100000_foundation': foundation,
   '20261201T230000_design_checks': designChecks,
   '20261202T033500_simulations': simulations,
   '20261202T034000_plan_results': planResults,
+  '20261203T100000_mail_queue': mailQueue,
 };

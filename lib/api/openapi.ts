@@ -288,6 +288,15 @@ export const API_ROUTES: RouteConfig[] = [
   },
   {
     method: 'post',
+    path: '/api/v1/invitations/{invitationId}/resend',
+    summary: 'Send a pending invitation again with a new link (as for revoking)',
+    description:
+      'For an invitation whose e-mail failed, or that the invited person cannot find. The old link stops working and the new one expires 7 days from now. Refused (409) while the e-mail is still being sent.',
+    request: { params: z.object({ invitationId: p('invitationId') }) },
+    responses: { 200: json(invitationDtoSchema, 'The invitation; the new link goes by e-mail only'), ...writeErrors },
+  },
+  {
+    method: 'post',
     path: '/api/v1/invitations/accept',
     summary: 'Accept an invitation with the token from its e-mail (the invited address only)',
     request: { body: { content: { 'application/json': { schema: invitationAcceptSchema } } } },

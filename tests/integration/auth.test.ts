@@ -10,6 +10,7 @@ import { consume, LIMITS } from '@/lib/rate-limit';
 import { insertSession } from '@/db/repositories/users';
 import { AppError } from '@/lib/errors';
 import { linkIn, sentMail } from '../support/mail';
+import { drainMail } from '../support/drain-mail';
 
 const headers = (ip = '203.0.113.7') => new Headers({ 'x-forwarded-for': ip });
 const PASSWORD = 'trays-are-not-plants-7';
@@ -21,6 +22,7 @@ function tokenOf(link: string): string {
 describe('sign-up and verification', () => {
   it('creates an unverified account with a personal workspace and mails a single-use link', async () => {
     await signUp({ name: 'Lena Vogel', email: 'lena@test.example', password: PASSWORD }, headers());
+    await drainMail();
     expect(sentMail).toHaveLength(1);
     expect(sentMail[0]!.to).toBe('lena@test.example');
     expect((await checkCredentials('lena@test.example', PASSWORD, headers())).kind).toBe('unverified');
@@ -52,8 +54,10 @@ describe('sign-up and verification', () => {
 
   it('answers a second sign-up for an existing address the same way, and tells the owner by mail', async () => {
     await signUp({ name: 'Ada', email: 'ada@test.example', password: PASSWORD }, headers());
+    await drainMail();
     sentMail.length = 0;
     await expect(signUp({ name: 'Mallory', email: 'ada@test.example', password: 'another-long-pass-9' }, headers())).resolves.toBeUndefined();
+    await drainMail();
     expect(sentMail).toHaveLength(1);
     expect(sentMail[0]!.subject).toMatch(/tried to create/);
     expect(await db().selectFrom('User').selectAll().execute()).toHaveLength(1);
@@ -61,6 +65,7 @@ describe('sign-up and verification', () => {
 
   it('gives the same answer for an unknown address and a wrong password', async () => {
     await signUp({ name: 'Ada', email: 'ada@test.example', password: PASSWORD }, headers());
+    await drainMail();
     await verifyEmail(tokenOf(linkIn(sentMail[0]!.text)));
     expect((await checkCredentials('ada@test.example', 'wrong-password-123', headers())).kind).toBe('invalid');
     expect((await checkCredentials('nobody@test.example', 'wrong-password-123', headers())).kind).toBe('invalid');
@@ -70,6 +75,7 @@ describe('sign-up and verification', () => {
 describe('password reset', () => {
   async function verifiedUser() {
     await signUp({ name: 'Priya', email: 'priya@test.example', password: PASSWORD }, headers());
+    await drainMail();
     await verifyEmail(tokenOf(linkIn(sentMail[0]!.text)));
     sentMail.length = 0;
     return db().selectFrom('User').select('id').executeTakeFirstOrThrow();
@@ -79,6 +85,7 @@ describe('password reset', () => {
     const user = await verifiedUser();
     await insertSession(db(), { userId: user.id, sessionToken: 'old-session', expires: new Date(Date.now() + 3600_000) });
     await requestPasswordReset('priya@test.example', headers());
+    await drainMail();
     const token = tokenOf(linkIn(sentMail[0]!.text));
     await resetPassword(token, 'a-brand-new-passphrase');
     expect((await checkCredentials('priya@test.example', 'a-brand-new-passphrase', headers())).kind).toBe('ok');
@@ -90,12 +97,14 @@ describe('password reset', () => {
   it('refuses an expired link', async () => {
     await verifiedUser();
     await requestPasswordReset('priya@test.example', headers());
+    await drainMail();
     await db().updateTable('email_tokens').set({ expires_at: new Date(Date.now() - 1000) }).execute();
     await expect(resetPassword(tokenOf(linkIn(sentMail[0]!.text)), 'a-brand-new-passphrase')).rejects.toMatchObject({ code: 'gone' });
   });
 
   it('sends nothing for an unknown address but answers the same', async () => {
     await expect(requestPasswordReset('nobody@test.example', headers())).resolves.toBeUndefined();
+    await drainMail();
     expect(sentMail).toHaveLength(0);
   });
 });
