@@ -169,10 +169,11 @@ export interface ActivityTable {
   created_at: Generated<Date>;
 }
 
+/** A paced allowance (lib/rate-limit.ts): attempts so far, spaced window/limit apart, reach `paced_until`. */
 export interface RateLimitTable {
   key: string;
-  window_start: Timestamp;
-  count: number;
+  paced_until: Timestamp;
+  window_seconds: number;
 }
 
 export const MAIL_STATUSES = ['queued', 'sending', 'sent', 'retrying', 'failed', 'suppressed'] as const;

@@ -8,6 +8,7 @@ import * as designChecks from './20261201T230000_design_checks';
 import * as simulations from './20261202T033500_simulations';
 import * as planResults from './20261202T034000_plan_results';
 import * as mailQueue from './20261203T100000_mail_queue';
+import * as pacedRateLimits from './20261203T100100_paced_rate_limits';
 
 export const migrations: Record<string, Migration> = {
   '20261201T100000_foundation': foundation,
@@ -15,4 +16,5 @@ export const migrations: Record<string, Migration> = {
   '20261202T033500_simulations': simulations,
   '20261202T034000_plan_results': planResults,
   '20261203T100000_mail_queue': mailQueue,
+  '20261203T100100_paced_rate_limits': pacedRateLimits,
 };

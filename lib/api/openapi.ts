@@ -64,7 +64,7 @@ function calculationRoute(): RouteConfig {
       'regression for power, n or f2; cluster-means for power, clustersPerArm, clusterSize or delta. design-effect solves nothing;',
       'optimal-allocation returns the cluster size that minimises cost, then the clusters a budget buys or the budget a target needs.',
       'Sizes are rounded up to whole units and the achieved power is reported. Results are planning estimates, not guarantees.',
-      'No sign-in is needed; calls are limited per network (429 with Retry-After). Browsers on other sites are refused (403); call it from a server or script.',
+      'No sign-in is needed. Calls are limited per signed-in user, per network behind a trusted proxy, or else in one allowance shared by all callers who are not signed in (429 with Retry-After). Browsers on other sites are refused (403); call it from a server or script.',
     ].join(' '),
     security: [],
     request: { body: { content: { 'application/json': { schema: calculationSchema, examples: examples.requests } } } },
@@ -73,7 +73,7 @@ function calculationRoute(): RouteConfig {
       400: err('Invalid input, or not exactly one unknown: see error.fields.'),
       403: err('A cross-site request from a browser.'),
       413: err('The request body is too large.'),
-      429: err('Too many calculations from this network; see Retry-After.'),
+      429: err('Too many calculations from this caller; see Retry-After.'),
     },
   };
 }

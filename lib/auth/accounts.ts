@@ -22,7 +22,7 @@ import { AppError } from '@/lib/errors';
 import { queueMail } from '@/lib/mail/queue';
 import { wakeMailSender } from '@/lib/mail/sender';
 import { alreadyRegisteredMail, resetPasswordMail, verifyEmailMail } from '@/lib/mail/templates';
-import { clientIp, consume, enforce, LIMITS } from '@/lib/rate-limit';
+import { accountChecks, accountLimitError, addressKey, consume, consumeAll, LIMITS } from '@/lib/rate-limit';
 import type { SignUpInput } from '@/lib/validation/auth';
 import { safeCallback } from '@/lib/action-state';
 import { burnComparison, COMMON_PASSWORD_MESSAGE, hashPassword, isCommonPassword, verifyPassword } from './password';
@@ -89,7 +89,8 @@ async function createAccount(trx: Transaction<Database>, input: SignUpInput, pas
  * and is rolled back to a savepoint, so both answers run the same statements.
  */
 export async function signUp(input: SignUpInput, headers: Headers): Promise<void> {
-  await enforce(db(), `signup:ip:${clientIp(headers)}`, LIMITS.signUpPerIp, 'sign-ups from this network');
+  const limit = await consumeAll(db(), accountChecks('sign-up', input.email, headers));
+  if (!limit.allowed) throw accountLimitError('sign-up', limit);
   if (isCommonPassword(input.password)) {
     throw new AppError('bad_request', COMMON_PASSWORD_MESSAGE, { fields: { password: [COMMON_PASSWORD_MESSAGE] } });
   }
@@ -122,7 +123,7 @@ export async function signUp(input: SignUpInput, headers: Headers): Promise<void
 }
 
 export async function resendVerification(email: string): Promise<void> {
-  const r = await consume(db(), `verify:${email}`, LIMITS.verifyResendPerEmail);
+  const r = await consume(db(), `verify:${email.toLowerCase()}`, LIMITS.verifyResendPerAddress);
   if (!r.allowed) return;
   const user = await findUserByEmail(db(), email);
   if (!user || user.emailVerified) return;
@@ -147,9 +148,8 @@ export type CredentialOutcome =
   | { kind: 'rate_limited' };
 
 export async function checkCredentials(email: string, password: string, headers: Headers): Promise<CredentialOutcome> {
-  const perIp = await consume(db(), `signin:ip:${clientIp(headers)}`, LIMITS.signInPerIp);
-  const perEmail = await consume(db(), `signin:email:${email}`, LIMITS.signInPerEmail);
-  if (!perIp.allowed || !perEmail.allowed) return { kind: 'rate_limited' };
+  const limit = await consumeAll(db(), accountChecks('sign-in', email, headers));
+  if (!limit.allowed) return { kind: 'rate_limited' };
   const user = await findUserByEmail(db(), email);
   if (!user || !user.passwordHash) {
     await burnComparison(password);
@@ -169,9 +169,12 @@ export async function checkCredentials(email: string, password: string, headers:
  * sent) for an unknown address.
  */
 export async function requestPasswordReset(email: string, headers: Headers): Promise<void> {
-  await enforce(db(), `reset:ip:${clientIp(headers)}`, LIMITS.resetPerIp, 'reset requests from this network');
-  const perEmail = await consume(db(), `reset:email:${email}`, LIMITS.resetPerEmail);
-  if (!perEmail.allowed) return; // Same answer as success: the inbox already has links.
+  const limit = await consumeAll(db(), accountChecks('reset', email, headers));
+  if (!limit.allowed) {
+    // The address's own limit refuses with the same answer as success: its inbox already has links.
+    if (limit.refused.every((key) => key === addressKey('reset', email))) return;
+    throw accountLimitError('reset', limit);
+  }
   const { token, hash } = newToken();
   const address = email.trim().toLowerCase();
   await db()

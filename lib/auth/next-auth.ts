@@ -10,7 +10,7 @@ import { insertSession } from '@/db/repositories/users';
 import { logActivity } from '@/db/repositories/activity';
 import { db } from '@/lib/db';
 import { env } from '@/lib/env';
-import { enforce, LIMITS } from '@/lib/rate-limit';
+import { accountChecks, accountLimitError, consumeAll } from '@/lib/rate-limit';
 import { queueMail } from '@/lib/mail/queue';
 import { wakeMailSender } from '@/lib/mail/sender';
 import { magicLinkMail } from '@/lib/mail/templates';
@@ -67,8 +67,9 @@ export const { handlers, signIn, signOut } = NextAuth(() => {
         maxAge: 15 * 60,
         // Queued like every message (lib/mail/queue.ts). next-auth stores its token beside this
         // call, not in our transaction: a message whose token was not stored only fails to sign in.
-        async sendVerificationRequest({ identifier, url, token }) {
-          await enforce(db(), `magic:${identifier}`, LIMITS.magicLinkPerEmail, 'sign-in links for this address');
+        async sendVerificationRequest({ identifier, url, token, request }) {
+          const limit = await consumeAll(db(), accountChecks('magic-link', identifier, request.headers));
+          if (!limit.allowed) throw accountLimitError('magic-link', limit);
           await db()
             .transaction()
             .execute((trx) =>
