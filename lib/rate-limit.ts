@@ -113,6 +113,8 @@ export async function consumeAll(db: Kysely<Database>, checks: readonly Check[])
       insert into rate_limits as r (key, paced_until, window_seconds)
       select key, now() + make_interval(secs => spacing), window_seconds from current
       where not exists (select 1 from current c where c.reach_at > now() + make_interval(secs => c.window_seconds))
+      -- Rows are locked in one order by every statement, so two attempts never wait on each other.
+      order by key
       on conflict (key) do update
         set paced_until = greatest(r.paced_until, now()) + (excluded.paced_until - now()),
             window_seconds = excluded.window_seconds
