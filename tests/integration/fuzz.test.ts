@@ -70,7 +70,8 @@ const EXPECTED: Record<string, (body: Record<string, unknown>) => Delta> = {
   'PATCH /api/v1/workspaces/{workspaceId}/members/{userId}': () => ({ activity_log: 1 }),
   // Leaving a workspace ends the person's study memberships in it.
   'DELETE /api/v1/workspaces/{workspaceId}/members/{userId}': () => ({ workspace_members: -1, study_members: [-1_000, 0], activity_log: 1 }),
-  'POST /api/v1/workspaces/{workspaceId}/invitations': () => ({ invitations: 1, activity_log: 1 }),
+  // An invitation queues its e-mail (a mail row and its pg-boss job) in the same transaction.
+  'POST /api/v1/workspaces/{workspaceId}/invitations': () => ({ invitations: 1, mail: 1, 'pgboss.job': 1, activity_log: 1 }),
   'POST /api/v1/studies': () => ({ studies: 1, study_members: 1, study_revisions: 1, activity_log: 1 }),
   'PATCH /api/v1/studies/{studyId}': () => ({ activity_log: 1 }),
   // Archiving an archived study (restoring an active one) answers the study as it is.
@@ -78,11 +79,12 @@ const EXPECTED: Record<string, (body: Record<string, unknown>) => Delta> = {
   'POST /api/v1/studies/{studyId}/restore': () => ({ activity_log: [0, 1] }),
   'PATCH /api/v1/studies/{studyId}/members/{userId}': () => ({ activity_log: 1 }),
   'DELETE /api/v1/studies/{studyId}/members/{userId}': () => ({ study_members: -1, activity_log: 1 }),
-  'POST /api/v1/studies/{studyId}/invitations': () => ({ invitations: 1, activity_log: 1 }),
+  'POST /api/v1/studies/{studyId}/invitations': () => ({ invitations: 1, mail: 1, 'pgboss.job': 1, activity_log: 1 }),
   'PUT /api/v1/studies/{studyId}/design': () => ({ study_revisions: 1, activity_log: 1 }),
   'POST /api/v1/studies/{studyId}/finding-notes': () => ({ finding_notes: 1, activity_log: 1 }),
   'POST /api/v1/studies/{studyId}/plans': () => ({ plan_results: 1, activity_log: 1 }),
   'DELETE /api/v1/invitations/{invitationId}': () => ({ activity_log: 1 }),
+  'POST /api/v1/invitations/{invitationId}/resend': () => ({ mail: 1, 'pgboss.job': 1, activity_log: 1 }),
   // Joining: the membership rows are upserts (0 when already a member).
   'POST /api/v1/invitations/accept': () => ({ workspace_members: [0, 1], study_members: [0, 1], activity_log: 1 }),
   'POST /api/v1/simulations': (b) => ({ simulations: 1, 'pgboss.job': Number(b.chunkCount), activity_log: b.studyId ? 1 : 0 }),
