@@ -8,6 +8,8 @@
  * expires), then exit.
  */
 import { createDb } from '@/db/client';
+import { ConfigError, parseConfig } from '@/lib/config';
+import { logger } from '@/lib/log';
 import { jobsConfig } from './config';
 import { createPool, poolEngine } from './pool';
 import { startWorker, type RunningWorker } from './worker';
@@ -15,11 +17,8 @@ import { startWorker, type RunningWorker } from './worker';
 const log = (m: string) => console.log(`[worker ${process.pid}] ${m}`);
 
 async function main(): Promise<void> {
-  const url = process.env.DATABASE_URL;
-  if (!url) {
-    console.error('DATABASE_URL is not set: the worker takes its chunks from the database. `npm start` sets it; see .env.example.');
-    process.exit(1);
-  }
+  // The whole configuration, checked before anything starts: a bad value stops the worker here, by name.
+  const url = parseConfig(process.env, 'worker').DATABASE_URL;
   const config = jobsConfig();
   const db = createDb(url, { max: config.threads + 2 });
   // Even with one thread the chunks run on the pool, so that the process's own thread keeps
@@ -56,6 +55,10 @@ async function main(): Promise<void> {
 }
 
 main().catch((err) => {
+  if (err instanceof ConfigError) {
+    logger('worker').error(`cannot start. ${err.message}`);
+    process.exit(1);
+  }
   console.error('[worker] failed:', err);
   process.exit(1);
 });
