@@ -8,15 +8,17 @@ import { REQUEST_ID_HEADER, UNAVAILABLE_REQUESTS } from '@/lib/http/edge.mjs';
  * message naming each bad variable instead of failing later inside a request.
  */
 export async function register(): Promise<void> {
-  if (process.env.NEXT_RUNTIME !== 'nodejs' || process.env.NEXT_PHASE === 'phase-production-build') return;
-  const { ConfigError, parseConfig } = await import('@/lib/config');
-  try {
-    parseConfig(process.env, 'web');
-  } catch (err) {
-    if (!(err instanceof ConfigError)) throw err;
-    const { logger } = await import('@/lib/log');
-    logger('web').error(`cannot start. ${err.message}`);
-    process.exit(1);
+  // Inside the condition (not after an early return) so that the Edge build drops process.exit.
+  if (process.env.NEXT_RUNTIME === 'nodejs' && process.env.NEXT_PHASE !== 'phase-production-build') {
+    const { ConfigError, parseConfig } = await import('@/lib/config');
+    try {
+      parseConfig(process.env, 'web');
+    } catch (err) {
+      if (!(err instanceof ConfigError)) throw err;
+      const { logger } = await import('@/lib/log');
+      logger('web').error(`cannot start. ${err.message}`);
+      process.exit(1);
+    }
   }
 }
 

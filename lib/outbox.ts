@@ -63,7 +63,7 @@ export async function readOutbox(limit = 100): Promise<OutboxMessage[]> {
   if (!dir) return [];
   let files: string[];
   try {
-    files = (await readdir(dir)).filter((f) => f.endsWith('.json'));
+    files = (await readdir(/* turbopackIgnore: true */ dir)).filter((f) => f.endsWith('.json'));
   } catch {
     return [];
   }
@@ -71,7 +71,7 @@ export async function readOutbox(limit = 100): Promise<OutboxMessage[]> {
   const out: OutboxMessage[] = [];
   for (const f of files.slice(0, limit)) {
     try {
-      out.push(JSON.parse(await readFile(path.join(dir, f), 'utf8')) as OutboxMessage);
+      out.push(JSON.parse(await readFile(path.join(/* turbopackIgnore: true */ dir, f), 'utf8')) as OutboxMessage);
     } catch {
       // A file being written is skipped; the sink writes to a temporary name first.
     }
