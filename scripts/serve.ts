@@ -33,6 +33,8 @@ import { logger } from '@/lib/log';
 const log = logger('web');
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const RETRY_AFTER_SECONDS = 5;
+/** For the few answers written here: they load nothing and may not be framed. */
+const OWN_ANSWER_CSP = ['Content-Security-Policy', "default-src 'none'; frame-ancestors 'none'"] as const;
 
 function flag(name: string): string | undefined {
   const i = process.argv.indexOf(`--${name}`);
@@ -93,7 +95,7 @@ function answerClientError(err: NodeJS.ErrnoException & { rawPacket?: Buffer }, 
   const status = err.code === 'HPE_HEADER_OVERFLOW' ? 431 : 400;
   const api = /^[A-Z]+ \/api[/?\s]/.test(err.rawPacket?.subarray(0, 64).toString('latin1') ?? '');
   const { type, body } = problemBody(status, api);
-  const headers = [...SECURITY_HEADERS, ['Content-Type', type], ['Content-Length', String(Buffer.byteLength(body))], ['Connection', 'close']];
+  const headers = [...SECURITY_HEADERS, OWN_ANSWER_CSP, ['Content-Type', type], ['Content-Length', String(Buffer.byteLength(body))], ['Connection', 'close']];
   socket.end(`HTTP/1.1 ${status} ${STATUS_CODES[status]}\r\n${headers.map(([k, v]) => `${k}: ${v}`).join('\r\n')}\r\n\r\n${body}`);
 }
 
@@ -118,7 +120,7 @@ async function main(): Promise<void> {
       log.error(`request ${req.method} ${req.url} failed`, err);
       if (res.headersSent) return void res.destroy();
       const { type, body } = problemBody(500, req.url?.startsWith('/api') ?? false);
-      res.writeHead(500, { 'Content-Type': type }).end(body);
+      res.writeHead(500, { 'Content-Type': type, [OWN_ANSWER_CSP[0]]: OWN_ANSWER_CSP[1] }).end(body);
     });
   });
   server.on('clientError', answerClientError);

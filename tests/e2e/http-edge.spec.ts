@@ -54,6 +54,20 @@ test.describe('every answer carries the security headers and a Content-Security-
   }
 });
 
+test('a request Node itself refuses (headers over 16 KB) gets the headers and the app’s shape', async () => {
+  for (const [path, type] of [
+    ['/api/health', 'application/json'],
+    ['/sign-in', 'text/html'],
+  ] as const) {
+    const res = await raw(path, { headers: { 'x-padding': 'a'.repeat(20_000) } });
+    expect(res.status).toBe(431);
+    expect(res.headers['content-type']).toContain(type);
+    for (const [name, value] of Object.entries(SECURITY_HEADERS)) expect(res.headers[name], name).toBe(value);
+    expect(res.headers['content-security-policy']).toBe("default-src 'none'; frame-ancestors 'none'");
+    if (type === 'application/json') expect(JSON.parse(res.body)).toMatchObject({ error: { code: 'bad_request' } });
+  }
+});
+
 test('the nonce is new for every answer and is on every script of the page', async () => {
   const [a, b] = [await raw('/sign-in'), await raw('/sign-in')];
   const nonce = cspNonce(a.headers['content-security-policy'])!;
