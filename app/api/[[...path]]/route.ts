@@ -2,8 +2,8 @@ import { api } from '@/lib/api/handler';
 import { AppError } from '@/lib/errors';
 
 /**
- * Any /api address that no route handles: the API's JSON error instead of the HTML 404 page.
- * More specific routes (api/v1/…, api/auth/…, api/health) always win over this catch-all.
+ * Any /api address that no route handles (/api itself included): the API's JSON error instead
+ * of the HTML 404 page. More specific routes (api/v1/…, api/auth/…, api/health) always win over this catch-all.
  */
 const noSuchRoute = api(
   async () => {
