@@ -6,6 +6,10 @@
  * --no-worker` and the end-to-end suite all send mail without further setup, and a stress-test
  * worker on another machine (`npm run worker`) needs no SMTP settings.
  *
+ * Messages are taken by `consume()` (lib/jobs/consume.ts), not pg-boss's `work()`: a database that
+ * drops while a message is marked sent is waited out instead of ending the web server with an
+ * unhandled rejection, and a message is never marked twice.
+ *
  * Starts in the background: while the database cannot be reached it tries again (2 s, growing to
  * 30 s), and messages wait in the queue meanwhile. Once an hour it deletes settled messages older
  * than MAIL_RETENTION_DAYS, a thousand at a time.
@@ -13,6 +17,7 @@
 import type PgBoss from 'pg-boss';
 import { deleteSettledMail } from '@/db/repositories/mail';
 import { db } from '@/lib/db';
+import { consume, Wakeup } from '@/lib/jobs/consume';
 import { logger } from '@/lib/log';
 import { deliverMail, mailBoss, MAIL_QUEUE, type MailJob } from './queue';
 
@@ -24,7 +29,9 @@ const log = logger('mail');
 
 interface Running {
   boss: PgBoss;
-  workId: string;
+  stop: AbortController;
+  done: Promise<void>;
+  wake: Wakeup;
   timer: NodeJS.Timeout;
 }
 
@@ -32,24 +39,21 @@ const holder = globalThis as unknown as { unitwiseMailSender?: { started: Promis
 
 async function subscribe(): Promise<Running> {
   const boss = await mailBoss();
-  const workId: string = await boss.work<MailJob>(
+  const stop = new AbortController();
+  const wake = new Wakeup();
+  const done = consume<MailJob>(
+    boss,
     MAIL_QUEUE,
-    { batchSize: 1, includeMetadata: true, pollingIntervalSeconds: POLL_SECONDS },
-    async ([job]) => {
-      if (!job) return;
-      try {
-        await deliverMail(db(), job.data.mailId, { final: job.retryCount >= job.retryLimit });
-      } finally {
-        // The next message, if any, at once rather than after the polling interval.
-        boss.notifyWorker(workId);
-      }
+    async (job) => {
+      await deliverMail(db(), job.data.mailId, { final: job.retryCount >= job.retryLimit });
     },
+    { signal: stop.signal, pollSeconds: POLL_SECONDS, wake },
   );
   const timer = setInterval(() => void pruneSettledMail(), 3600_000);
   timer.unref();
   void pruneSettledMail();
   log.info('sending queued mail');
-  return { boss, workId, timer };
+  return { boss, stop, done, wake, timer };
 }
 
 async function pruneSettledMail(): Promise<void> {
@@ -84,7 +88,7 @@ export function startMailSender(): Promise<Running | undefined> {
 
 /** Wakes this process's sender, if it runs here, to look at the queue now. */
 export function wakeMailSender(): void {
-  void holder.unitwiseMailSender?.started.then((running) => running?.boss.notifyWorker(running.workId));
+  void holder.unitwiseMailSender?.started.then((running) => running?.wake.ring());
 }
 
 /** Stops taking messages (tests); the process's pg-boss keeps running. */
@@ -96,5 +100,6 @@ export async function stopMailSender(): Promise<void> {
   const running = await state.started;
   if (!running) return;
   clearInterval(running.timer);
-  await running.boss.offWork({ id: running.workId });
+  running.stop.abort();
+  await running.done;
 }
