@@ -26,6 +26,7 @@ import { API_ROUTES } from '@/lib/api/openapi';
 import { db } from '@/lib/db';
 import { DATABASE_INPUT_MESSAGE } from '@/lib/errors';
 import { inviteToStudy } from '@/lib/data/invitations';
+import { deliverWaitingMail } from '@/lib/mail/queue';
 import { createSimulation } from '@/lib/data/simulations';
 import { getBoss, stopBoss } from '@/lib/jobs/boss';
 import { simulationRunSchema } from '@/lib/validation/simulation-run';
@@ -434,6 +435,9 @@ async function runBatch(batch: number) {
   const stale: TestUser = { ...(await makeUser('stale')), cookie: 'authjs.session-token=not-a-session-at-all' };
   const users: Record<Exclude<ActorName, 'signedOut'>, TestUser> = { ...w.byRole, workspaceOnly: w.workspaceOnly, target: w.target, outsider: w.outsider, staleSession: stale };
   const invitation = await inviteToStudy({ id: w.byRole.owner.id, email: w.byRole.owner.email, name: 'owner' }, w.studyId, { email: w.outsider.email, role: 'viewer' });
+  // Invitation e-mails wait in the queue: deliver them, so that the link joins the token pool and
+  // the invitation can be sent again (only a delivered or failed e-mail can).
+  await deliverWaitingMail(db());
   const run = await createSimulation({ id: w.byRole.owner.id, email: w.byRole.owner.email, name: 'owner' }, simulationRunSchema.parse({ spec: SMALL_SPEC }));
   const pools: Pools = {
     studyId: [w.studyId],
@@ -538,6 +542,7 @@ async function runBatch(batch: number) {
       if (route.key === 'POST /api/v1/simulations') pools.simulationId.push(answer.id);
       if (route.key.endsWith('/invitations') && route.method === 'POST') {
         pools.invitationId.push(answer.id);
+        await deliverWaitingMail(db());
         const token = mailedToken();
         if (token) pools.token.push(token);
       }
