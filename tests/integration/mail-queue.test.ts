@@ -132,6 +132,10 @@ describe('invitations during a mail outage', () => {
     await expect.poll(() => delivery(w), { timeout: 10_000 }).toBe('retrying');
     // The outage ends; the retry is due (its delay, 15–30 s for the first, has passed).
     smtp.down = false;
+    // The message is marked retrying before its job is failed back to the queue: wait for the job.
+    const retries = async () =>
+      Number((await sql<{ n: string }>`select count(*) as n from pgboss.job where name = 'mail' and state = 'retry'`.execute(db())).rows[0]!.n);
+    await expect.poll(retries, { timeout: 10_000 }).toBe(1);
     await sql`update pgboss.job set start_after = now() where name = 'mail' and state = 'retry'`.execute(db());
     await expect.poll(() => delivery(w), { timeout: 10_000 }).toBe('sent');
     expect(sentMail.map((m) => m.to)).toEqual(['lena@test.example']);
