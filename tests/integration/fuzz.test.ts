@@ -22,6 +22,8 @@ import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { CLASSROOM_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
 import { CALCULATION_EXAMPLES } from '@/lib/api/calculation-examples';
+import { upsertStudyMember } from '@/db/repositories/studies';
+import { upsertWorkspaceMember } from '@/db/repositories/workspaces';
 import { API_ROUTES } from '@/lib/api/openapi';
 import { db } from '@/lib/db';
 import { DATABASE_INPUT_MESSAGE } from '@/lib/errors';
@@ -388,9 +390,7 @@ interface Case {
 
 const caseArb: fc.Arbitrary<Case> = fc.record({
   route: fc.nat({ max: ROUTES.length - 1 }),
-  // The owner may do most, so they are drawn more often: every write route then succeeds several
-  // times per run, not once by luck.
-  actor: fc.oneof({ weight: 3, arbitrary: fc.constant<ActorName>('owner') }, { weight: 9, arbitrary: fc.constantFrom(...ACTORS.filter((a) => a !== 'owner')) }),
+  actor: fc.constantFrom(...ACTORS),
   crossSite: fc.oneof({ weight: 40, arbitrary: fc.constant(false) }, { weight: 1, arbitrary: fc.constant(true) }),
   params: fc.array(paramValue, { minLength: 2, maxLength: 2 }),
   pick: fc.nat(),
@@ -537,6 +537,13 @@ async function runBatch(batch: number) {
     const expected = res.status < 300 ? (EXPECTED[route.key]?.(answer ?? {}) ?? {}) : {};
     const problems = unexpectedChanges(before, after, expected);
     if (problems.length) throw new Error(`${res.status}: ${problems.join('; ')} for ${describeCase()}`);
+
+    // The world's target member is there to have their role changed and to be removed: after a
+    // removal they are put back (after the counts above), so later role changes can reach them.
+    if (res.status === 204 && route.key.endsWith('/members/{userId}') && params.userId === w.target.id) {
+      await upsertWorkspaceMember(db(), w.workspaceId, w.target.id, 'member');
+      await upsertStudyMember(db(), w.studyId, w.target.id, 'editor');
+    }
 
     if (res.status < 300 && answer) {
       if (route.key === 'POST /api/v1/workspaces') pools.workspaceId.push(answer.id);
