@@ -146,3 +146,16 @@ test('the web server listens on loopback only', async () => {
   expect((await raw('/api/health')).status).toBe(200);
   await expect(raw('/api/health', { host: lan })).rejects.toThrow(/ECONNREFUSED/);
 });
+
+test('a session cookie that cannot be decoded is no session, on pages and the API', async () => {
+  // `%ZZ` threw while decoding (500 from the API); NUL reached PostgreSQL (500 on pages).
+  for (const value of ['%ZZ', '%00', 'a%00b', '%ED%A0%80']) {
+    const cookie = `authjs.session-token=${value}`;
+    const api = await raw('/api/v1/studies', { headers: { cookie } });
+    expect(api.status, cookie).toBe(401);
+    for (const path of ['/sign-in', '/workspaces/new']) {
+      const page = await raw(path, { headers: { cookie } });
+      expect([200, 307], `${path} with ${cookie}`).toContain(page.status);
+    }
+  }
+});
