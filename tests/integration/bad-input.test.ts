@@ -173,3 +173,16 @@ describe('a session cookie that names no session', () => {
     await expect(actorFromSessionToken(token)).resolves.toBeNull();
   });
 });
+
+describe('sign-in while the database is down', () => {
+  it('says the database is not reachable, not "something went wrong"', async () => {
+    const { signIn } = await import('@/lib/auth/next-auth');
+    const { AuthError } = await import('next-auth');
+    // What next-auth throws when authorize() fails: a CallbackRouteError whose cause is { err, provider }.
+    const refused = Object.assign(new Error('connect ECONNREFUSED 127.0.0.1:5432'), { code: 'ECONNREFUSED', syscall: 'connect' });
+    const wrapped = Object.assign(new AuthError(), { type: 'CallbackRouteError', cause: { err: refused, provider: 'credentials' } });
+    vi.mocked(signIn).mockRejectedValueOnce(wrapped);
+    const state = await actions.signInAction({ email: 'ada@example.org', password: 'correct horse battery staple' });
+    expect(state).toMatchObject({ status: 'error', message: 'The database is not reachable right now. Try again in a moment.' });
+  });
+});
