@@ -27,7 +27,7 @@ import path from 'node:path';
 import type { Duplex } from 'node:stream';
 import { fileURLToPath } from 'node:url';
 import { ConfigError, parseConfig } from '@/lib/config';
-import { REQUEST_ID_HEADER, SECURITY_HEADERS, UNAVAILABLE_REQUESTS } from '@/lib/http/edge.mjs';
+import { PEER_ADDRESS_HEADER, REQUEST_ID_HEADER, SECURITY_HEADERS, UNAVAILABLE_REQUESTS } from '@/lib/http/edge.mjs';
 import { logger } from '@/lib/log';
 
 const log = logger('web');
@@ -168,6 +168,7 @@ async function main(): Promise<void> {
     const api = /^\/api(?:[/?]|$)/.test(req.url ?? '');
     if (!NEXT_METHODS.includes(req.method ?? '')) return answerOwn(res, 405, api, req.method ?? '', { Allow: NEXT_METHODS.join(', ') });
     if (api) fillBareApiErrors(req, res);
+    req.headers[PEER_ADDRESS_HEADER] = req.socket.remoteAddress ?? '';
     track(req, res);
     handle(req, res).catch((err: unknown) => {
       log.error(`request ${req.method} ${req.url} failed`, err);
