@@ -31,6 +31,7 @@ import { getBoss, stopBoss } from '@/lib/jobs/boss';
 import { simulationRunSchema } from '@/lib/validation/simulation-run';
 import type { SimulationSpecInput } from '@/lib/validation/simulations';
 import { BASE, makeUser, makeWorld, type TestUser } from '../support/fixtures';
+import { drainMail } from '../support/drain-mail';
 import { sentMail } from '../support/mail';
 
 const BATCHES = Number(process.env.FUZZ_BATCHES ?? 10);
@@ -435,6 +436,9 @@ async function runBatch(batch: number) {
   const users: Record<Exclude<ActorName, 'signedOut'>, TestUser> = { ...w.byRole, workspaceOnly: w.workspaceOnly, target: w.target, outsider: w.outsider, staleSession: stale };
   const invitation = await inviteToStudy({ id: w.byRole.owner.id, email: w.byRole.owner.email, name: 'owner' }, w.studyId, { email: w.outsider.email, role: 'viewer' });
   const run = await createSimulation({ id: w.byRole.owner.id, email: w.byRole.owner.email, name: 'owner' }, simulationRunSchema.parse({ spec: SMALL_SPEC }));
+  // Invitations are mailed by the queue's sender, which does not run here: send them now, so that
+  // the link's token can be accepted and the invitation is no longer "sending" (resend waits for that).
+  await drainMail();
   const pools: Pools = {
     studyId: [w.studyId],
     workspaceId: [w.workspaceId, w.outsiderWorkspaceId],
@@ -538,6 +542,7 @@ async function runBatch(batch: number) {
       if (route.key === 'POST /api/v1/simulations') pools.simulationId.push(answer.id);
       if (route.key.endsWith('/invitations') && route.method === 'POST') {
         pools.invitationId.push(answer.id);
+        await drainMail();
         const token = mailedToken();
         if (token) pools.token.push(token);
       }
