@@ -21,6 +21,8 @@ import fc from 'fast-check';
 import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { CLASSROOM_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
+import { upsertStudyMember } from '@/db/repositories/studies';
+import { upsertWorkspaceMember } from '@/db/repositories/workspaces';
 import { CALCULATION_EXAMPLES } from '@/lib/api/calculation-examples';
 import { API_ROUTES } from '@/lib/api/openapi';
 import { db } from '@/lib/db';
@@ -536,6 +538,11 @@ async function runBatch(batch: number) {
     const problems = unexpectedChanges(before, after, expected);
     if (problems.length) throw new Error(`${res.status}: ${problems.join('; ')} for ${describeCase()}`);
 
+    // The world's target member stays one after a removal, so that later role changes can reach it.
+    if (res.status < 300 && route.method === 'DELETE' && route.key.endsWith('/members/{userId}') && params.userId === w.target.id) {
+      await upsertWorkspaceMember(db(), w.workspaceId, w.target.id, 'member');
+      await upsertStudyMember(db(), w.studyId, w.target.id, 'editor');
+    }
     if (res.status < 300 && answer) {
       if (route.key === 'POST /api/v1/workspaces') pools.workspaceId.push(answer.id);
       if (route.key === 'POST /api/v1/studies') pools.studyId.push(answer.id);
