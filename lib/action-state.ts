@@ -8,8 +8,21 @@ export type ActionState =
 
 export const idle: ActionState = { status: 'idle' };
 
-/** Only same-site paths are followed after sign-in. */
+const OWN_ORIGIN = 'http://unitwise.invalid';
+
+/**
+ * Only same-site paths are followed after sign-in. The path is read the way a browser reads a
+ * Location header (which drops tabs and line breaks and takes "\\" for "/"), so that "/\t/evil.example"
+ * cannot become "//evil.example"; what is returned is that reading, not the raw text.
+ */
 export function safeCallback(url: string | undefined | null, fallback = '/studies'): string {
-  if (!url || !url.startsWith('/') || url.startsWith('//') || url.startsWith('/\\')) return fallback;
-  return url;
+  if (!url || !url.startsWith('/')) return fallback;
+  let parsed: URL;
+  try {
+    parsed = new URL(url, OWN_ORIGIN);
+  } catch {
+    return fallback;
+  }
+  if (parsed.origin !== OWN_ORIGIN) return fallback;
+  return `${parsed.pathname}${parsed.search}${parsed.hash}`;
 }

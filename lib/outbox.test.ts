@@ -1,16 +1,16 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { isLocalRequest, outboxDir } from './outbox';
 
-// Next fills X-Forwarded-For with the peer's address when the client sent none.
-const local = { host: 'localhost:3000', 'x-forwarded-host': 'localhost:3000', 'x-forwarded-for': '::ffff:127.0.0.1' };
+// scripts/serve.ts names the connection's peer; Next fills X-Forwarded-For with it when the client sent none.
+const local = { host: 'localhost:3000', 'x-forwarded-host': 'localhost:3000', 'x-forwarded-for': '::ffff:127.0.0.1', 'x-unitwise-peer': '::ffff:127.0.0.1' };
 
 describe('the development outbox answers only this machine', () => {
   it.each([
     [local],
     [{ ...local, 'x-forwarded-for': '127.0.0.1' }],
     [{ ...local, 'x-forwarded-for': '::1' }],
-    [{ host: '127.0.0.1:3000', 'x-forwarded-for': '127.0.0.1' }],
-    [{ host: '[::1]:3000', 'x-forwarded-for': '::1' }],
+    [{ host: '127.0.0.1:3000', 'x-forwarded-for': '127.0.0.1', 'x-unitwise-peer': '127.0.0.1' }],
+    [{ host: '[::1]:3000', 'x-forwarded-for': '::1', 'x-unitwise-peer': '::1' }],
   ])('serves %j', (headers) => {
     expect(isLocalRequest(new Headers(headers))).toBe(true);
   });
@@ -24,6 +24,10 @@ describe('the development outbox answers only this machine', () => {
     ['a forwarded host', { ...local, 'x-forwarded-host': 'unitwise.example.org' }],
     ['a network address as host', { ...local, host: '192.0.2.2:3000', 'x-forwarded-host': '192.0.2.2:3000' }],
     ['no peer address', { host: 'localhost:3000' }],
+    // A server opened to the network (LISTEN_HOST=0.0.0.0) with DEV_OUTBOX set by hand: a peer
+    // there can write Host and X-Forwarded-For as if it were this machine, but not its address.
+    ['a network peer that claims loopback in its headers', { ...local, 'x-forwarded-for': '127.0.0.1', 'x-unitwise-peer': '::ffff:192.0.2.2' }],
+    ['a request without the server’s peer header (not served by scripts/serve.ts)', { host: 'localhost:3000', 'x-forwarded-for': '127.0.0.1' }],
   ])('refuses %s', (_what, headers) => {
     expect(isLocalRequest(new Headers(headers))).toBe(false);
   });

@@ -3,6 +3,7 @@ import { readdir, readFile } from 'node:fs/promises';
 import { isIP } from 'node:net';
 import path from 'node:path';
 import { env } from '@/lib/env';
+import { PEER_ADDRESS_HEADER } from '@/lib/http/edge.mjs';
 
 /**
  * Messages caught by the local mail sink (scripts/mail-sink.mjs), one JSON file each in
@@ -41,14 +42,17 @@ export function outboxDir(): string | undefined {
 }
 
 /**
- * True when a request comes from this machine, as far as a page can tell. Next gives a page no
- * socket, only headers: it fills X-Forwarded-For with the peer's address when the client sent
- * none, and keeps a client's value otherwise. So the request must name a loopback host (which
- * also defeats DNS rebinding), carry exactly one loopback address there, and no other sign of a
- * proxy in between. A client can still claim loopback in X-Forwarded-For; that is why DEV_OUTBOX
- * is only given to a server that listens on loopback, where every peer is on this machine.
+ * True when a request comes from this machine. Next gives a page no socket, only headers: the
+ * connection's peer is in the header that scripts/serve.ts sets (replacing any value a client
+ * sent), and it must be a loopback address. Next fills X-Forwarded-For with the peer's address
+ * when the client sent none and keeps a client's value otherwise, so that header must hold that
+ * one loopback address too. The request must also name a loopback host (which defeats DNS
+ * rebinding) and carry no other sign of a proxy in between. DEV_OUTBOX is moreover only given to
+ * a server that listens on loopback, where every peer is on this machine.
  */
 export function isLocalRequest(headers: Headers): boolean {
+  const peer = headers.get(PEER_ADDRESS_HEADER);
+  if (!peer || !isLoopbackAddress(peer)) return false;
   const host = headers.get('host')?.toLowerCase().replace(/:\d+$/, '');
   if (!host || !LOOPBACK_NAMES.has(host)) return false;
   const forwardedHost = headers.get('x-forwarded-host');

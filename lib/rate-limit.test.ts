@@ -14,6 +14,27 @@ describe('clientAddress', () => {
   });
 
   it.each([
+    ['a public IPv4 peer', '198.51.100.7', '198.51.100.7'],
+    ['a public IPv4 peer, as an IPv4-mapped address', '::ffff:203.0.113.9', '203.0.113.9'],
+    ['the /64 network of a public IPv6 peer', '2001:db8:0:12:a:b:c:d', '2001:db8:0:12::/64'],
+    ['no loopback peer (a proxy on this machine)', '127.0.0.1', null],
+    ['no loopback IPv6 peer', '::1', null],
+    ['no private peer (a proxy in the same network)', '10.1.2.3', null],
+    ['no private peer in 172.16/12', '172.20.0.5', null],
+    ['no private peer in 192.168/16', '::ffff:192.168.1.9', null],
+    ['no unique-local IPv6 peer', 'fd00::5', null],
+    ['no link-local IPv6 peer', 'fe80::1', null],
+    ['nothing that is not an address', 'not-an-ip', null],
+  ])('without a trusted proxy, the connection’s peer (set by the server): %s', (_what, peer, want) => {
+    expect(clientAddress(h({ 'x-unitwise-peer': peer, 'x-forwarded-for': '192.0.2.55' }))).toBe(want);
+  });
+
+  it('behind a trusted proxy, X-Forwarded-For and not the peer (the proxy)', () => {
+    process.env.TRUST_PROXY = 'true';
+    expect(clientAddress(h({ 'x-unitwise-peer': '198.51.100.1', 'x-forwarded-for': '203.0.113.9' }))).toBe('203.0.113.9');
+  });
+
+  it.each([
     ['the only address', { 'x-forwarded-for': '198.51.100.7' }, '198.51.100.7'],
     ['the last address: the one the proxy appended, not what the client wrote', { 'x-forwarded-for': '10.0.0.1, 203.0.113.9' }, '203.0.113.9'],
     ['X-Real-IP when there is no X-Forwarded-For', { 'x-real-ip': '198.51.100.8' }, '198.51.100.8'],

@@ -15,9 +15,11 @@
  * write on a hot row. A row whose `paced_until` has passed means the same as no row; each
  * process deletes such rows now and then (`pruneRateLimits`, at most PRUNE_BATCH per minute).
  */
+import { BlockList, isIPv4, isIPv6 } from 'node:net';
 import { sql, type Kysely } from 'kysely';
 import type { Database } from '@/db/schema';
 import { AppError } from './errors';
+import { PEER_ADDRESS_HEADER } from './http/edge.mjs';
 import { logger } from './log';
 
 export interface Limit {
@@ -28,8 +30,8 @@ export interface Limit {
 
 /**
  * Every limit of the app. "Per address" keys are the e-mail address an attempt is about; "per
- * client" keys are the caller's network address, known only behind a trusted proxy
- * (TRUST_PROXY=true, see `clientAddress`); "overall" keys count everybody together and sit far
+ * client" keys are the caller's network address, when it can be known (a trusted proxy's
+ * X-Forwarded-For, or a public peer address: see `clientAddress`); "overall" keys count everybody together and sit far
  * above ordinary use, as the last resort against a flood from many places. See README,
  * "Rate limits".
  */
@@ -210,18 +212,38 @@ export function accountLimitError(action: AccountAction, result: RateResult): Ap
 }
 
 /**
- * The client's network address, or null when it cannot be known. X-Forwarded-For is written by
- * the client unless a reverse proxy sets it, so it counts only when TRUST_PROXY=true says such a
- * proxy is in front. A proxy appends the address it saw to whatever the client sent, so the
- * last entry is the one to trust. An IPv6 client gets its /64 network, which one subscriber
- * usually holds whole.
+ * The client's network address, or null when it cannot be known.
+ *
+ * Behind a reverse proxy (TRUST_PROXY=true) it is the last entry of X-Forwarded-For, the one the
+ * proxy appended to whatever the client sent. Without one it is the address of the connection
+ * (set by scripts/serve.ts, which replaces any value a client sent), but only when that address
+ * is public: a loopback or private peer is most likely a proxy that TRUST_PROXY does not name,
+ * and counting it as one client would put everybody behind it in one bucket. An IPv6 client gets
+ * its /64 network, which one subscriber usually holds whole.
  */
 export function clientAddress(headers: Headers): string | null {
-  if (process.env.TRUST_PROXY !== 'true') return null;
+  if (process.env.TRUST_PROXY !== 'true') {
+    const peer = headers.get(PEER_ADDRESS_HEADER)?.trim();
+    return peer && isPublicAddress(peer) ? (ipv6Network(peer) ?? peer.toLowerCase()) : null;
+  }
   const forwarded = headers.get('x-forwarded-for');
   const raw = (forwarded ? forwarded.split(',').at(-1) : headers.get('x-real-ip'))?.trim();
   if (!raw) return null;
   return ipv6Network(raw) ?? raw.toLowerCase();
+}
+
+/** Loopback, private, shared (carrier NAT), link-local and unique-local ranges. */
+const NOT_PUBLIC = new BlockList();
+for (const [net, prefix] of [['0.0.0.0', 8], ['10.0.0.0', 8], ['100.64.0.0', 10], ['127.0.0.0', 8], ['169.254.0.0', 16], ['172.16.0.0', 12], ['192.168.0.0', 16]] as const) {
+  NOT_PUBLIC.addSubnet(net, prefix, 'ipv4');
+}
+for (const [net, prefix] of [['::', 127], ['fc00::', 7], ['fe80::', 10]] as const) NOT_PUBLIC.addSubnet(net, prefix, 'ipv6');
+
+function isPublicAddress(address: string): boolean {
+  const mapped = /^::ffff:(\d+\.\d+\.\d+\.\d+)$/i.exec(address)?.[1];
+  const ip = mapped ?? address;
+  const family = isIPv4(ip) ? 'ipv4' : isIPv6(ip) ? 'ipv6' : null;
+  return family !== null && !NOT_PUBLIC.check(ip, family);
 }
 
 /** The /64 prefix of an IPv6 address (an IPv4-mapped one gives its IPv4 address); null for IPv4. */

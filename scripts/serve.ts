@@ -27,7 +27,7 @@ import path from 'node:path';
 import type { Duplex } from 'node:stream';
 import { fileURLToPath } from 'node:url';
 import { ConfigError, parseConfig } from '@/lib/config';
-import { REQUEST_ID_HEADER, SECURITY_HEADERS, UNAVAILABLE_REQUESTS } from '@/lib/http/edge.mjs';
+import { PEER_ADDRESS_HEADER, REQUEST_ID_HEADER, SECURITY_HEADERS, UNAVAILABLE_REQUESTS } from '@/lib/http/edge.mjs';
 import { logger } from '@/lib/log';
 
 const log = logger('web');
@@ -69,21 +69,71 @@ function track(req: IncomingMessage, res: ServerResponse): void {
 }
 
 /** An answer written without Next: the API's JSON error under /api, a short page otherwise. */
-function problemBody(status: number, api: boolean): { type: string; body: string } {
+function problemBody(status: number, api: boolean, method = 'GET'): { type: string; body: string } {
   const message =
     status === 431
       ? 'The request headers are too large. Clear this site’s cookies and try again.'
+      : status === 405
+        ? `This address does not accept ${method} requests.`
       : status === 503
         ? 'The database is not reachable right now. Try again in a moment.'
         : status >= 500
           ? 'Something went wrong on our side. The error has been logged.'
           : 'The request could not be read.';
   if (api) {
-    const code = status === 503 ? 'unavailable' : status >= 500 ? 'internal' : 'bad_request';
+    const code = status === 503 ? 'unavailable' : status >= 500 ? 'internal' : status === 405 ? 'method_not_allowed' : 'bad_request';
     return { type: 'application/json', body: JSON.stringify({ error: { code, message } }) };
   }
   const html = `<!DOCTYPE html><html lang="en"><head><meta charset="utf-8"><title>Unitwise</title></head><body><main><h1>${STATUS_CODES[status]}</h1><p>${message}</p><p><a href="/">Unitwise</a></p></main></body></html>`;
   return { type: 'text/html; charset=utf-8', body: html };
+}
+
+/**
+ * The methods Next routes. Any other (TRACE, CONNECT, PROPFIND, …) makes Next throw before the
+ * proxy runs and answer a bare 500 without the Content-Security-Policy: it is refused here.
+ */
+const NEXT_METHODS = ['GET', 'HEAD', 'OPTIONS', 'POST', 'PUT', 'PATCH', 'DELETE'];
+
+function answerOwn(res: ServerResponse, status: number, api: boolean, method: string, extra: Record<string, string> = {}): void {
+  const { type, body } = problemBody(status, api, method);
+  res.writeHead(status, { 'Content-Type': type, [OWN_ANSWER_CSP[0]]: OWN_ANSWER_CSP[1], ...extra }).end(body);
+}
+
+/**
+ * Next answers a method that an API route does not export with 405 and no body (or a bare
+ * "Method Not Allowed"), without a Content-Type: such an error under /api gets the API's JSON
+ * shape instead. Next sends the status line before it ends the answer, so the body is chosen when
+ * the head is written, and whatever Next writes after it is dropped.
+ */
+function fillBareApiErrors(req: IncomingMessage, res: ServerResponse): void {
+  if (req.method === 'HEAD') return;
+  let own: string | null = null;
+  const { writeHead, write, end } = res as unknown as Record<'writeHead' | 'write' | 'end', (...args: unknown[]) => unknown>;
+  res.writeHead = function (this: ServerResponse, status: number, ...rest: unknown[]) {
+    const given = rest.find((r): r is Record<string, unknown> => typeof r === 'object' && r !== null && !Array.isArray(r));
+    const typed = this.hasHeader('content-type') || Object.keys(given ?? {}).some((k) => k.toLowerCase() === 'content-type');
+    if (status >= 400 && !typed) {
+      const { type, body } = problemBody(status, true, req.method);
+      own = body;
+      this.setHeader('Content-Type', type);
+      this.setHeader('Content-Length', String(Buffer.byteLength(body)));
+      rest = rest.map((r) => (r === given ? Object.fromEntries(Object.entries(r as Record<string, unknown>).filter(([k]) => !/^content-(length|type)$/i.test(k))) : r));
+    }
+    return writeHead.call(this, status, ...rest);
+  } as ServerResponse['writeHead'];
+  res.write = function (this: ServerResponse, ...args: unknown[]) {
+    if (!this.headersSent) this.writeHead(this.statusCode);
+    if (own === null) return write.apply(this, args) as boolean;
+    const callback = args.find((a) => typeof a === 'function') as (() => void) | undefined;
+    if (callback) process.nextTick(callback);
+    return true;
+  } as ServerResponse['write'];
+  res.end = function (this: ServerResponse, ...args: unknown[]) {
+    if (!this.headersSent) this.writeHead(this.statusCode);
+    if (own === null) return end.apply(this, args) as ServerResponse;
+    const callback = args.find((a) => typeof a === 'function');
+    return end.call(this, own, ...(callback ? [callback] : [])) as ServerResponse;
+  } as ServerResponse['end'];
 }
 
 /** Node could not parse the request (bad syntax, headers over its limit): it never reaches Next. */
@@ -115,12 +165,15 @@ async function main(): Promise<void> {
 
   server.on('request', (req: IncomingMessage, res: ServerResponse) => {
     for (const [name, value] of SECURITY_HEADERS) res.setHeader(name, value);
+    const api = /^\/api(?:[/?]|$)/.test(req.url ?? '');
+    if (!NEXT_METHODS.includes(req.method ?? '')) return answerOwn(res, 405, api, req.method ?? '', { Allow: NEXT_METHODS.join(', ') });
+    if (api) fillBareApiErrors(req, res);
+    req.headers[PEER_ADDRESS_HEADER] = req.socket.remoteAddress ?? '';
     track(req, res);
     handle(req, res).catch((err: unknown) => {
       log.error(`request ${req.method} ${req.url} failed`, err);
       if (res.headersSent) return void res.destroy();
-      const { type, body } = problemBody(500, req.url?.startsWith('/api') ?? false);
-      res.writeHead(500, { 'Content-Type': type, [OWN_ANSWER_CSP[0]]: OWN_ANSWER_CSP[1] }).end(body);
+      answerOwn(res, 500, api, req.method ?? '');
     });
   });
   server.on('clientError', answerClientError);

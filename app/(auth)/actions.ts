@@ -35,7 +35,8 @@ export async function signInAction(values: unknown): Promise<ActionState> {
         return { status: 'error', message: 'Too many sign-in attempts. Wait a few minutes, or use a sign-in link.' };
       }
       if (err.type === 'CredentialsSignin') return { status: 'error', message: GENERIC_SIGN_IN };
-      return failure(err.cause ?? err);
+      // next-auth wraps what authorize() threw as `cause.err` (a database outage: 503's message).
+      return failure(err.cause?.err ?? err);
     }
     // next's redirect is thrown as an error too: let it through.
     if ((err as { digest?: string })?.digest?.startsWith('NEXT_REDIRECT')) throw err;

@@ -21,7 +21,7 @@ import { env } from '@/lib/env';
 import { AppError } from '@/lib/errors';
 import { queueMail } from '@/lib/mail/queue';
 import { wakeMailSender } from '@/lib/mail/sender';
-import { alreadyRegisteredMail, resetPasswordMail, verifyEmailMail } from '@/lib/mail/templates';
+import { alreadyRegisteredMail, magicLinkMail, resetPasswordMail, verifyEmailMail } from '@/lib/mail/templates';
 import { accountChecks, accountLimitError, addressKey, consume, consumeAll, LIMITS } from '@/lib/rate-limit';
 import type { SignUpInput } from '@/lib/validation/auth';
 import { safeCallback } from '@/lib/action-state';
@@ -193,6 +193,25 @@ export async function requestPasswordReset(email: string, headers: Headers): Pro
         suppressed: !account,
       });
     });
+  wakeMailSender();
+}
+
+/**
+ * Queues the sign-in link that next-auth built (its `sendVerificationRequest`). next-auth takes its
+ * address from AUTH_URL or, when a deployment left that unset, from the request's Host and
+ * X-Forwarded-Host: the link is moved onto APP_URL, so that nobody who asks for a link for
+ * somebody else can have it point at their own site and read the token when it is clicked.
+ * next-auth stores its token beside this call, not in our transaction: a message whose token was
+ * not stored only fails to sign in.
+ */
+export async function queueSignInLink({ email, url, token }: { email: string; url: string; token: string }, headers: Headers): Promise<void> {
+  const limit = await consumeAll(db(), accountChecks('magic-link', email, headers));
+  if (!limit.allowed) throw accountLimitError('magic-link', limit);
+  const { pathname, search } = new URL(url);
+  const href = appUrl(`${pathname}${search}`);
+  await db()
+    .transaction()
+    .execute((trx) => queueMail(trx, { kind: 'magic-link', idempotencyKey: `magic-link:${hashToken(token)}`, mail: magicLinkMail(email, href) }));
   wakeMailSender();
 }
 

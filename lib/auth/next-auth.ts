@@ -10,13 +10,8 @@ import { insertSession } from '@/db/repositories/users';
 import { logActivity } from '@/db/repositories/activity';
 import { db } from '@/lib/db';
 import { env } from '@/lib/env';
-import { accountChecks, accountLimitError, consumeAll } from '@/lib/rate-limit';
-import { queueMail } from '@/lib/mail/queue';
-import { wakeMailSender } from '@/lib/mail/sender';
-import { magicLinkMail } from '@/lib/mail/templates';
 import { signInSchema } from '@/lib/validation/auth';
-import { checkCredentials, createPersonalWorkspace } from './accounts';
-import { hashToken } from './tokens';
+import { checkCredentials, createPersonalWorkspace, queueSignInLink } from './accounts';
 
 /**
  * next-auth: e-mail + password (Credentials) and e-mail magic links (Nodemailer), both ending in
@@ -65,18 +60,8 @@ export const { handlers, signIn, signOut } = NextAuth(() => {
         server: { host: e.SMTP_HOST, port: e.SMTP_PORT, secure: e.SMTP_SECURE },
         from: e.MAIL_FROM,
         maxAge: 15 * 60,
-        // Queued like every message (lib/mail/queue.ts). next-auth stores its token beside this
-        // call, not in our transaction: a message whose token was not stored only fails to sign in.
-        async sendVerificationRequest({ identifier, url, token, request }) {
-          const limit = await consumeAll(db(), accountChecks('magic-link', identifier, request.headers));
-          if (!limit.allowed) throw accountLimitError('magic-link', limit);
-          await db()
-            .transaction()
-            .execute((trx) =>
-              queueMail(trx, { kind: 'magic-link', idempotencyKey: `magic-link:${hashToken(token)}`, mail: magicLinkMail(identifier, url) }),
-            );
-          wakeMailSender();
-        },
+        // Queued like every message (lib/mail/queue.ts), on APP_URL's address.
+        sendVerificationRequest: ({ identifier, url, token, request }) => queueSignInLink({ email: identifier, url, token }, request.headers),
       }),
     ],
     callbacks: {

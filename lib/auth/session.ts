@@ -18,8 +18,15 @@ export interface Actor {
 /** next-auth's cookie names: the __Secure- one when the app is served over https. */
 export const SESSION_COOKIES = ['__Secure-authjs.session-token', 'authjs.session-token'] as const;
 
+/**
+ * The characters of every token we issue: base64url (lib/auth/next-auth.ts) and next-auth's own
+ * UUIDs. Any other cookie value (NUL, a half surrogate pair, a %-escape that did not decode) names
+ * no session, and must not reach PostgreSQL, which refuses such text with an error.
+ */
+const TOKEN_SHAPE = /^[A-Za-z0-9_-]{1,200}$/;
+
 export async function actorFromSessionToken(token: string | undefined): Promise<Actor | null> {
-  if (!token || token.length > 200) return null;
+  if (!token || !TOKEN_SHAPE.test(token)) return null;
   const user = await findSessionUser(db(), token);
   return user ? { id: user.id, name: user.name, email: user.email } : null;
 }
@@ -29,7 +36,12 @@ function tokenFromCookieHeader(header: string | null): string | undefined {
   const pairs = header.split(';').map((p) => p.trim());
   for (const name of SESSION_COOKIES) {
     const hit = pairs.find((p) => p.startsWith(`${name}=`));
-    if (hit) return decodeURIComponent(hit.slice(name.length + 1));
+    if (!hit) continue;
+    try {
+      return decodeURIComponent(hit.slice(name.length + 1));
+    } catch {
+      return undefined; // a broken %-escape (`%ZZ`) is no session, not a server error
+    }
   }
   return undefined;
 }

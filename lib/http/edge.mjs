@@ -19,5 +19,12 @@ export const SECURITY_HEADERS = Object.freeze([
  */
 export const REQUEST_ID_HEADER = 'x-unitwise-request-id';
 
+/**
+ * scripts/serve.ts puts the address of the connection's peer here (replacing any value a client
+ * sent): without a trusted proxy it is the only thing that tells one client from another, for the
+ * per-client rate limits (lib/rate-limit.ts `clientAddress`).
+ */
+export const PEER_ADDRESS_HEADER = 'x-unitwise-peer';
+
 /** globalThis slot of the `Map` of such request ids to the time reported (created by scripts/serve.ts). */
 export const UNAVAILABLE_REQUESTS = Symbol.for('unitwise.requests-without-database');

@@ -56,6 +56,13 @@ describe('safeCallback', () => {
     ['https://evil.example/', '/studies'],
     ['//evil.example', '/studies'],
     ['/\\evil.example', '/studies'],
+    // A browser drops tabs and line breaks from a Location and reads "\\" as "/".
+    ['/\t/evil.example', '/studies'],
+    ['/\n/evil.example', '/studies'],
+    ['/\r\n/evil.example', '/studies'],
+    ['\t//evil.example', '/studies'],
+    ['/\t\\evil.example', '/studies'],
+    ['/studies?tab=plan#top', '/studies?tab=plan#top'],
     [undefined, '/studies'],
   ])('%j → %j', (input, out) => expect(safeCallback(input)).toBe(out));
 });

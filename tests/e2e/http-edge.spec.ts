@@ -146,3 +146,40 @@ test('the web server listens on loopback only', async () => {
   expect((await raw('/api/health')).status).toBe(200);
   await expect(raw('/api/health', { host: lan })).rejects.toThrow(/ECONNREFUSED/);
 });
+
+test('a method a route does not take is 405 in the app’s shape, never an empty body or a 500', async () => {
+  // Next answered these with 405 and no body, and TRACE with a bare 500 without the CSP.
+  for (const [method, path] of [
+    ['PUT', '/api/v1/calculations'],
+    ['DELETE', '/api/health'],
+    ['PATCH', '/api/v1/studies'],
+    ['DELETE', '/api/v1/openapi.json'],
+    ['TRACE', '/api/v1/calculations'],
+    ['PROPFIND', '/api/v1/studies'],
+  ] as const) {
+    const res = await raw(path, { method });
+    expect(res.status, `${method} ${path}`).toBe(405);
+    expect(res.headers['content-type'], `${method} ${path}`).toContain('application/json');
+    expect(JSON.parse(res.body)).toEqual({ error: { code: 'method_not_allowed', message: `This address does not accept ${method} requests.` } });
+    for (const [name, value] of Object.entries(SECURITY_HEADERS)) expect(res.headers[name], name).toBe(value);
+    expect(res.headers['content-security-policy'], `${method} ${path}`).toBeTruthy();
+  }
+  const page = await raw('/sign-in', { method: 'TRACE' });
+  expect(page.status).toBe(405);
+  expect(page.headers['content-type']).toContain('text/html');
+  expect(page.headers.allow).toBe('GET, HEAD, OPTIONS, POST, PUT, PATCH, DELETE');
+  expect(page.headers['content-security-policy']).toBe("default-src 'none'; frame-ancestors 'none'");
+});
+
+test('a session cookie that cannot be decoded is no session, on pages and the API', async () => {
+  // `%ZZ` threw while decoding (500 from the API); NUL reached PostgreSQL (500 on pages).
+  for (const value of ['%ZZ', '%00', 'a%00b', '%ED%A0%80']) {
+    const cookie = `authjs.session-token=${value}`;
+    const api = await raw('/api/v1/studies', { headers: { cookie } });
+    expect(api.status, cookie).toBe(401);
+    for (const path of ['/sign-in', '/workspaces/new']) {
+      const page = await raw(path, { headers: { cookie } });
+      expect([200, 307], `${path} with ${cookie}`).toContain(page.status);
+    }
+  }
+});

@@ -23,6 +23,7 @@ import * as studyMember from '@/app/api/v1/studies/[studyId]/members/[userId]/ro
 import * as plans from '@/app/api/v1/studies/[studyId]/plans/route';
 import * as workspaces from '@/app/api/v1/workspaces/route';
 import * as wsMember from '@/app/api/v1/workspaces/[workspaceId]/members/[userId]/route';
+import { actorFromSessionToken } from '@/lib/auth/session';
 import { ctx, makeWorld, request, type World } from '../support/fixtures';
 
 // The auth actions import next-auth and next/headers, which need a running Next server; the
@@ -152,5 +153,36 @@ describe('the sign-in, sign-up and reset actions', () => {
     expect(state.status).toBe('error');
     expect(state.fields?.[field]).toEqual([expect.stringMatching(/invisible NUL character|broken character/)]);
     expect(await rowCounts()).toEqual(before);
+  });
+});
+
+describe('a session cookie that names no session', () => {
+  // A broken %-escape made the cookie's decoding throw (500); NUL reached PostgreSQL (400 on the
+  // API, 500 on every page that reads the session). Neither is a session: 401, like a stale one.
+  const values = ['%ZZ', '%', '%00', 'abc%00def', '%ED%A0%80', 'a b', `${'a'.repeat(201)}`];
+
+  it.each(values)('authjs.session-token=%s → 401 from the API', async (value) => {
+    for (const name of ['authjs.session-token', '__Secure-authjs.session-token']) {
+      const r = await call(studies.GET, 'GET', {}, { headers: { cookie: `${name}=${value}` } });
+      expect(r.status).toBe(401);
+      expect(r.body.error.code).toBe('unauthorized');
+    }
+  });
+
+  it.each(['\u0000', 'abc\u0000', '\uD800', 'a;b', ''])('the decoded token %j names nobody, without asking PostgreSQL', async (token) => {
+    await expect(actorFromSessionToken(token)).resolves.toBeNull();
+  });
+});
+
+describe('sign-in while the database is down', () => {
+  it('says the database is not reachable, not "something went wrong"', async () => {
+    const { signIn } = await import('@/lib/auth/next-auth');
+    const { AuthError } = await import('next-auth');
+    // What next-auth throws when authorize() fails: a CallbackRouteError whose cause is { err, provider }.
+    const refused = Object.assign(new Error('connect ECONNREFUSED 127.0.0.1:5432'), { code: 'ECONNREFUSED', syscall: 'connect' });
+    const wrapped = Object.assign(new AuthError(), { type: 'CallbackRouteError', cause: { err: refused, provider: 'credentials' } });
+    vi.mocked(signIn).mockRejectedValueOnce(wrapped);
+    const state = await actions.signInAction({ email: 'ada@example.org', password: 'correct horse battery staple' });
+    expect(state).toMatchObject({ status: 'error', message: 'The database is not reachable right now. Try again in a moment.' });
   });
 });

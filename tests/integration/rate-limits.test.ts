@@ -74,6 +74,28 @@ describe.each([
   });
 });
 
+describe('without a proxy, one client cannot use up the limit everybody shares', () => {
+  afterEach(() => {
+    delete process.env.RATE_LIMIT_SCALE;
+  });
+
+  it('a flood of reset requests and sign-ups from one connecting address is refused for it alone', { timeout: 60_000 }, async () => {
+    // Scaled so that the shared limits are small enough to reach here: reset 50 for everybody,
+    // 1 per client; sign-up 25 for everybody, 1 per client.
+    process.env.RATE_LIMIT_SCALE = '0.05';
+    await db().deleteFrom('rate_limits').execute();
+    const ada = await genuineUser('ada');
+    // What scripts/serve.ts puts on a request that arrives straight from the internet.
+    const attacker = new Headers({ 'x-unitwise-peer': '198.51.100.66' });
+    const someoneElse = new Headers({ 'x-unitwise-peer': '203.0.113.20' });
+    for (let i = 0; i < 50; i++) await attempt(() => requestPasswordReset(`made.up.${i}@test.example`, attacker));
+    for (let i = 0; i < 25; i++) await attempt(() => signUp({ name: 'Bot', email: `bot.${i}@test.example`, password: PASSWORD }, attacker));
+    await expect(requestPasswordReset(ada.email, someoneElse)).resolves.toBeUndefined();
+    await expect(signUp({ name: 'Lena', email: 'lena.flood@test.example', password: PASSWORD }, someoneElse)).resolves.toBeUndefined();
+    await drainMail();
+  });
+});
+
 describe('the attacked account is slowed', () => {
   it('after 10 attempts on one address, password sign-in for it waits one spacing (90 s), even with the right password; other accounts and its reset are unaffected', async () => {
     const ada = await genuineUser('ada');
