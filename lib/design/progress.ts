@@ -2,14 +2,15 @@
  * Which wizard steps are complete: enough of each part for the checks and the calculations to
  * use it. "started" means something is filled in but not enough yet.
  */
-import type { Design, DesignPart } from './schema';
+import { designFacts } from './facts';
+import type { Design, DesignPart, Level } from './schema';
 
 export type StepState = 'complete' | 'started' | 'empty';
 
 export function stepStates(d: Design): Record<DesignPart, StepState> {
   const o = d.outcome;
   const outcome: StepState = o.name && o.type ? 'complete' : o.name || o.type ? 'started' : 'empty';
-  const structure: StepState = d.structure.levels.length > 0 ? 'complete' : 'empty';
+  const structure: StepState = designFacts(d).levels.length > 0 ? 'complete' : 'empty';
   const a = d.assignment;
   const assignmentDone = a.kind && a.levelId && (a.kind === 'continuous' || a.arms.length >= 2);
   const assignment: StepState = assignmentDone ? 'complete' : a.kind || a.levelId || a.arms.length ? 'started' : 'empty';
@@ -23,7 +24,7 @@ export function stepStates(d: Design): Record<DesignPart, StepState> {
   return { outcome, structure, assignment, occasions, assumptions, analysis };
 }
 
-/** Levels that carry an ICC: grouping levels, and units measured repeatedly. */
-export function iccLevels(d: Design) {
-  return d.structure.levels.filter((l, i) => l.kind === 'grouping' || (l.kind === 'independent' && d.structure.levels[i + 1]?.kind === 'repeated'));
+/** Levels whose ICC the design needs (lib/design/facts.ts): every level above the bottom that groups observations. */
+export function iccLevels(d: Design): Level[] {
+  return designFacts(d).iccLevels.map((l) => l.level);
 }

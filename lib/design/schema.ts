@@ -2,8 +2,8 @@
  * The design model: one zod schema family shared by the wizard's forms, the API and the stored
  * revisions. A design is saved while it is being written, so every part may be incomplete:
  * fields are optional where a half-filled wizard needs them to be, and `lib/design/progress.ts`
- * says which steps are complete. The rules module (lib/rules) reads this shape and skips what is
- * not filled in yet.
+ * says which steps are complete. lib/design/facts.ts is the one reader that interprets it (counts,
+ * units, ICCs, occasions, the outcome); the checks, the Plan and the stress test ask it.
  *
  * Bounds keep hostile input harmless (at most 8 levels, counts up to 1,000,000, texts limited);
  * the error messages say what to fix.
@@ -80,8 +80,15 @@ export const levelSchema = z.object({
   name: name('Level name', 60),
   kind: z.enum(LEVEL_KINDS),
   groupingType: z.enum(GROUPING_TYPES).optional(),
-  /** Planned number per parent (per arm for the top level), or in total when `countIsTotal`. */
+  /**
+   * Planned number. The top level's count is the number in the whole study, over all arms (split
+   * between the arms by their allocation; `countIsTotal` changes nothing there). A lower level's
+   * count is the number per unit of the level above, or the number in the whole study when
+   * `countIsTotal` (then the number per parent is that total divided by the parent level's total).
+   * lib/design/facts.ts reads it; nothing else does.
+   */
   count: z.number({ error: 'Count must be a number.' }).int('Count must be a whole number.').min(1, 'Count is at least 1.').max(1_000_000, 'Count is at most 1,000,000.'),
+  /** The count of a lower level is the number in the whole study rather than per parent. */
   countIsTotal: z.boolean().default(false),
   /** Coefficient of variation of the count between parents (0 when all parents have the same number). */
   countCv: z.number().min(0, 'CV is at least 0.').max(3, 'A CV above 3 is not plausible.').default(0),

@@ -15,7 +15,7 @@
  * - recruitment for the same analysable number, N/(1 − a) (SPIRIT 2013 item 14 asks for it).
  */
 import { DIGGLE_2002, LIANG_ZEGER_1986, SPIRIT_2013 } from './citations';
-import { designFacts } from './facts';
+import { designFacts } from '@/lib/design/facts';
 import { count, noun, num, numbers, pct } from './text';
 import type { Rule } from './types';
 

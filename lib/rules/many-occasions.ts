@@ -11,7 +11,7 @@
  *   (or not at all): splines or polynomial terms, and a random slope for time (Diggle et al. 2002).
  */
 import { DIGGLE_2002 } from './citations';
-import { designFacts } from './facts';
+import { designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { cap, dec, noun, num, numbers } from './text';
 import type { Finding, Rule } from './types';

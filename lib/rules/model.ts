@@ -11,7 +11,8 @@
  * below about 40 experimental units, Satterthwaite above, between-within df for a GLMM.
  */
 import type { Analysis, Design } from '@/lib/design/schema';
-import { designFacts, FEW_CLUSTERS, type DesignFacts, type LevelInfo } from './facts';
+import { designFacts, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
+import { FEW_CLUSTERS } from './clustering';
 import { identifier } from './text';
 
 export interface ModelPlan {

@@ -14,7 +14,7 @@
  */
 import { designEffect } from '@/lib/stats/design-effect';
 import { HURLBERT_1984, KISH_1965, LAZIC_2010 } from './citations';
-import { accountsFor, designFacts, iccOf } from './facts';
+import { accountsFor, designFacts, iccOf } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { range } from './phrases';
 import { cap, count, dec, list, noun, num, numbers } from './text';

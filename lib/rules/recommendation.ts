@@ -24,7 +24,7 @@ import {
   SENN_2002,
   uniqueCitations,
 } from './citations';
-import { designFacts, unitsPerArm } from './facts';
+import { designFacts, unitsPerArm } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { assignedVerb, outcomeName, treatmentName } from './phrases';
 import { cap, count, list, noun, num, pct } from './text';

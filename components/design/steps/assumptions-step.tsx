@@ -4,6 +4,7 @@ import { useMemo } from 'react';
 import type { UseFormRegister } from 'react-hook-form';
 import { z } from 'zod';
 import { SelectField, TextField } from '@/components/ui/field';
+import { designFacts } from '@/lib/design/facts';
 import { iccLevels } from '@/lib/design/progress';
 import { assumptionsSchema, type Assumptions, type Design } from '@/lib/design/schema';
 import { asNumber, errorAt, useStepForm } from '../step-form';
@@ -59,7 +60,7 @@ export function AssumptionsStep({ value, design, onValid, onDraft, disabled }: S
   const e = formState.errors as Record<string, unknown>;
   const unit = design.outcome.unit ? ` (${design.outcome.unit})` : '';
   const levels = iccLevels(design);
-  const repeated = design.occasions.list.length > 1 || design.structure.levels.some((l) => l.kind === 'repeated');
+  const repeated = designFacts(design).measuredOverTime;
 
   return (
     <fieldset disabled={disabled} className="space-y-5">
