@@ -67,7 +67,7 @@ export const RESULT_COLUMNS = [
   { key: 'bias', label: 'Bias', rate: false },
   { key: 'seRatio', label: 'SE ratio', rate: false },
   { key: 'ciWidth', label: 'CI width', rate: false },
-  { key: 'nonConverged', label: 'Non-converged', rate: false },
+  { key: 'nonConverged', label: 'Failed fits', rate: false },
 ] as const;
 export type ResultColumn = (typeof RESULT_COLUMNS)[number]['key'];
 
@@ -88,6 +88,13 @@ export function formatMetric(m: MetricValue | undefined, rate: boolean): string 
   const value = rate ? formatRate(m.value) : formatPlain(m.value);
   if (m.mcse === null || !Number.isFinite(m.mcse)) return value;
   return `${value} ± ${rate ? formatRate(m.mcse) : formatPlain(m.mcse)}`;
+}
+
+/** "12 of 2,000 (0.6%)": failed fits against the fits asked for (two per replicate: with and without the effect). */
+export function formatFailedFits(m: MetricValue | undefined, replicates: number): string {
+  if (!m || m.value === null || !Number.isFinite(m.value)) return '—';
+  const asked = 2 * replicates;
+  return `${m.value.toLocaleString('en-GB')} of ${asked.toLocaleString('en-GB')} (${formatRate(m.value / asked)})`;
 }
 
 /** Monte Carlo SE of an estimated rate p over R replicates, √(p(1 − p)/R) (Morris, White & Crowther 2019, Stat Med 38:2074). */
