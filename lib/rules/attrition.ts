@@ -26,11 +26,10 @@ export const attrition: Rule = {
   title: 'Attrition over occasions',
   severity: 'warning',
   check(design) {
-    const list = [...design.occasions.list].sort((x, y) => x.time - y.time);
-    if (list.length === 0) return [];
-    const a = Math.max(...list.map((o) => o.attrition));
-    if (!(a > 0)) return [];
     const f = designFacts(design);
+    const list = f.occasions;
+    const a = f.maxAttrition;
+    if (!(a > 0)) return [];
     const unit = [...f.levels].reverse().find((l) => l.level.kind !== 'repeated' && l.level.kind !== 'replicate');
     const last = list.find((o) => o.attrition === a)!;
     const several = list.length >= 2 && (f.subject !== undefined || list.filter((o) => !o.baseline).length >= 1);

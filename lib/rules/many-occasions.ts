@@ -24,7 +24,7 @@ export const manyOccasions: Rule = {
   severity: 'advice',
   check(design) {
     const f = designFacts(design);
-    const times = [...design.occasions.list].map((o) => o.time).sort((a, b) => a - b);
+    const times = f.occasions.map((o) => o.time);
     const T = times.length;
     const gaps = times.slice(1).map((t, i) => t - times[i]!);
     const unequal = gaps.length >= 2 && gaps.some((g) => Math.abs(g - gaps[0]!) > 1e-9 * Math.max(1, Math.abs(gaps[0]!)));

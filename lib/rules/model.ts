@@ -103,8 +103,8 @@ function buildPlan(f: DesignFacts): ModelPlan {
   const outcome = identifier(d.outcome.name, 'y');
   const response = logScale ? `log(${outcome})` : outcome;
   const treatment = treatmentTerm(d);
-  const crossover = d.assignment.crossover.enabled;
-  const occasions = d.occasions.list.length;
+  const crossover = f.crossover !== undefined;
+  const occasions = f.occasions.length;
   const hasBaseline = f.baselines.length > 0 && f.followUps.length > 0;
   const repeatedOverTime = f.subject !== undefined && f.followUps.length >= 2 && !crossover;
   const trajectory = repeatedOverTime && d.occasions.trajectoryOfInterest;

@@ -39,7 +39,7 @@
  * one sentence per feature of the design the stress test does not simulate yet, with what the
  * team can do instead.
  */
-import { designFacts, iccOf, unitsByArm, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
+import { designFacts, iccOf, sizeCv, unitsByArm, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
 import type { Design } from '@/lib/design/schema';
 import type { AnalysisName } from '@/lib/models/types';
 import type { SimulationSpecInput } from '@/lib/validation/simulations';
@@ -189,7 +189,7 @@ export function specFromDesign(design: Design): SpecFromDesign {
     design: {
       arms: 2,
       ...(clustered
-        ? { clustersPerArm: Math.max(2, Math.min(...byArm)), clusterSize: Math.max(1, Math.round(units.perParent)), clusterSizeCv: units.level.countCv }
+        ? { clustersPerArm: Math.max(2, Math.min(...byArm)), clusterSize: Math.max(1, Math.round(units.perParent)), clusterSizeCv: sizeCv(f, A.index, units.index) }
         : { unitsPerArm: perArm }),
       ...(occasionCount !== undefined ? { occasions: occasionCount, ...(times ? { times } : {}) } : {}),
     },
