@@ -10,6 +10,7 @@ import { planFromDesign } from '@/lib/plan/from-design';
 import { runChecks } from '@/lib/rules/registry';
 import { specFromDesign } from '@/lib/sim/from-design';
 import { designFacts, smallestArm, unitsByArm, unitsPerArm, type DesignFacts } from './facts';
+import { iccLevels } from './progress';
 import { designSchema, type Design, type DesignInput } from './schema';
 
 const parse = (d: DesignInput): Design => designSchema.parse(d);
@@ -260,6 +261,13 @@ describe('the facts of each shape', () => {
     expect(f.withinUnit).toBe(within);
     expect(f.subject?.level.id).toBe(subject);
     expect(f.iccLevels.map((l) => l.level.id)).toEqual(iccLevels);
+  });
+
+  it('the Assumptions step asks for the ICC of every level the Plan needs one for (the greenhouse plants too)', () => {
+    expect(iccLevels(parse(GREENHOUSE_DESIGN)).map((l) => l.id)).toEqual(['tray', 'plant']);
+    expect(planFromDesign(parse({ ...GREENHOUSE_DESIGN, assumptions: { ...GREENHOUSE_DESIGN.assumptions, iccs: [GREENHOUSE_DESIGN.assumptions!.iccs![0]!] } })).missing).toEqual([
+      expect.objectContaining({ input: 'icc:plant', step: 'assumptions' }),
+    ]);
   });
 
   it('reads the outcome family and its parameters', () => {
