@@ -65,12 +65,14 @@ export default defineConfig({
       gracefulShutdown: { signal: 'SIGTERM', timeout: 3_000 },
     },
     {
-      name: 'next',
-      command: 'node_modules/.bin/next start -p 3100',
+      // The web server as deployed (`npm run serve`), on loopback like `npm start`.
+      name: 'web',
+      command: 'node --import tsx scripts/serve.ts --port 3100',
       url: `${APP_URL}/api/health`,
       // One browser plays many people from one address: the specs mark each person with their own
-      // X-Forwarded-For (trusted here as if behind a proxy), and the limits are scaled up.
-      env: { NEXT_DIST_DIR: '.next-test', NODE_ENV: 'production', TRUST_PROXY: 'true', RATE_LIMIT_SCALE: '20' },
+      // X-Forwarded-For (trusted here as if behind a proxy), and the limits are scaled up. The
+      // outbox page is on, as under `npm start`, for requests without that header.
+      env: { NEXT_DIST_DIR: '.next-test', NODE_ENV: 'production', TRUST_PROXY: 'true', RATE_LIMIT_SCALE: '20', DEV_OUTBOX: 'true' },
       reuseExistingServer: false,
       timeout: 120_000,
       gracefulShutdown: { signal: 'SIGTERM', timeout: 5_000 },

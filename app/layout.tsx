@@ -19,6 +19,10 @@ export const metadata: Metadata = {
 
 export const viewport: Viewport = { width: 'device-width', initialScale: 1 };
 
+// Every page is rendered per request: the Content-Security-Policy (proxy.ts) allows only scripts
+// carrying that answer's nonce, and a page rendered at build time would carry none.
+export const dynamic = 'force-dynamic';
+
 export default function RootLayout({ children }: { children: ReactNode }) {
   return (
     <html lang="en" className={inter.variable}>

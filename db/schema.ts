@@ -106,6 +106,8 @@ export interface InvitationTable {
   accepted_by: string | null;
   revoked_at: NullableTimestamp;
   created_at: Generated<Date>;
+  /** The message that carries the current link (lib/mail/queue.ts). */
+  mail_id: Generated<string | null>;
 }
 
 export interface StudyTable {
@@ -167,10 +169,32 @@ export interface ActivityTable {
   created_at: Generated<Date>;
 }
 
+/** A paced allowance (lib/rate-limit.ts): attempts so far, spaced window/limit apart, reach `paced_until`. */
 export interface RateLimitTable {
   key: string;
-  window_start: Timestamp;
-  count: number;
+  paced_until: Timestamp;
+  window_seconds: number;
+}
+
+export const MAIL_STATUSES = ['queued', 'sending', 'sent', 'retrying', 'failed', 'suppressed'] as const;
+export type MailStatus = (typeof MAIL_STATUSES)[number];
+
+/** One outgoing message (lib/mail/queue.ts); text and html are erased once it is sent. */
+export interface MailTable {
+  id: Generated<string>;
+  idempotency_key: string;
+  kind: string;
+  recipient: string;
+  subject: string;
+  text: string | null;
+  html: string | null;
+  status: Generated<MailStatus>;
+  attempts: Generated<number>;
+  last_error: string | null;
+  claimed_at: NullableTimestamp;
+  sent_at: NullableTimestamp;
+  created_at: Generated<Date>;
+  updated_at: Generated<Date>;
 }
 
 export const SIMULATION_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
@@ -252,6 +276,7 @@ export interface Database {
   study_revisions: StudyRevisionTable;
   activity_log: ActivityTable;
   rate_limits: RateLimitTable;
+  mail: MailTable;
   finding_notes: FindingNoteTable;
   plan_results: PlanResultTable;
   simulations: SimulationTable;

@@ -1,10 +1,14 @@
 import 'server-only';
 import { readdir, readFile } from 'node:fs/promises';
+import { isIP } from 'node:net';
 import path from 'node:path';
+import { env } from '@/lib/env';
 
 /**
  * Messages caught by the local mail sink (scripts/mail-sink.mjs), one JSON file each in
- * OUTBOX_DIR. Only development and test servers set OUTBOX_DIR; without it there is no outbox.
+ * OUTBOX_DIR, shown at /dev/outbox. The page holds every password-reset and sign-in link the app
+ * sends, so it is a way into every account: it exists only on a developer's machine, and only for
+ * requests made on that machine.
  */
 export interface OutboxMessage {
   id: string;
@@ -16,11 +20,42 @@ export interface OutboxMessage {
   html?: string;
 }
 
+const LOOPBACK_NAMES = new Set(['localhost', '127.0.0.1', '::1', '[::1]']);
+
+function isLoopbackAddress(address: string): boolean {
+  const a = address.trim().toLowerCase().replace(/^::ffff:(?=\d+\.)/, '');
+  if (isIP(a) === 4) return a.startsWith('127.');
+  return a === '::1';
+}
+
+/**
+ * The outbox folder while the local sink is in use, else undefined. Three conditions, each set by
+ * `npm start` and by none of a deployment's settings: DEV_OUTBOX (npm start passes it only while
+ * the server listens on loopback), OUTBOX_DIR, and mail going to an SMTP server on this machine
+ * (so a deployment that sends real mail never lists it here).
+ */
 export function outboxDir(): string | undefined {
-  // Served only when mail goes to a sink on this machine, so a misconfigured deployment that
-  // sends real mail never exposes it here.
-  const local = ['127.0.0.1', 'localhost', '::1'].includes(process.env.SMTP_HOST ?? '');
-  return local ? process.env.OUTBOX_DIR || undefined : undefined;
+  const e = env();
+  if (!e.DEV_OUTBOX || !e.OUTBOX_DIR) return undefined;
+  return LOOPBACK_NAMES.has(e.SMTP_HOST) ? e.OUTBOX_DIR : undefined;
+}
+
+/**
+ * True when a request comes from this machine, as far as a page can tell. Next gives a page no
+ * socket, only headers: it fills X-Forwarded-For with the peer's address when the client sent
+ * none, and keeps a client's value otherwise. So the request must name a loopback host (which
+ * also defeats DNS rebinding), carry exactly one loopback address there, and no other sign of a
+ * proxy in between. A client can still claim loopback in X-Forwarded-For; that is why DEV_OUTBOX
+ * is only given to a server that listens on loopback, where every peer is on this machine.
+ */
+export function isLocalRequest(headers: Headers): boolean {
+  const host = headers.get('host')?.toLowerCase().replace(/:\d+$/, '');
+  if (!host || !LOOPBACK_NAMES.has(host)) return false;
+  const forwardedHost = headers.get('x-forwarded-host');
+  if (forwardedHost && forwardedHost.toLowerCase() !== headers.get('host')?.toLowerCase()) return false;
+  if (headers.has('forwarded') || headers.has('x-real-ip')) return false;
+  const peers = (headers.get('x-forwarded-for') ?? '').split(',').filter((p) => p.trim());
+  return peers.length === 1 && isLoopbackAddress(peers[0]!);
 }
 
 export async function readOutbox(limit = 100): Promise<OutboxMessage[]> {
@@ -28,7 +63,7 @@ export async function readOutbox(limit = 100): Promise<OutboxMessage[]> {
   if (!dir) return [];
   let files: string[];
   try {
-    files = (await readdir(dir)).filter((f) => f.endsWith('.json'));
+    files = (await readdir(/* turbopackIgnore: true */ dir)).filter((f) => f.endsWith('.json'));
   } catch {
     return [];
   }
@@ -36,7 +71,7 @@ export async function readOutbox(limit = 100): Promise<OutboxMessage[]> {
   const out: OutboxMessage[] = [];
   for (const f of files.slice(0, limit)) {
     try {
-      out.push(JSON.parse(await readFile(path.join(dir, f), 'utf8')) as OutboxMessage);
+      out.push(JSON.parse(await readFile(path.join(/* turbopackIgnore: true */ dir, f), 'utf8')) as OutboxMessage);
     } catch {
       // A file being written is skipped; the sink writes to a temporary name first.
     }

@@ -1,6 +1,6 @@
 /**
  * `npm start`: run Unitwise locally with everything it needs, from a fresh clone.
- * (`npm run dev` = `node scripts/start.mjs --dev`: `next dev` instead of build + `next start`.)
+ * (`npm run dev` = `node scripts/start.mjs --dev`: Next's development mode instead of a build.)
  *
  *  1. npm ci when node_modules is missing or older than package-lock.json
  *  2. development secrets in .env.local (generated once; existing values are kept)
@@ -8,7 +8,10 @@
  *  4. the mail sink on 127.0.0.1:2525, storing mail in .data/outbox
  *  5. migrations (db/migrate.ts), then the demo seed (db/seed.ts, idempotent)
  *  6. `next build` when the sources changed since the last build (see lib/build.mjs)
- *  7. `next start -p 3000`, and a banner with the URL and the demo accounts once /api/health answers
+ *  7. the web server (scripts/serve.ts, as `npm run serve`) on 127.0.0.1:3000, and a banner with the
+ *     URL and the demo accounts once /api/health answers. Only this machine can reach it:
+ *     `--host 0.0.0.0` (or LISTEN_HOST) opens it to the network, and then the outbox page is off,
+ *     because it lists every password-reset link the app sends (lib/outbox.ts)
  *  8. a stress-test worker process beside the web server (lib/jobs/worker-main.ts, the same as
  *     `npm run worker`), restarted when it dies; `--no-worker` leaves it out (when workers run on
  *     other machines). A separate process rather than next's instrumentation hook: simulations
@@ -26,6 +29,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { ensureDeps } from './lib/deps.mjs';
 import { ensureLocalSecrets } from './lib/env.mjs';
+import { listenPlan } from './lib/listen.mjs';
 import { UserError, assertPortFree, bin, killTransient, run, spawnService, waitForUrl } from './lib/proc.mjs';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -36,6 +40,7 @@ const PORT = 3000;
 const SMTP_PORT = 2525;
 const PG_PORT = 54320;
 const APP_URL = `http://localhost:${PORT}`;
+const listen = listenPlan(process.argv, process.env, PORT);
 const log = (msg) => console.log(`[start] ${msg}`);
 
 // ---- shutdown: undo what we started, newest first -------------------------------------------
@@ -108,6 +113,9 @@ async function main() {
     SMTP_SECURE: pick('SMTP_SECURE', 'false'),
     MAIL_FROM: pick('MAIL_FROM', 'Unitwise <no-reply@unitwise.local>'),
     OUTBOX_DIR: pick('OUTBOX_DIR', outbox),
+    DEV_OUTBOX: String(listen.outbox),
+    LISTEN_HOST: listen.host,
+    PORT: String(PORT),
     DEMO_PASSWORD: pick('DEMO_PASSWORD'),
     NEXT_TELEMETRY_DISABLED: '1',
   };
@@ -126,9 +134,9 @@ async function main() {
     if (code !== 0) throw new UserError(`next build failed (exit ${code})`);
   }
 
-  const server = dev
-    ? spawnService(bin(root, 'next'), ['dev', '-p', String(PORT)], { env, cwd: root })
-    : spawnService(bin(root, 'next'), ['start', '-p', String(PORT)], { env: { ...env, NODE_ENV: 'production' }, cwd: root });
+  if (!listen.outbox) log(`listening on ${listen.host}: reachable from the network, so the outbox page is off (mail is in .data/outbox); set APP_URL to the address others use`);
+  const serve = [process.execPath, ['--import', 'tsx', 'scripts/serve.ts', ...(dev ? ['--dev'] : [])]];
+  const server = spawnService(serve[0], serve[1], { env: { ...env, NODE_ENV: dev ? 'development' : 'production' }, cwd: root });
   cleanups.push(() => server.stop());
   server.exited.then((code) => {
     if (stopping) return;
@@ -138,10 +146,10 @@ async function main() {
 
   if (withWorker) superviseWorker(env);
 
-  const health = await waitForUrl(`${APP_URL}/api/health`, { timeoutMs: dev ? 300_000 : 120_000, abort: server.exited });
+  const health = await waitForUrl(`${listen.origin}/api/health`, { timeoutMs: dev ? 300_000 : 120_000, abort: server.exited });
   if (stopping || health.aborted) return;
-  if (!health.ok) log(`warning: ${APP_URL}/api/health has not answered 200 (last status ${health.status || 'none'})`);
-  printBanner(env.DEMO_PASSWORD);
+  if (!health.ok) log(`warning: ${listen.origin}/api/health has not answered 200 (last status ${health.status || 'none'})`);
+  printBanner(env.DEMO_PASSWORD, env.APP_URL);
 }
 
 /**
@@ -170,14 +178,16 @@ function superviseWorker(env) {
   launch();
 }
 
-function printBanner(demoPassword) {
+function printBanner(demoPassword, appUrl) {
   let accounts = [];
   try { accounts = JSON.parse(fs.readFileSync(path.join(root, 'db/demo/accounts.json'), 'utf8')); } catch { /* none yet */ }
   const width = Math.max(0, ...accounts.map((a) => a.email.length));
   const lines = [
     '',
-    `  Unitwise is running at ${APP_URL}${dev ? '  (development mode)' : ''}`,
-    `  Mail sent by the app:   ${APP_URL}/dev/outbox`,
+    `  Unitwise is running at ${appUrl}${dev ? '  (development mode)' : ''}`,
+    listen.outbox
+      ? `  Mail sent by the app:   ${appUrl}/dev/outbox  (this machine only)`
+      : `  Mail sent by the app:   .data/outbox (the outbox page is off while listening on ${listen.host})`,
   ];
   if (accounts.length) {
     lines.push('', `  Demo accounts (password for all: ${demoPassword}):`);

@@ -32,7 +32,7 @@ export async function signInAction(values: unknown): Promise<ActionState> {
         return { status: 'error', message: 'Confirm your e-mail address first. We have sent you a new confirmation link.' };
       }
       if (code === 'rate_limited') {
-        return { status: 'error', message: 'Too many sign-in attempts. Wait 15 minutes, or use a sign-in link.' };
+        return { status: 'error', message: 'Too many sign-in attempts. Wait a few minutes, or use a sign-in link.' };
       }
       if (err.type === 'CredentialsSignin') return { status: 'error', message: GENERIC_SIGN_IN };
       return failure(err.cause ?? err);

@@ -56,7 +56,9 @@ export function InviteForm({
       </div>
       <p className="text-sm text-muted">{roles.find((r) => r.value === role)?.description}</p>
       <div aria-live="polite">
-        {sentTo && invite.isSuccess && <Alert live tone="success">Invitation sent to {sentTo}. The link works once, for 7 days.</Alert>}
+        {sentTo && invite.isSuccess && <Alert live tone="success">
+            Invited {sentTo}. The e-mail with the link is on its way; the list shows when it has gone. The link works once, for 7 days.
+          </Alert>}
         {invite.isError && <Alert live tone="error">{(invite.error as Error).message}</Alert>}
       </div>
       <Button type="submit" disabled={invite.isPending}>

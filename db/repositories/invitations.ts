@@ -1,5 +1,5 @@
 import type { Kysely, Transaction } from 'kysely';
-import type { Database, StudyRole, WorkspaceRole } from '../schema';
+import type { Database, MailStatus, StudyRole, WorkspaceRole } from '../schema';
 
 type Db = Kysely<Database> | Transaction<Database>;
 
@@ -17,6 +17,8 @@ export interface Invitation {
   acceptedAt: Date | null;
   revokedAt: Date | null;
   createdAt: Date;
+  /** Where the message with the current link is (lib/mail/queue.ts); null without one. */
+  mailStatus: MailStatus | null;
 }
 
 export type InvitationState = 'pending' | 'accepted' | 'revoked' | 'expired';
@@ -34,6 +36,7 @@ function baseQuery(db: Db) {
     .innerJoin('workspaces', 'workspaces.id', 'invitations.workspace_id')
     .leftJoin('studies', 'studies.id', 'invitations.study_id')
     .leftJoin('User as inviter', 'inviter.id', 'invitations.invited_by')
+    .leftJoin('mail', 'mail.id', 'invitations.mail_id')
     .select([
       'invitations.id',
       'invitations.workspace_id',
@@ -48,6 +51,7 @@ function baseQuery(db: Db) {
       'invitations.accepted_at',
       'invitations.revoked_at',
       'invitations.created_at',
+      'mail.status as mail_status',
     ]);
 }
 
@@ -68,6 +72,7 @@ function rowToInvitation(r: Row): Invitation {
     acceptedAt: r.accepted_at,
     revokedAt: r.revoked_at,
     createdAt: r.created_at,
+    mailStatus: r.mail_status,
   };
 }
 
@@ -130,6 +135,27 @@ export async function claimInvitation(db: Db, hash: string, userId: string): Pro
     .returning('id')
     .executeTakeFirst();
   return row?.id;
+}
+
+/** Points a pending invitation at the message that carries its link. */
+export async function setInvitationMail(db: Db, id: string, mailId: string): Promise<void> {
+  await db.updateTable('invitations').set({ mail_id: mailId }).where('id', '=', id).execute();
+}
+
+/**
+ * Gives a pending invitation a new link (the old one stops working) and a new expiry, for
+ * sending it again. Returns false when it is no longer pending.
+ */
+export async function renewInvitationLink(db: Db, id: string, tokenHash: string, expiresAt: Date): Promise<boolean> {
+  const r = await db
+    .updateTable('invitations')
+    .set({ token_hash: tokenHash, expires_at: expiresAt })
+    .where('id', '=', id)
+    .where('accepted_at', 'is', null)
+    .where('revoked_at', 'is', null)
+    .where('expires_at', '>', new Date())
+    .executeTakeFirst();
+  return Number(r.numUpdatedRows) > 0;
 }
 
 export async function revokeInvitationRow(db: Db, id: string): Promise<boolean> {

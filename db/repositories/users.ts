@@ -64,6 +64,28 @@ export async function insertEmailToken(
 }
 
 /**
+ * Inserts a token for the account with this address, if there is one, in one statement: the
+ * same work whether the address has an account or not. Returns the account's id when it does.
+ */
+export async function insertEmailTokenForAddress(
+  db: Db,
+  token: { email: string; purpose: EmailTokenPurpose; hash: string; expiresAt: Date },
+): Promise<{ userId: string } | undefined> {
+  const row = await db
+    .insertInto('email_tokens')
+    .columns(['user_id', 'purpose', 'token_hash', 'expires_at'])
+    .expression((eb) =>
+      eb
+        .selectFrom('User')
+        .select(['User.id', eb.val(token.purpose).as('purpose'), eb.val(token.hash).as('token_hash'), eb.val(token.expiresAt).as('expires_at')])
+        .where('User.email', '=', token.email.toLowerCase()),
+    )
+    .returning('user_id')
+    .executeTakeFirst();
+  return row ? { userId: row.user_id } : undefined;
+}
+
+/**
  * Marks a token used and returns its user, in one statement, so two clicks on the same link
  * cannot both succeed. Returns undefined for unknown, used or expired tokens.
  */

@@ -7,7 +7,7 @@ import type { Invitation, InvitationState } from '@/db/repositories/invitations'
 import type { StudyMember, StudyWithRole } from '@/db/repositories/studies';
 import type { WorkspaceMember } from '@/db/repositories/workspaces';
 import type { ActivityItem } from '@/db/repositories/activity';
-import { STUDY_ROLES, WORKSPACE_ROLES } from '@/db/schema';
+import { STUDY_ROLES, WORKSPACE_ROLES, type MailStatus } from '@/db/schema';
 import { designSchema } from '@/lib/design/schema';
 
 export function studyDto(s: StudyWithRole) {
@@ -30,6 +30,16 @@ export function memberDto(m: StudyMember | WorkspaceMember) {
   return { userId: m.userId, name: m.name, email: m.email, role: m.role, since: m.since.toISOString() };
 }
 
+/** How far the message with an invitation's link got, in the words the list shows. */
+export const INVITATION_DELIVERIES = ['sending', 'sent', 'retrying', 'failed'] as const;
+export type InvitationDelivery = (typeof INVITATION_DELIVERIES)[number];
+
+function invitationDelivery(status: MailStatus | null): InvitationDelivery | null {
+  if (status === 'queued' || status === 'sending') return 'sending';
+  if (status === 'sent' || status === 'retrying' || status === 'failed') return status;
+  return null;
+}
+
 export function invitationDto(i: Invitation & { state: InvitationState }) {
   return {
     id: i.id,
@@ -39,6 +49,7 @@ export function invitationDto(i: Invitation & { state: InvitationState }) {
     workspaceRole: i.workspaceRole,
     studyRole: i.studyRole,
     state: i.state,
+    delivery: invitationDelivery(i.mailStatus),
     invitedBy: i.invitedByName,
     expiresAt: i.expiresAt.toISOString(),
     createdAt: i.createdAt.toISOString(),
@@ -68,6 +79,10 @@ export const invitationDtoSchema = z
     workspaceRole: z.enum(WORKSPACE_ROLES),
     studyRole: z.enum(STUDY_ROLES).nullable(),
     state: z.enum(['pending', 'accepted', 'revoked', 'expired']),
+    delivery: z.enum(INVITATION_DELIVERIES).nullable().meta({
+      description:
+        'The e-mail with the link: sending, sent, retrying (an attempt failed; the server tries again with growing delays for about an hour) or failed (send it again). Null when no message is known.',
+    }),
     invitedBy: z.string().nullable(),
     expiresAt: iso,
     createdAt: iso,

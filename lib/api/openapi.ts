@@ -68,7 +68,7 @@ function calculationRoute(): RouteConfig {
       'regression for power, n or f2; cluster-means for power, clustersPerArm, clusterSize or delta. design-effect solves nothing;',
       'optimal-allocation returns the cluster size that minimises cost, then the clusters a budget buys or the budget a target needs.',
       'Sizes are rounded up to whole units and the achieved power is reported. Results are planning estimates, not guarantees.',
-      'No sign-in is needed; calls are limited per network (429 with Retry-After). Browsers on other sites are refused (403); call it from a server or script.',
+      'No sign-in is needed. Calls are limited per signed-in user, per network behind a trusted proxy, or else in one allowance shared by all callers who are not signed in (429 with Retry-After). Browsers on other sites are refused (403); call it from a server or script.',
     ].join(' '),
     security: [],
     request: { body: { content: { 'application/json': { schema: calculationSchema, examples: examples.requests } } } },
@@ -77,7 +77,7 @@ function calculationRoute(): RouteConfig {
       400: err('Invalid input, or not exactly one unknown: see error.fields.'),
       403: err('A cross-site request from a browser.'),
       413: err('The request body is too large.'),
-      429: err('Too many calculations from this network; see Retry-After.'),
+      429: err('Too many calculations from this caller; see Retry-After.'),
     },
   };
 }
@@ -289,6 +289,15 @@ export const API_ROUTES: RouteConfig[] = [
     summary: 'Revoke a pending invitation (workspace admins; study owner for study invitations)',
     request: { params: invitationParamsSchema },
     responses: { 204: { description: 'Revoked' }, ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/invitations/{invitationId}/resend',
+    summary: 'Send a pending invitation again with a new link (as for revoking)',
+    description:
+      'For an invitation whose e-mail failed, or that the invited person cannot find. The old link stops working and the new one expires 7 days from now. Refused (409) while the e-mail is still being sent.',
+    request: { params: invitationParamsSchema },
+    responses: { 200: json(invitationDtoSchema, 'The invitation; the new link goes by e-mail only'), ...writeErrors },
   },
   {
     method: 'post',

@@ -1,11 +1,13 @@
 import 'server-only';
-import type { Kysely } from 'kysely';
+import { randomUUID } from 'node:crypto';
+import { sql, type Kysely, type Transaction } from 'kysely';
 import type { Database } from '@/db/schema';
 import {
   deleteSessionsOfUser,
   findUserByEmail,
   findUserById,
   insertEmailToken,
+  insertEmailTokenForAddress,
   insertUser,
   markEmailVerified,
   setPasswordHash,
@@ -17,9 +19,10 @@ import { logActivity } from '@/db/repositories/activity';
 import { db } from '@/lib/db';
 import { env } from '@/lib/env';
 import { AppError } from '@/lib/errors';
-import { sendMail } from '@/lib/mail/send';
+import { queueMail } from '@/lib/mail/queue';
+import { wakeMailSender } from '@/lib/mail/sender';
 import { alreadyRegisteredMail, resetPasswordMail, verifyEmailMail } from '@/lib/mail/templates';
-import { clientIp, consume, enforce, LIMITS } from '@/lib/rate-limit';
+import { accountChecks, accountLimitError, addressKey, consume, consumeAll, LIMITS } from '@/lib/rate-limit';
 import type { SignUpInput } from '@/lib/validation/auth';
 import { safeCallback } from '@/lib/action-state';
 import { burnComparison, COMMON_PASSWORD_MESSAGE, hashPassword, isCommonPassword, verifyPassword } from './password';
@@ -28,8 +31,14 @@ import { hashToken, newToken, TOKEN_LIFETIME } from './tokens';
 /**
  * Accounts: sign-up with e-mail verification, password sign-in checks and password reset.
  * Answers never reveal whether an address has an account: sign-up and reset always say
- * "check your inbox", and the inbox tells the owner of the address what happened.
+ * "check your inbox", and the inbox tells the owner of the address what happened. Their cost
+ * does not reveal it either: each path does the same work for a known and an unknown address
+ * (see `signUp`, `requestPasswordReset`, and `checkCredentials`, which compares an unknown
+ * address's password with a dummy hash), and no answer waits for the mail server: messages are
+ * queued (lib/mail/queue.ts).
  */
+
+const UNIQUE_VIOLATION = '23505';
 
 function appUrl(path: string): string {
   return new URL(path, env().APP_URL).toString();
@@ -41,46 +50,87 @@ export async function createPersonalWorkspace(database: Kysely<Database>, userId
   await upsertWorkspaceMember(database, ws.id, userId, 'admin');
 }
 
-async function sendVerification(user: User, callbackUrl?: string): Promise<void> {
+/** A new single-use confirmation link for `user`, stored in `trx`. */
+async function newVerificationLink(trx: Transaction<Database>, user: User, callbackUrl?: string): Promise<{ href: string; hash: string }> {
   const { token, hash } = newToken();
-  await insertEmailToken(db(), {
+  await insertEmailToken(trx, {
     userId: user.id,
     purpose: 'verify-email',
     hash,
     expiresAt: new Date(Date.now() + TOKEN_LIFETIME.verifyEmailHours * 3600_000),
   });
   const next = callbackUrl ? `&callbackUrl=${encodeURIComponent(safeCallback(callbackUrl))}` : '';
-  await sendMail(verifyEmailMail(user.email, user.name ?? user.email, appUrl(`/verify-email?token=${token}${next}`)));
+  return { href: appUrl(`/verify-email?token=${token}${next}`), hash };
 }
 
+/** Queues a confirmation link for `user` in `trx`. */
+async function queueVerification(trx: Transaction<Database>, user: User, callbackUrl?: string): Promise<void> {
+  const link = await newVerificationLink(trx, user, callbackUrl);
+  await queueMail(trx, {
+    kind: 'verify-email',
+    idempotencyKey: `verify-email:${link.hash}`,
+    mail: verifyEmailMail(user.email, user.name ?? user.email, link.href),
+  });
+}
+
+/** An unverified account with its password, personal workspace and a confirmation link. */
+async function createAccount(trx: Transaction<Database>, input: SignUpInput, passwordHash: string) {
+  const user = await insertUser(trx, { name: input.name, email: input.email });
+  await setPasswordHash(trx, user.id, passwordHash);
+  await createPersonalWorkspace(trx as unknown as Kysely<Database>, user.id, input.name);
+  await logActivity(trx, { actorId: user.id, action: 'auth.sign-up' });
+  return { user, link: await newVerificationLink(trx, user, input.callbackUrl) };
+}
+
+/**
+ * Signs up, or tells the owner of an address that already has an account, in the same work: one
+ * bcrypt hash, then one transaction that creates an account and queues one message. For an
+ * address with an account, the account created is a stand-in (an address that cannot exist)
+ * and is rolled back to a savepoint, so both answers run the same statements.
+ */
 export async function signUp(input: SignUpInput, headers: Headers): Promise<void> {
-  await enforce(db(), `signup:ip:${clientIp(headers)}`, LIMITS.signUpPerIp, 'sign-ups from this network');
+  const limit = await consumeAll(db(), accountChecks('sign-up', input.email, headers));
+  if (!limit.allowed) throw accountLimitError('sign-up', limit);
   if (isCommonPassword(input.password)) {
     throw new AppError('bad_request', COMMON_PASSWORD_MESSAGE, { fields: { password: [COMMON_PASSWORD_MESSAGE] } });
   }
-  const existing = await findUserByEmail(db(), input.email);
-  if (existing) {
-    await sendMail(alreadyRegisteredMail(existing.email, appUrl('/sign-in'), appUrl('/forgot-password')));
-    return;
-  }
   const passwordHash = await hashPassword(input.password);
-  const user = await db()
-    .transaction()
-    .execute(async (trx) => {
-      const u = await insertUser(trx, { name: input.name, email: input.email });
-      await setPasswordHash(trx, u.id, passwordHash);
-      await createPersonalWorkspace(trx as unknown as Kysely<Database>, u.id, input.name);
-      await logActivity(trx, { actorId: u.id, action: 'auth.sign-up' });
-      return u;
-    });
-  await sendVerification(user, input.callbackUrl);
+  const standIn = `stand-in-${randomUUID()}@unitwise.invalid`;
+  try {
+    await db()
+      .transaction()
+      .execute(async (trx) => {
+        const existing = await findUserByEmail(trx, input.email);
+        await sql`savepoint sign_up`.execute(trx);
+        const { user, link } = await createAccount(trx, existing ? { ...input, email: standIn } : input, passwordHash);
+        await sql.raw(existing ? 'rollback to savepoint sign_up' : 'release savepoint sign_up').execute(trx);
+        await queueMail(
+          trx,
+          existing
+            ? {
+                kind: 'already-registered',
+                idempotencyKey: `already-registered:${link.hash}`,
+                mail: alreadyRegisteredMail(existing.email, appUrl('/sign-in'), appUrl('/forgot-password')),
+              }
+            : { kind: 'verify-email', idempotencyKey: `verify-email:${link.hash}`, mail: verifyEmailMail(user.email, user.name ?? user.email, link.href) },
+        );
+      });
+  } catch (err) {
+    // Two sign-ups for one new address at once: the other created the account and queued its link.
+    if ((err as { code?: string }).code !== UNIQUE_VIOLATION) throw err;
+  }
+  wakeMailSender();
 }
 
 export async function resendVerification(email: string): Promise<void> {
-  const r = await consume(db(), `verify:${email}`, LIMITS.verifyResendPerEmail);
+  const r = await consume(db(), `verify:${email.toLowerCase()}`, LIMITS.verifyResendPerAddress);
   if (!r.allowed) return;
   const user = await findUserByEmail(db(), email);
-  if (user && !user.emailVerified) await sendVerification(user);
+  if (!user || user.emailVerified) return;
+  await db()
+    .transaction()
+    .execute((trx) => queueVerification(trx, user));
+  wakeMailSender();
 }
 
 export async function verifyEmail(token: string): Promise<'verified' | 'invalid'> {
@@ -98,9 +148,8 @@ export type CredentialOutcome =
   | { kind: 'rate_limited' };
 
 export async function checkCredentials(email: string, password: string, headers: Headers): Promise<CredentialOutcome> {
-  const perIp = await consume(db(), `signin:ip:${clientIp(headers)}`, LIMITS.signInPerIp);
-  const perEmail = await consume(db(), `signin:email:${email}`, LIMITS.signInPerEmail);
-  if (!perIp.allowed || !perEmail.allowed) return { kind: 'rate_limited' };
+  const limit = await consumeAll(db(), accountChecks('sign-in', email, headers));
+  if (!limit.allowed) return { kind: 'rate_limited' };
   const user = await findUserByEmail(db(), email);
   if (!user || !user.passwordHash) {
     await burnComparison(password);
@@ -114,20 +163,37 @@ export async function checkCredentials(email: string, password: string, headers:
   return { kind: 'ok', user };
 }
 
+/**
+ * Mails a reset link when the address has an account. The same work either way: one statement
+ * inserts a token only for an existing account, and one message is queued, suppressed (never
+ * sent) for an unknown address.
+ */
 export async function requestPasswordReset(email: string, headers: Headers): Promise<void> {
-  await enforce(db(), `reset:ip:${clientIp(headers)}`, LIMITS.resetPerIp, 'reset requests from this network');
-  const perEmail = await consume(db(), `reset:email:${email}`, LIMITS.resetPerEmail);
-  if (!perEmail.allowed) return; // Same answer as success: the inbox already has links.
-  const user = await findUserByEmail(db(), email);
-  if (!user) return;
+  const limit = await consumeAll(db(), accountChecks('reset', email, headers));
+  if (!limit.allowed) {
+    // The address's own limit refuses with the same answer as success: its inbox already has links.
+    if (limit.refused.every((key) => key === addressKey('reset', email))) return;
+    throw accountLimitError('reset', limit);
+  }
   const { token, hash } = newToken();
-  await insertEmailToken(db(), {
-    userId: user.id,
-    purpose: 'reset-password',
-    hash,
-    expiresAt: new Date(Date.now() + TOKEN_LIFETIME.resetPasswordMinutes * 60_000),
-  });
-  await sendMail(resetPasswordMail(user.email, appUrl(`/reset-password?token=${token}`)));
+  const address = email.trim().toLowerCase();
+  await db()
+    .transaction()
+    .execute(async (trx) => {
+      const account = await insertEmailTokenForAddress(trx, {
+        email: address,
+        purpose: 'reset-password',
+        hash,
+        expiresAt: new Date(Date.now() + TOKEN_LIFETIME.resetPasswordMinutes * 60_000),
+      });
+      await queueMail(trx, {
+        kind: 'reset-password',
+        idempotencyKey: `reset-password:${hash}`,
+        mail: resetPasswordMail(address, appUrl(`/reset-password?token=${token}`)),
+        suppressed: !account,
+      });
+    });
+  wakeMailSender();
 }
 
 export async function resetPassword(token: string, password: string): Promise<void> {

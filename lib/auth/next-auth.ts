@@ -10,11 +10,13 @@ import { insertSession } from '@/db/repositories/users';
 import { logActivity } from '@/db/repositories/activity';
 import { db } from '@/lib/db';
 import { env } from '@/lib/env';
-import { enforce, LIMITS } from '@/lib/rate-limit';
-import { sendMail } from '@/lib/mail/send';
+import { accountChecks, accountLimitError, consumeAll } from '@/lib/rate-limit';
+import { queueMail } from '@/lib/mail/queue';
+import { wakeMailSender } from '@/lib/mail/sender';
 import { magicLinkMail } from '@/lib/mail/templates';
 import { signInSchema } from '@/lib/validation/auth';
 import { checkCredentials, createPersonalWorkspace } from './accounts';
+import { hashToken } from './tokens';
 
 /**
  * next-auth: e-mail + password (Credentials) and e-mail magic links (Nodemailer), both ending in
@@ -63,9 +65,17 @@ export const { handlers, signIn, signOut } = NextAuth(() => {
         server: { host: e.SMTP_HOST, port: e.SMTP_PORT, secure: e.SMTP_SECURE },
         from: e.MAIL_FROM,
         maxAge: 15 * 60,
-        async sendVerificationRequest({ identifier, url }) {
-          await enforce(db(), `magic:${identifier}`, LIMITS.magicLinkPerEmail, 'sign-in links for this address');
-          await sendMail(magicLinkMail(identifier, url));
+        // Queued like every message (lib/mail/queue.ts). next-auth stores its token beside this
+        // call, not in our transaction: a message whose token was not stored only fails to sign in.
+        async sendVerificationRequest({ identifier, url, token, request }) {
+          const limit = await consumeAll(db(), accountChecks('magic-link', identifier, request.headers));
+          if (!limit.allowed) throw accountLimitError('magic-link', limit);
+          await db()
+            .transaction()
+            .execute((trx) =>
+              queueMail(trx, { kind: 'magic-link', idempotencyKey: `magic-link:${hashToken(token)}`, mail: magicLinkMail(identifier, url) }),
+            );
+          wakeMailSender();
         },
       }),
     ],

@@ -1,7 +1,8 @@
 /**
- * Settings of the simulation queue, read from the environment at the moment they are needed (so
- * that a test can shorten the expiry before it starts a worker). Every value has a default that
- * suits `npm start`; the fault test and the integration tests shorten the times.
+ * Settings of the simulation queue, from the SIM_* variables of the one configuration schema
+ * (lib/config.ts), read at the moment they are needed (so that a test can shorten the expiry before
+ * it starts a worker). Every value has a default that suits `npm start`; the fault test and the
+ * integration tests shorten the times.
  *
  *   SIM_WORKER_THREADS          worker threads per worker process (default: os.availableParallelism())
  *   SIM_CHUNK_SECONDS           target work per chunk in seconds (default 0.3)
@@ -16,16 +17,7 @@
  *   SIM_MAX_REPLICATES          replicates per run, summed over scenarios (default 200000)
  */
 import os from 'node:os';
-
-function num(name: string, fallback: number, { min, integer = false }: { min: number; integer?: boolean }): number {
-  const raw = process.env[name];
-  if (raw === undefined || raw === '') return fallback;
-  const v = Number(raw);
-  if (!Number.isFinite(v) || v < min || (integer && !Number.isInteger(v))) {
-    throw new Error(`${name} must be ${integer ? 'an integer' : 'a number'} of at least ${min} (got "${raw}")`);
-  }
-  return v;
-}
+import { cachedReader, configSchema } from '@/lib/config';
 
 export interface JobsConfig {
   threads: number;
@@ -39,16 +31,31 @@ export interface JobsConfig {
   maxReplicates: number;
 }
 
+const readSim = cachedReader(
+  configSchema.pick({
+    SIM_WORKER_THREADS: true,
+    SIM_CHUNK_SECONDS: true,
+    SIM_CHUNK_EXPIRE_SECONDS: true,
+    SIM_CHUNK_RETRY_LIMIT: true,
+    SIM_CHUNK_RETRY_DELAY_SECONDS: true,
+    SIM_MAINTENANCE_SECONDS: true,
+    SIM_POLL_SECONDS: true,
+    SIM_MAX_ACTIVE_RUNS: true,
+    SIM_MAX_REPLICATES: true,
+  }),
+);
+
 export function jobsConfig(): JobsConfig {
+  const sim = readSim();
   return {
-    threads: num('SIM_WORKER_THREADS', Math.max(1, os.availableParallelism()), { min: 1, integer: true }),
-    chunkSeconds: num('SIM_CHUNK_SECONDS', 0.3, { min: 0.001 }),
-    expireSeconds: num('SIM_CHUNK_EXPIRE_SECONDS', 20, { min: 1, integer: true }),
-    retryLimit: num('SIM_CHUNK_RETRY_LIMIT', 3, { min: 0, integer: true }),
-    retryDelaySeconds: num('SIM_CHUNK_RETRY_DELAY_SECONDS', 1, { min: 0, integer: true }),
-    maintenanceSeconds: num('SIM_MAINTENANCE_SECONDS', 5, { min: 1, integer: true }),
-    pollSeconds: num('SIM_POLL_SECONDS', 0.5, { min: 0.5 }),
-    maxActiveRuns: num('SIM_MAX_ACTIVE_RUNS', 3, { min: 1, integer: true }),
-    maxReplicates: num('SIM_MAX_REPLICATES', 200_000, { min: 1, integer: true }),
+    threads: sim.SIM_WORKER_THREADS ?? Math.max(1, os.availableParallelism()),
+    chunkSeconds: sim.SIM_CHUNK_SECONDS,
+    expireSeconds: sim.SIM_CHUNK_EXPIRE_SECONDS,
+    retryLimit: sim.SIM_CHUNK_RETRY_LIMIT,
+    retryDelaySeconds: sim.SIM_CHUNK_RETRY_DELAY_SECONDS,
+    maintenanceSeconds: sim.SIM_MAINTENANCE_SECONDS,
+    pollSeconds: sim.SIM_POLL_SECONDS,
+    maxActiveRuns: sim.SIM_MAX_ACTIVE_RUNS,
+    maxReplicates: sim.SIM_MAX_REPLICATES,
   };
 }

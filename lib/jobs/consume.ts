@@ -95,6 +95,33 @@ export interface ConsumeOptions {
   signal: AbortSignal;
   /** How often an idle slot asks the queue again. */
   pollSeconds: number;
+  /** Lets the process that queued a job wake its idle slots at once instead of after pollSeconds. */
+  wake?: Wakeup;
+}
+
+/** A bell that idle slots wait on: `ring()` ends every current wait. */
+export class Wakeup {
+  private waiters = new Set<() => void>();
+
+  ring(): void {
+    for (const done of [...this.waiters]) done();
+  }
+
+  /** Resolves after `ms`, on `ring()`, or when `signal` aborts. */
+  wait(ms: number, signal: AbortSignal): Promise<void> {
+    if (signal.aborted) return Promise.resolve();
+    return new Promise((resolve) => {
+      const done = () => {
+        clearTimeout(timer);
+        signal.removeEventListener('abort', done);
+        this.waiters.delete(done);
+        resolve();
+      };
+      const timer = setTimeout(done, ms);
+      signal.addEventListener('abort', done);
+      this.waiters.add(done);
+    });
+  }
 }
 
 /** One slot taking jobs from `queue` until `signal` aborts; resolves when it has stopped. */
@@ -105,7 +132,7 @@ export async function consume<T>(boss: PgBoss, queue: string, handle: (job: PgBo
     try {
       const job = await untilReachable(() => claim<T>(boss, queue), signal, who);
       if (!job) {
-        await sleep(options.pollSeconds * 1000, signal);
+        await (options.wake ? options.wake.wait(options.pollSeconds * 1000, signal) : sleep(options.pollSeconds * 1000, signal));
         continue;
       }
       let failure: unknown;

@@ -28,8 +28,8 @@ import { CHUNK_QUEUE, FAILED_CHUNK_QUEUE, getBoss, type ChunkJobData } from './b
 import { jobsConfig } from './config';
 import type { ChunkPlan } from './plan';
 
-/** pg-boss's connection interface over a Kysely connection or transaction. */
-function bossDb(db: Kysely<Database> | Transaction<Database>) {
+/** pg-boss's connection interface over a Kysely connection or transaction (also used by lib/mail/queue.ts). */
+export function bossDb(db: Kysely<Database> | Transaction<Database>) {
   return {
     async executeSql(text: string, values: unknown[] = []) {
       const result = await db.executeQuery(CompiledQuery.raw(text, values));

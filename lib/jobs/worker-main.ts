@@ -11,6 +11,7 @@
  */
 import { noteDatabaseDown } from '@/db/availability';
 import { createDb } from '@/db/client';
+import { ConfigError, parseConfig } from '@/lib/config';
 import { isDatabaseUnavailable } from '@/lib/errors';
 import { logger } from '@/lib/log';
 import { jobsConfig } from './config';
@@ -33,11 +34,8 @@ process.on('unhandledRejection', (reason) => {
 });
 
 async function main(): Promise<void> {
-  const url = process.env.DATABASE_URL;
-  if (!url) {
-    log.error('DATABASE_URL is not set: the worker takes its chunks from the database. `npm start` sets it; see .env.example.');
-    process.exit(1);
-  }
+  // The whole configuration, checked before anything starts: a bad value stops the worker here, by name.
+  const url = parseConfig(process.env, 'worker').DATABASE_URL;
   const config = jobsConfig();
   const db = createDb(url, { max: config.threads + 2 });
   // Even with one thread the chunks run on the pool, so that the process's own thread keeps
@@ -77,6 +75,10 @@ async function main(): Promise<void> {
 }
 
 main().catch((err) => {
+  if (err instanceof ConfigError) {
+    log.error(`cannot start. ${err.message}`);
+    process.exit(1);
+  }
   log.error('failed', err);
   process.exit(1);
 });

@@ -4,7 +4,9 @@ import { env } from '@/lib/env';
 
 /**
  * Outgoing mail through any SMTP server (SMTP_HOST, SMTP_PORT, SMTP_SECURE, SMTP_USER,
- * SMTP_PASSWORD). In development and tests these point at the local mail sink.
+ * SMTP_PASSWORD). In development and tests these point at the local mail sink. Only the mail
+ * queue's sender calls this (lib/mail/queue.ts): the app queues messages, it never sends them
+ * while answering a request.
  */
 let transporter: Transporter | undefined;
 
@@ -18,7 +20,10 @@ function transport(): Transporter {
     auth: e.SMTP_USER ? { user: e.SMTP_USER, pass: e.SMTP_PASSWORD ?? '' } : undefined,
     // The local sink has no certificate; a real provider on port 587 upgrades with STARTTLS.
     ignoreTLS: e.SMTP_HOST === '127.0.0.1' || e.SMTP_HOST === 'localhost',
-    connectionTimeout: 5_000,
+    // Bounded, so that one attempt ends well within the queue job's expiry (lib/mail/queue.ts).
+    connectionTimeout: 10_000,
+    greetingTimeout: 10_000,
+    socketTimeout: 30_000,
   });
   return transporter;
 }
@@ -30,6 +35,10 @@ export interface Mail {
   html: string;
 }
 
-export async function sendMail(mail: Mail): Promise<void> {
+/**
+ * Sends one message. `messageId` is the same on every attempt of one queued message, so that a
+ * receiving server or mail program that sees it twice can tell it is one message.
+ */
+export async function sendMail(mail: Mail & { messageId?: string }): Promise<void> {
   await transport().sendMail({ from: env().MAIL_FROM, ...mail });
 }

@@ -2,6 +2,7 @@
  * Sign-up, e-mail verification, password sign-in checks, password reset and the rate limits,
  * against the real database. Mail is captured in memory (tests/support/mail.ts).
  */
+import { sql } from 'kysely';
 import { afterEach, describe, expect, it } from 'vitest';
 import { checkCredentials, requestPasswordReset, resetPassword, signUp, verifyEmail } from '@/lib/auth/accounts';
 import { db } from '@/lib/db';
@@ -10,6 +11,7 @@ import { consume, LIMITS } from '@/lib/rate-limit';
 import { insertSession } from '@/db/repositories/users';
 import { AppError } from '@/lib/errors';
 import { linkIn, sentMail } from '../support/mail';
+import { drainMail } from '../support/drain-mail';
 
 const headers = (ip = '203.0.113.7') => new Headers({ 'x-forwarded-for': ip });
 const PASSWORD = 'trays-are-not-plants-7';
@@ -21,6 +23,7 @@ function tokenOf(link: string): string {
 describe('sign-up and verification', () => {
   it('creates an unverified account with a personal workspace and mails a single-use link', async () => {
     await signUp({ name: 'Lena Vogel', email: 'lena@test.example', password: PASSWORD }, headers());
+    await drainMail();
     expect(sentMail).toHaveLength(1);
     expect(sentMail[0]!.to).toBe('lena@test.example');
     expect((await checkCredentials('lena@test.example', PASSWORD, headers())).kind).toBe('unverified');
@@ -52,8 +55,10 @@ describe('sign-up and verification', () => {
 
   it('answers a second sign-up for an existing address the same way, and tells the owner by mail', async () => {
     await signUp({ name: 'Ada', email: 'ada@test.example', password: PASSWORD }, headers());
+    await drainMail();
     sentMail.length = 0;
     await expect(signUp({ name: 'Mallory', email: 'ada@test.example', password: 'another-long-pass-9' }, headers())).resolves.toBeUndefined();
+    await drainMail();
     expect(sentMail).toHaveLength(1);
     expect(sentMail[0]!.subject).toMatch(/tried to create/);
     expect(await db().selectFrom('User').selectAll().execute()).toHaveLength(1);
@@ -61,6 +66,7 @@ describe('sign-up and verification', () => {
 
   it('gives the same answer for an unknown address and a wrong password', async () => {
     await signUp({ name: 'Ada', email: 'ada@test.example', password: PASSWORD }, headers());
+    await drainMail();
     await verifyEmail(tokenOf(linkIn(sentMail[0]!.text)));
     expect((await checkCredentials('ada@test.example', 'wrong-password-123', headers())).kind).toBe('invalid');
     expect((await checkCredentials('nobody@test.example', 'wrong-password-123', headers())).kind).toBe('invalid');
@@ -70,6 +76,7 @@ describe('sign-up and verification', () => {
 describe('password reset', () => {
   async function verifiedUser() {
     await signUp({ name: 'Priya', email: 'priya@test.example', password: PASSWORD }, headers());
+    await drainMail();
     await verifyEmail(tokenOf(linkIn(sentMail[0]!.text)));
     sentMail.length = 0;
     return db().selectFrom('User').select('id').executeTakeFirstOrThrow();
@@ -79,6 +86,7 @@ describe('password reset', () => {
     const user = await verifiedUser();
     await insertSession(db(), { userId: user.id, sessionToken: 'old-session', expires: new Date(Date.now() + 3600_000) });
     await requestPasswordReset('priya@test.example', headers());
+    await drainMail();
     const token = tokenOf(linkIn(sentMail[0]!.text));
     await resetPassword(token, 'a-brand-new-passphrase');
     expect((await checkCredentials('priya@test.example', 'a-brand-new-passphrase', headers())).kind).toBe('ok');
@@ -90,12 +98,14 @@ describe('password reset', () => {
   it('refuses an expired link', async () => {
     await verifiedUser();
     await requestPasswordReset('priya@test.example', headers());
+    await drainMail();
     await db().updateTable('email_tokens').set({ expires_at: new Date(Date.now() - 1000) }).execute();
     await expect(resetPassword(tokenOf(linkIn(sentMail[0]!.text)), 'a-brand-new-passphrase')).rejects.toMatchObject({ code: 'gone' });
   });
 
   it('sends nothing for an unknown address but answers the same', async () => {
     await expect(requestPasswordReset('nobody@test.example', headers())).resolves.toBeUndefined();
+    await drainMail();
     expect(sentMail).toHaveLength(0);
   });
 });
@@ -105,29 +115,29 @@ describe('rate limits kept in PostgreSQL', () => {
     delete process.env.TRUST_PROXY;
   });
 
-  it('stops the sixth sign-up from one address within the hour (behind a trusted proxy)', async () => {
+  it('stops sign-ups from one client beyond its limit (behind a trusted proxy); another client is unaffected', async () => {
     process.env.TRUST_PROXY = 'true';
-    for (let i = 0; i < LIMITS.signUpPerIp.limit; i++) {
+    for (let i = 0; i < LIMITS.signUpPerClient.limit; i++) {
       await signUp({ name: 'Bot', email: `bot${i}@test.example`, password: PASSWORD }, headers('198.51.100.1'));
     }
     await expect(signUp({ name: 'Bot', email: 'bot99@test.example', password: PASSWORD }, headers('198.51.100.1'))).rejects.toMatchObject({
       code: 'rate_limited',
+      message: expect.stringContaining('from your network'),
     });
-    // Another network is unaffected.
     await expect(signUp({ name: 'Ada', email: 'ada@test.example', password: PASSWORD }, headers('198.51.100.2'))).resolves.toBeUndefined();
   });
 
-  it('without a trusted proxy, a forged X-Forwarded-For does not escape the limit', async () => {
-    for (let i = 0; i < LIMITS.signUpPerIp.limit; i++) {
+  it('without a trusted proxy, X-Forwarded-For is ignored: no per-client count is kept', async () => {
+    for (let i = 0; i < 3; i++) {
       await signUp({ name: 'Bot', email: `bot${i}@test.example`, password: PASSWORD }, headers(`198.51.100.${i}`));
     }
-    await expect(signUp({ name: 'Bot', email: 'bot99@test.example', password: PASSWORD }, headers('198.51.100.99'))).rejects.toMatchObject({
-      code: 'rate_limited',
-    });
+    const keys = (await db().selectFrom('rate_limits').select('key').execute()).map((r) => r.key);
+    expect(keys.filter((k) => k.includes(':client:'))).toEqual([]);
+    expect(keys).toContain('sign-up:overall');
   });
 
   it('locks password sign-in for an address after 10 attempts', async () => {
-    for (let i = 0; i < LIMITS.signInPerEmail.limit; i++) {
+    for (let i = 0; i < LIMITS.signInPerAddress.limit; i++) {
       expect((await checkCredentials('ada@test.example', `wrong-${i}-password`, headers(`192.0.2.${i}`))).kind).toBe('invalid');
     }
     expect((await checkCredentials('ada@test.example', 'wrong-again-password', headers('192.0.2.200'))).kind).toBe('rate_limited');
@@ -149,11 +159,17 @@ describe('rate limits kept in PostgreSQL', () => {
     }
   });
 
-  it('opens a new window once the old one has passed', async () => {
-    const limit = { limit: 1, windowSeconds: 60 };
+  it('allows the next attempt once one spacing (window / limit) has passed', async () => {
+    const limit = { limit: 2, windowSeconds: 60 };
     await consume(db(), 'w', limit);
-    expect((await consume(db(), 'w', limit)).allowed).toBe(false);
-    await db().updateTable('rate_limits').set({ window_start: new Date(Date.now() - 61_000) }).where('key', '=', 'w').execute();
+    await consume(db(), 'w', limit);
+    const refused = await consume(db(), 'w', limit);
+    expect(refused.allowed).toBe(false);
+    expect(refused.retryAfterSeconds).toBeGreaterThan(25);
+    expect(refused.retryAfterSeconds).toBeLessThanOrEqual(30);
+    // Thirty seconds later (one spacing) one attempt is free again, not the whole window.
+    await db().updateTable('rate_limits').set({ paced_until: sql`paced_until - interval '30 seconds'` }).where('key', '=', 'w').execute();
     expect((await consume(db(), 'w', limit)).allowed).toBe(true);
+    expect((await consume(db(), 'w', limit)).allowed).toBe(false);
   });
 });

@@ -1,7 +1,8 @@
 /**
  * POST /api/v1/calculations through the real route handler, signed out: every kind answers with
- * its solved value, bad input answers 400 with field errors, and the per-network rate limit
- * answers 429 with Retry-After (the count lives in PostgreSQL).
+ * its solved value, bad input answers 400 with field errors, and the rate limits (per network
+ * behind a trusted proxy, per signed-in user, one shared allowance otherwise) answer 429 with
+ * Retry-After (the count lives in PostgreSQL).
  *
  * Reference values: R 4.2.2 (Debian r-base-core), stats::power.t.test(..., strict = TRUE), which
  * counts both rejection tails as the engine does:
@@ -145,7 +146,7 @@ describe('invalid input answers 400 with field errors', () => {
   });
 });
 
-describe('rate limit per network', () => {
+describe('rate limits per caller', () => {
   afterEach(() => {
     delete process.env.RATE_LIMIT_SCALE;
     delete process.env.TRUST_PROXY;
@@ -153,7 +154,7 @@ describe('rate limit per network', () => {
 
   it('answers 429 with Retry-After once the network has used its calls; another network is unaffected', async () => {
     process.env.TRUST_PROXY = 'true';
-    process.env.RATE_LIMIT_SCALE = String(3 / LIMITS.calculationsPerIp.limit); // 3 calls per window
+    process.env.RATE_LIMIT_SCALE = String(3 / LIMITS.calculationsPerClient.limit); // 3 calls per window
     const from = (ip: string) => ({ headers: { 'x-forwarded-for': ip } });
     const body = CALCULATION_EXAMPLES['design-effect'].request;
     for (let i = 0; i < 3; i++) expect((await post(body, from('198.51.100.7'))).res.status).toBe(200);
@@ -162,10 +163,25 @@ describe('rate limit per network', () => {
     expect(limited.error.code).toBe('rate_limited');
     const retry = Number(res.headers.get('Retry-After'));
     expect(retry).toBeGreaterThan(0);
-    expect(retry).toBeLessThanOrEqual(LIMITS.calculationsPerIp.windowSeconds);
+    expect(retry).toBeLessThanOrEqual(LIMITS.calculationsPerClient.windowSeconds);
     // Invalid calls count too, so a flood of bad bodies is limited as well.
     expect((await post({ kind: 'nothing' }, from('198.51.100.7'))).res.status).toBe(429);
     expect((await post(body, from('198.51.100.8'))).res.status).toBe(200);
+  });
+
+  it('without a trusted proxy, a script that uses up the shared allowance does not stop a signed-in caller', async () => {
+    process.env.RATE_LIMIT_SCALE = String(3 / LIMITS.calculationsPerClient.limit); // 3 per caller, 30 shared
+    const shared = Math.floor(LIMITS.calculationsAnonymous.limit * Number(process.env.RATE_LIMIT_SCALE));
+    const body = CALCULATION_EXAMPLES['design-effect'].request;
+    // The script forges X-Forwarded-For; without TRUST_PROXY it is ignored.
+    for (let i = 0; i < shared; i++) expect((await post(body, { headers: { 'x-forwarded-for': `198.51.100.${i}` } })).res.status).toBe(200);
+    const refused = await post(body);
+    expect(refused.res.status).toBe(429);
+    expect(refused.body.error.message).toMatch(/not signed in/);
+
+    const user = await makeUser('planner');
+    const mine = await calculations.POST(request('POST', PATH, { body, user }), ctx({}));
+    expect(mine.status).toBe(200);
   });
 });
 

@@ -8,6 +8,7 @@ import * as study from '@/app/api/v1/studies/[studyId]/route';
 import * as revoke from '@/app/api/v1/invitations/[invitationId]/route';
 import { ctx, makeUser, makeWorld, request } from '../support/fixtures';
 import { linkIn, sentMail } from '../support/mail';
+import { drainMail } from '../support/drain-mail';
 
 async function invite(w: Awaited<ReturnType<typeof makeWorld>>, email: string, role = 'consultant') {
   const res = await studyInvitations.POST(
@@ -15,6 +16,7 @@ async function invite(w: Awaited<ReturnType<typeof makeWorld>>, email: string, r
     ctx({ studyId: w.studyId }),
   );
   expect(res.status).toBe(201);
+  await drainMail();
   const mail = sentMail.at(-1)!;
   const token = linkIn(mail.text).split('/invitations/')[1]!;
   return { token, body: await res.json(), mail };
@@ -103,6 +105,7 @@ describe('study invitations', () => {
     const body = await res.json();
     expect(Object.keys(body.error.fields).sort()).toEqual(['email', 'role']);
     expect(await db().selectFrom('invitations').selectAll().execute()).toHaveLength(0);
+    await drainMail();
     expect(sentMail).toHaveLength(0);
   });
 });

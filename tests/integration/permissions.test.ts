@@ -25,6 +25,7 @@ import * as studyMember from '@/app/api/v1/studies/[studyId]/members/[userId]/ro
 import * as studyInvitations from '@/app/api/v1/studies/[studyId]/invitations/route';
 import * as activity from '@/app/api/v1/studies/[studyId]/activity/route';
 import * as invitation from '@/app/api/v1/invitations/[invitationId]/route';
+import * as invitationResend from '@/app/api/v1/invitations/[invitationId]/resend/route';
 import * as design from '@/app/api/v1/studies/[studyId]/design/route';
 import * as checks from '@/app/api/v1/studies/[studyId]/checks/route';
 import * as findingNotes from '@/app/api/v1/studies/[studyId]/finding-notes/route';
@@ -98,6 +99,7 @@ const ROUTES: RouteCase[] = [
   { name: 'stress-test specification from the design', method: 'GET', handler: simulationSpec.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/simulations/spec`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
   { name: 'list stress tests of a study', method: 'GET', handler: studySimulations.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/simulations`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
   { name: 'revoke invitation', method: 'DELETE', handler: invitation.DELETE as Handler, path: (_w) => '/api/v1/invitations/x', params: (_w, e) => ({ invitationId: e.invitationId }), rule: { kind: 'revoke' }, ok: 204 },
+  { name: 'send invitation again', method: 'POST', handler: invitationResend.POST as Handler, path: (_w) => '/api/v1/invitations/x/resend', params: (_w, e) => ({ invitationId: e.invitationId }), rule: { kind: 'revoke' }, ok: 200 },
 ];
 
 type Principal = 'owner' | 'editor' | 'consultant' | 'writer' | 'viewer' | 'workspace member, not in study' | 'other workspace' | 'anonymous';

@@ -1,7 +1,8 @@
 import type { Metadata } from 'next';
+import { headers } from 'next/headers';
 import { notFound } from 'next/navigation';
 import { Logo } from '@/components/logo';
-import { outboxDir, readOutbox } from '@/lib/outbox';
+import { isLocalRequest, outboxDir, readOutbox } from '@/lib/outbox';
 
 export const metadata: Metadata = { title: 'Outbox (development)' };
 export const dynamic = 'force-dynamic';
@@ -25,7 +26,8 @@ function Linked({ text }: { text: string }) {
 }
 
 export default async function OutboxPage({ searchParams }: { searchParams: Promise<{ to?: string }> }) {
-  if (!outboxDir()) notFound();
+  // Every reset and sign-in link is listed here: for anyone but this machine, the page does not exist.
+  if (!outboxDir() || !isLocalRequest(await headers())) notFound();
   const { to } = await searchParams;
   const messages = (await readOutbox()).filter((m) => !to || m.to.some((t) => t.toLowerCase().includes(to.toLowerCase())));
   return (

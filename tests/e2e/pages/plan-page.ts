@@ -44,8 +44,13 @@ export class PlanPage {
     return this.inputs.getByLabel(label);
   }
 
-  /** The power curve's data, row by row ("size power"), read from its table (not from pixels). */
+  /**
+   * The power curve's data, row by row ("size power"), read from its table (not from pixels). The
+   * chart is loaded in the browser after the page (it is not rendered on the server), so this
+   * waits for the table first.
+   */
   async curveRows(): Promise<string[]> {
+    await expect(this.curveTable.locator('tbody tr').first()).toBeAttached();
     return this.curveTable.locator('tbody tr').evaluateAll((rows) => rows.map((r) => (r.textContent ?? '').replace(/\s+/g, ' ').trim()));
   }
 

@@ -56,7 +56,7 @@ export class StudyPage {
     await this.inviteEmail.fill(email);
     await this.inviteRole.selectOption({ label: role });
     await this.sendInvitation.click();
-    await expect(this.invite.getByText(`Invitation sent to ${email}`)).toBeVisible();
+    await expect(this.invite.getByText(`Invited ${email}.`)).toBeVisible();
   }
 
   invitation(email: string): Locator {

@@ -20,7 +20,7 @@ export function uniqueEmail(label: string): string {
 }
 
 /**
- * The app rate-limits sign-ups and resets per client address (lib/rate-limit.ts, first entry of
+ * The app rate-limits sign-ups and resets per client address (lib/rate-limit.ts, last entry of
  * X-Forwarded-For). Every spec presents its own address so that the specs do not share one
  * allowance; each spec stays well below the unscaled limits on its own.
  */

@@ -1,4 +1,5 @@
-export default function Loading() {
+/** Placeholder while a tab's data loads (the tabs' loading.tsx files). */
+export function PageSkeleton() {
   return (
     <div role="status" aria-label="Loading" className="animate-pulse space-y-4">
       <div className="h-8 w-64 rounded bg-slate-200" />
