@@ -2,7 +2,7 @@
  * Which wizard steps are complete: enough of each part for the checks and the calculations to
  * use it. "started" means something is filled in but not enough yet.
  */
-import type { Design, DesignPart } from './schema';
+import type { Assumptions, Design, DesignPart } from './schema';
 
 export type StepState = 'complete' | 'started' | 'empty';
 
@@ -17,7 +17,8 @@ export function stepStates(d: Design): Record<DesignPart, StepState> {
   const needIcc = iccLevels(d);
   const s = d.assumptions;
   const iccsDone = needIcc.every((l) => s.iccs.some((c) => c.levelId === l.id));
-  const assumptions: StepState = s.outcomeSd && s.effect && iccsDone ? 'complete' : s.outcomeSd || s.effect || s.iccs.length ? 'started' : 'empty';
+  const given = outcomeAssumptions(d).map((name) => s[name] !== undefined);
+  const assumptions: StepState = given.every(Boolean) && iccsDone ? 'complete' : given.some(Boolean) || s.iccs.length ? 'started' : 'empty';
   const an = d.analysis;
   const analysis: StepState = an.method && an.unitOfAnalysisLevelId ? 'complete' : an.method || an.unitOfAnalysisLevelId ? 'started' : 'empty';
   return { outcome, structure, assignment, occasions, assumptions, analysis };
@@ -26,4 +27,24 @@ export function stepStates(d: Design): Record<DesignPart, StepState> {
 /** Levels that carry an ICC: grouping levels, and units measured repeatedly. */
 export function iccLevels(d: Design) {
   return d.structure.levels.filter((l, i) => l.kind === 'grouping' || (l.kind === 'independent' && d.structure.levels[i + 1]?.kind === 'repeated'));
+}
+
+/**
+ * The outcome's own numbers the Assumptions step asks for: a yes-or-no outcome its control
+ * proportion and effect; counts a baseline rate, rate ratio, follow-up time and overdispersion
+ * (with the variation of rates between clusters when clusters are randomised); any other outcome
+ * its SD and the smallest important difference.
+ */
+export function outcomeAssumptions(d: Design): (keyof Assumptions)[] {
+  if (d.outcome.type === 'binary') return ['controlProportion', 'proportionEffect'];
+  if (d.outcome.type === 'count') return ['baselineRate', 'rateRatio', 'followUpTime', 'dispersion', ...(clusterRandomised(d) ? (['betweenClusterCv'] as const) : [])];
+  return ['outcomeSd', 'effect'];
+}
+
+/** Whether the level of assignment holds members below it that are not repeated measurements (whole clusters randomised). */
+export function clusterRandomised(d: Design): boolean {
+  const levels = d.structure.levels;
+  const i = levels.findIndex((l) => l.id === d.assignment.levelId);
+  const below = i >= 0 ? levels[i + 1] : undefined;
+  return below !== undefined && below.kind !== 'repeated';
 }
