@@ -17,8 +17,8 @@
 import { COHEN_1988, DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/rules/citations';
 import { designEffect } from '@/lib/stats/design-effect';
 import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
-import { adjustAlpha, dropoutWarning, formatNumber, toRecruit } from './adjust';
-import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
+import { adjustAlpha, formatNumber } from './adjust';
+import { clusterRecruitment, effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
 import { tTestPower, zSum, type Sides } from './power';
 import { findUnknown, presence, requireTargetPower, solveEffect, solveSize } from './solve';
 import type { CalculationOutput, Feasibility } from './types';
@@ -113,18 +113,14 @@ export function clusterMeans(request: ClusterMeansRequest): CalculationOutput {
   }
 
   const de = designEffect({ clusterSize: m!, icc, cv });
-  const kRecruit = toRecruit(k!, clusterDropout);
-  const mRecruit = toRecruit(m!, dropout);
+  const recruitment = clusterRecruitment(k!, m!, dropout, clusterDropout, 'units');
   if (cv > 0) {
     warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (Eldridge et al. 2006); clusterSize is the mean size.`);
   }
   if (k! < 10) {
     warnings.push(`With ${k} clusters per arm the estimate of the variance between clusters is imprecise; analyses with few clusters need small-sample corrections.`);
   }
-  warnings.push(...dropoutWarning(dropout, 'units within each cluster'));
-  if (clusterDropout > 0) {
-    warnings.push(`Clusters to recruit are inflated by 1/(1 − ${clusterDropout}) for whole clusters expected to drop out, rounded up.`);
-  }
+  warnings.push(...recruitment.warnings);
   return {
     kind: 'cluster-means',
     solvedFor,
@@ -141,12 +137,7 @@ export function clusterMeans(request: ClusterMeansRequest): CalculationOutput {
       designEffect: de,
       degreesOfFreedom: 2 * k! - 2,
       ...extra,
-      dropout,
-      clusterDropout,
-      clusterSizeToRecruit: mRecruit,
-      clustersPerArmToRecruit: kRecruit,
-      totalAnalysed: 2 * k! * m!,
-      totalToRecruit: 2 * kRecruit * mRecruit,
+      ...recruitment.result,
     },
     feasibility,
     method: `Power of the ${TWO_SIDED(sides)} t test on cluster means (noncentral t, df = 2k − 2), variance of a cluster mean sd² × DE / m, DE = 1 + ((cv² + 1) × m − 1) × ICC.`,

@@ -32,9 +32,9 @@
 import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003, KISH_1965 } from '@/lib/rules/citations';
 import { designEffect } from '@/lib/stats/design-effect';
 import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
-import { adjustAlpha, dropoutWarning, formatNumber, toRecruit } from './adjust';
+import { adjustAlpha, formatNumber } from './adjust';
 import { inputError } from './errors';
-import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
+import { clusterRecruitment, effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
 import { tTestPower, zSum, type Sides } from './power';
 import { effectMeasures, p2FromEffect } from './proportion-effect';
 import { effectPresence, findUnknown, requireTargetPower, solveEffect, solveSize, type SizeSolution } from './solve';
@@ -159,11 +159,9 @@ export function clusterProportions(request: ClusterProportionsRequest): Calculat
   }
 
   const de = designEffect({ clusterSize: m!, icc, cv });
-  const kRecruit = toRecruit(k!, clusterDropout);
-  const mRecruit = toRecruit(m!, dropout);
+  const recruitment = clusterRecruitment(k!, m!, dropout, clusterDropout, 'units');
   if (cv > 0) warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (Eldridge et al. 2006); clusterSize is the mean size.`);
-  warnings.push(...dropoutWarning(dropout, 'units within each cluster'));
-  if (clusterDropout > 0) warnings.push(`Clusters to recruit are inflated by 1/(1 − ${clusterDropout}) for whole clusters expected to drop out, rounded up.`);
+  warnings.push(...recruitment.warnings);
   return {
     kind: 'cluster-proportions',
     solvedFor,
@@ -183,12 +181,7 @@ export function clusterProportions(request: ClusterProportionsRequest): Calculat
       nPerGroup: k! * m!,
       effectiveNPerGroup: (k! * m!) / de,
       ...extra,
-      dropout,
-      clusterDropout,
-      clusterSizeToRecruit: mRecruit,
-      clustersPerArmToRecruit: kRecruit,
-      totalAnalysed: 2 * k! * m!,
-      totalToRecruit: 2 * kRecruit * mRecruit,
+      ...recruitment.result,
     },
     feasibility,
     method:

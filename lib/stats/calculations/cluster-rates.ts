@@ -31,9 +31,10 @@
  */
 import { HAYES_BENNETT_1999, HAYES_MOULTON_2017, ZHU_LAKKIS_2014 } from '@/lib/rules/citations';
 import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
-import { adjustAlpha, dropoutWarning, formatNumber, toRecruit } from './adjust';
+import { adjustAlpha, formatNumber } from './adjust';
 import { inputError } from './errors';
-import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
+import { clusterRecruitment, effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
+import { rateEffect } from './two-rates';
 import { zSum, zTestPower, type Sides } from './power';
 import { findUnknown, presence, requireTargetPower, solveEffect, solveSize, type SizeSolution } from './solve';
 import type { CalculationOutput, Feasibility } from './types';
@@ -144,23 +145,18 @@ export function clusterRates(request: ClusterRatesRequest): CalculationOutput {
   const design = { baselineRate, rateRatio: rateRatio!, exposure, dispersion, betweenClusterCv, clusterSize: m! };
   const treatedRate = baselineRate * rateRatio!;
   const personTime = m! * exposure;
-  const cRecruit = toRecruit(c!, clusterDropout);
-  const mRecruit = toRecruit(m!, dropout);
+  const recruitment = clusterRecruitment(c!, m!, dropout, clusterDropout, 'participants');
   if (betweenClusterCv === 0) {
     warnings.push(
       'A coefficient of variation of 0 assumes that the clusters’ underlying rates do not differ at all, which is rarely true; take a value from earlier studies of similar clusters (Hayes & Bennett 1999 explain how to estimate it).',
     );
   }
-  warnings.push(...dropoutWarning(dropout, 'participants within each cluster'));
-  if (clusterDropout > 0) warnings.push(`Clusters to recruit are inflated by 1/(1 − ${clusterDropout}) for whole clusters expected to drop out, rounded up.`);
+  warnings.push(...recruitment.warnings);
   return {
     kind: 'cluster-rates',
     solvedFor,
     result: {
-      baselineRate,
-      rateRatio: rateRatio!,
-      treatedRate,
-      rateDifference: treatedRate - baselineRate,
+      ...rateEffect(baselineRate, rateRatio!),
       exposure,
       dispersion,
       betweenClusterCv,
@@ -172,12 +168,7 @@ export function clusterRates(request: ClusterRatesRequest): CalculationOutput {
       ...testSettings({ alpha, alphaAdjusted: a, outcomes, multiplicity, power, targetPower: solvedFor === 'power' ? null : target }),
       designEffect: (clusterRateVariance(design) * personTime) / (baselineRate + treatedRate),
       ...extra,
-      dropout,
-      clusterDropout,
-      clusterSizeToRecruit: mRecruit,
-      clustersPerArmToRecruit: cRecruit,
-      totalAnalysed: 2 * c! * m!,
-      totalToRecruit: 2 * cRecruit * mRecruit,
+      ...recruitment.result,
     },
     feasibility,
     method:

@@ -1,12 +1,9 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { calculationSchema } from '@/lib/validation/calculations';
 import { clusterProportionsPower } from './cluster-proportions';
 import { clusterRatesPower, hayesBennettClusters } from './cluster-rates';
-import { CalculationInputError } from './errors';
-import { calculate } from './index';
 import { p2FromEffect } from './proportion-effect';
-import { expectRelativelyClose } from './testing';
+import { expectInputError, expectRelativelyClose, run } from './testing';
 import { mostPowerfulReduction, twoRatesPower } from './two-rates';
 
 /**
@@ -14,22 +11,6 @@ import { mostPowerfulReduction, twoRatesPower } from './two-rates';
  * answers at the ends of the ranges ('already-met', 'unreachable', plateaus), inputs that do not
  * fit together, and properties over random designs (fast-check, fixed seed).
  */
-function run(input: Record<string, unknown>) {
-  return calculate(calculationSchema.parse(input));
-}
-
-function expectInputError(input: Record<string, unknown>, field: string, message: RegExp): void {
-  let caught: unknown;
-  try {
-    run(input);
-  } catch (error) {
-    caught = error;
-  }
-  expect(caught, `${JSON.stringify(input)} should throw`).toBeInstanceOf(CalculationInputError);
-  expect((caught as CalculationInputError).message).toMatch(message);
-  expect(Object.keys((caught as CalculationInputError).fields)).toContain(field);
-}
-
 /** (z₀.₉₇₅ + z₀.₈)², to the digits of the printed normal table. */
 const Z_SUM_SQUARED = (1.959964 + 0.841621) ** 2;
 

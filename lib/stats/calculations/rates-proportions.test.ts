@@ -1,8 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { calculationSchema } from '@/lib/validation/calculations';
 import fixture from './fixtures/rates-proportions.json';
-import { calculate } from './index';
-import { exactMismatch, expectNoMismatches, relativeMismatch, type Mismatch } from './testing';
+import { exactMismatch, expectNoMismatches, relativeMismatch, run, type Mismatch } from './testing';
 
 /**
  * The count and binary kinds against `fixtures/rates-proportions.json`, written by
@@ -16,10 +14,6 @@ import { exactMismatch, expectNoMismatches, relativeMismatch, type Mismatch } fr
  */
 const POWER_TOLERANCE = 1e-6;
 const EFFECT_TOLERANCE = 1e-6;
-
-function run(input: Record<string, unknown>) {
-  return calculate(calculationSchema.parse(input));
-}
 
 const num = (value: unknown) => value as number;
 const label = (row: object) => JSON.stringify(row);

@@ -86,6 +86,12 @@ export function mostPowerfulReduction({ baselineRate, exposure, dispersion, nPer
   return brentRoot(h, 2, MAX_LOG_RATE_RATIO, { xTolerance: 1e-12 });
 }
 
+/** The effect in the result: the two rates, their ratio and their difference. */
+export function rateEffect(baselineRate: number, rateRatio: number): Record<string, number> {
+  const treatedRate = baselineRate * rateRatio;
+  return { baselineRate, rateRatio, treatedRate, rateDifference: treatedRate - baselineRate };
+}
+
 export function twoRates(request: TwoRatesRequest): CalculationOutput {
   const { baselineRate, exposure, dispersion, ratio, sides, alpha, outcomes, multiplicity, dropout } = request;
   const adjusted = adjustAlpha(alpha, outcomes, multiplicity);
@@ -158,10 +164,7 @@ export function twoRates(request: TwoRatesRequest): CalculationOutput {
     kind: 'two-rates',
     solvedFor,
     result: {
-      baselineRate,
-      rateRatio: rateRatio!,
-      treatedRate,
-      rateDifference: treatedRate - baselineRate,
+      ...rateEffect(baselineRate, rateRatio!),
       exposure,
       dispersion,
       nPerGroup: n0,
