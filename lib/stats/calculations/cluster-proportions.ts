@@ -33,6 +33,7 @@ import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003, KISH_1965 } from '@/lib/r
 import { designEffect } from '@/lib/stats/design-effect';
 import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
 import { adjustAlpha, formatNumber } from './adjust';
+import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
 import { inputError } from './errors';
 import { clusterRecruitment, effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
 import { tTestPower, zSum, type Sides } from './power';
@@ -43,8 +44,6 @@ import type { CalculationOutput, Feasibility } from './types';
 
 export type ClusterProportionsRequest = Extract<CalculationRequest, { kind: 'cluster-proportions' }>;
 
-const MAX_CLUSTERS_PER_ARM = 1_000_000;
-const MAX_CLUSTER_SIZE = 1_000_000;
 /** How close to 0 or 1 a solved p2 may come. */
 const P_EDGE = 1e-9;
 
@@ -124,23 +123,18 @@ export function clusterProportions(request: ClusterProportionsRequest): Calculat
       );
     }
   } else if (solvedFor === 'clusterSize') {
-    const at = (size: number) => clusterProportionsPower({ ...base, p2: p2!, clusterSize: size, clustersPerArm: k! });
-    const plateauPower = at(Infinity);
-    extra.plateauPower = plateauPower;
-    const s: SizeSolution =
-      plateauPower < target ? { size: MAX_CLUSTER_SIZE, power: at(MAX_CLUSTER_SIZE), feasibility: 'unreachable' } : solveSize(at, target, 1, MAX_CLUSTER_SIZE);
+    const s = solveClusterSize({
+      powerAt: (size) => clusterProportionsPower({ ...base, p2: p2!, clusterSize: size, clustersPerArm: k! }),
+      plateauAt: (clusters) => clusterProportionsPower({ ...base, p2: p2!, clusterSize: Infinity, clustersPerArm: clusters }),
+      clustersPerArm: k!,
+      target,
+      why: `the variation between clusters remains (ICC ${icc})`,
+      members: 'units per cluster',
+    });
     ({ size: m, power, feasibility } = s);
-    if (feasibility === 'unreachable') {
-      const needed = icc > 0 ? solveSizeAtPlateau({ ...base, p2: p2! }, target) : null;
-      extra.clustersPerArmNeeded = needed;
-      warnings.push(
-        `With ${k} clusters per arm no cluster size reaches power ${formatNumber(target)}: as clusters grow, power levels off at ` +
-          `${formatNumber(plateauPower)} because the variation between clusters remains (ICC ${icc}).` +
-          (needed !== null ? ` At least ${needed} clusters per arm are needed, with large clusters.` : ''),
-      );
-    } else {
-      warnings.push(...sizeFeasibilityWarning(feasibility, 'units per cluster', s.size, s.power, target));
-    }
+    extra.plateauPower = s.plateauPower;
+    if (s.clustersPerArmNeeded !== undefined) extra.clustersPerArmNeeded = s.clustersPerArmNeeded;
+    warnings.push(...s.warnings);
   } else {
     const lower = request.direction === 'lower';
     const room = lower ? p1 - P_EDGE : 1 - P_EDGE - p1;
@@ -195,8 +189,3 @@ export function clusterProportions(request: ClusterProportionsRequest): Calculat
   };
 }
 
-/** Clusters per arm that reach the target with very large clusters, or null when none up to the maximum do. */
-function solveSizeAtPlateau(input: Omit<ClusterProportionsPowerInput, 'clustersPerArm' | 'clusterSize'>, target: number): number | null {
-  const s = solveSize((k) => clusterProportionsPower({ ...input, clusterSize: Infinity, clustersPerArm: k }), target, 2, MAX_CLUSTERS_PER_ARM);
-  return s.feasibility === 'unreachable' ? null : s.size;
-}

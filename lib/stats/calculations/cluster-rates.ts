@@ -32,17 +32,16 @@
 import { HAYES_BENNETT_1999, HAYES_MOULTON_2017, ZHU_LAKKIS_2014 } from '@/lib/rules/citations';
 import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
 import { adjustAlpha, formatNumber } from './adjust';
+import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
 import { inputError } from './errors';
 import { clusterRecruitment, effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
 import { rateEffect } from './two-rates';
 import { zSum, zTestPower, type Sides } from './power';
-import { findUnknown, presence, requireTargetPower, solveEffect, solveSize, type SizeSolution } from './solve';
+import { findUnknown, presence, requireTargetPower, solveEffect, solveSize } from './solve';
 import type { CalculationOutput, Feasibility } from './types';
 
 export type ClusterRatesRequest = Extract<CalculationRequest, { kind: 'cluster-rates' }>;
 
-const MAX_CLUSTERS_PER_ARM = 1_000_000;
-const MAX_CLUSTER_SIZE = 1_000_000;
 /** The schema's bounds on the rate ratio. */
 const MIN_RATE_RATIO = 1e-6;
 const MAX_RATE_RATIO = 1e6;
@@ -112,23 +111,18 @@ export function clusterRates(request: ClusterRatesRequest): CalculationOutput {
     ({ size: c, power, feasibility } = s);
     warnings.push(...sizeFeasibilityWarning(feasibility, 'clusters per arm', s.size, s.power, target));
   } else if (solvedFor === 'clusterSize') {
-    const at = (size: number) => clusterRatesPower({ ...base, rateRatio: rateRatio!, clusterSize: size, clustersPerArm: c! });
-    const plateauPower = at(Infinity);
-    extra.plateauPower = plateauPower;
-    const s: SizeSolution =
-      plateauPower < target ? { size: MAX_CLUSTER_SIZE, power: at(MAX_CLUSTER_SIZE), feasibility: 'unreachable' } : solveSize(at, target, 1, MAX_CLUSTER_SIZE);
+    const s = solveClusterSize({
+      powerAt: (size) => clusterRatesPower({ ...base, rateRatio: rateRatio!, clusterSize: size, clustersPerArm: c! }),
+      plateauAt: (clusters) => clusterRatesPower({ ...base, rateRatio: rateRatio!, clusterSize: Infinity, clustersPerArm: clusters }),
+      clustersPerArm: c!,
+      target,
+      why: `the rates still vary between clusters (coefficient of variation ${betweenClusterCv})`,
+      members: 'participants per cluster',
+    });
     ({ size: m, power, feasibility } = s);
-    if (feasibility === 'unreachable') {
-      const needed = solveSize((k) => clusterRatesPower({ ...base, rateRatio: rateRatio!, clusterSize: Infinity, clustersPerArm: k }), target, 2, MAX_CLUSTERS_PER_ARM);
-      extra.clustersPerArmNeeded = needed.feasibility === 'unreachable' ? null : needed.size;
-      warnings.push(
-        `With ${c} clusters per arm no cluster size reaches power ${formatNumber(target)}: as clusters grow, power levels off at ` +
-          `${formatNumber(plateauPower)} because the rates still vary between clusters (coefficient of variation ${betweenClusterCv}).` +
-          (extra.clustersPerArmNeeded !== null ? ` At least ${extra.clustersPerArmNeeded} clusters per arm are needed, with large clusters.` : ''),
-      );
-    } else {
-      warnings.push(...sizeFeasibilityWarning(feasibility, 'participants per cluster', s.size, s.power, target));
-    }
+    extra.plateauPower = s.plateauPower;
+    if (s.clustersPerArmNeeded !== undefined) extra.clustersPerArmNeeded = s.clustersPerArmNeeded;
+    warnings.push(...s.warnings);
   } else {
     // The effect is 1 − RR for a reduction, RR − 1 for an increase; power rises with either
     // (the derivative of (λ0 − λ1)²/V in RR has the sign of RR − 1), up to the schema's bound.
