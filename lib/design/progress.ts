@@ -3,7 +3,7 @@
  * use it. "started" means something is filled in but not enough yet.
  */
 import { designFacts } from './facts';
-import type { Design, DesignPart, Level } from './schema';
+import type { Assumptions, Design, DesignPart, Level } from './schema';
 
 export type StepState = 'complete' | 'started' | 'empty';
 
@@ -18,7 +18,8 @@ export function stepStates(d: Design): Record<DesignPart, StepState> {
   const needIcc = iccLevels(d);
   const s = d.assumptions;
   const iccsDone = needIcc.every((l) => s.iccs.some((c) => c.levelId === l.id));
-  const assumptions: StepState = s.outcomeSd && s.effect && iccsDone ? 'complete' : s.outcomeSd || s.effect || s.iccs.length ? 'started' : 'empty';
+  const given = outcomeAssumptions(d).map((name) => s[name] !== undefined);
+  const assumptions: StepState = given.every(Boolean) && iccsDone ? 'complete' : given.some(Boolean) || s.iccs.length ? 'started' : 'empty';
   const an = d.analysis;
   const analysis: StepState = an.method && an.unitOfAnalysisLevelId ? 'complete' : an.method || an.unitOfAnalysisLevelId ? 'started' : 'empty';
   return { outcome, structure, assignment, occasions, assumptions, analysis };
@@ -27,4 +28,23 @@ export function stepStates(d: Design): Record<DesignPart, StepState> {
 /** Levels whose ICC the design needs (lib/design/facts.ts): every level above the bottom that groups observations. */
 export function iccLevels(d: Design): Level[] {
   return designFacts(d).iccLevels.map((l) => l.level);
+}
+
+/**
+ * The outcome's own numbers the Assumptions step asks for: a yes-or-no outcome its control
+ * proportion and effect; counts a baseline rate, rate ratio, follow-up time and overdispersion
+ * (with the variation of rates between clusters when clusters are randomised); any other outcome
+ * its SD and the smallest important difference.
+ */
+export function outcomeAssumptions(d: Design): (keyof Assumptions)[] {
+  if (d.outcome.type === 'binary') return ['controlProportion', 'proportionEffect'];
+  if (d.outcome.type === 'count') return ['baselineRate', 'rateRatio', 'followUpTime', 'dispersion', ...(clusterRandomised(d) ? (['betweenClusterCv'] as const) : [])];
+  return ['outcomeSd', 'effect'];
+}
+
+/** Whether the level of assignment holds members below it that are not repeated measurements (whole clusters randomised). */
+export function clusterRandomised(d: Design): boolean {
+  const f = designFacts(d);
+  const below = f.assignment ? f.levels[f.assignment.index + 1] : undefined;
+  return below !== undefined && below.level.kind !== 'repeated';
 }

@@ -167,6 +167,8 @@ export const occasionsSchema = z.object({
 // ---------------------------------------------------------------- assumptions
 
 export const SOURCE_KINDS = ['published', 'pilot', 'expert', 'none'] as const;
+/** How the effect on a yes-or-no outcome is stated: the second proportion itself, or against the first. */
+export const PROPORTION_EFFECT_MEASURES = ['p2', 'difference', 'riskRatio', 'oddsRatio'] as const;
 export const CERTAINTY = ['low', 'medium', 'high'] as const;
 
 export const sourceSchema = z.object({
@@ -187,6 +189,39 @@ export const assumptionsSchema = z.object({
   occasionCorrelation: sourced(z.number().min(-1).max(1)).optional(),
   /** The smallest difference worth detecting, in the outcome's units. */
   effect: sourced(z.number().positive('The effect must be above 0; give its size, not its sign.').max(1e12)).optional(),
+  // Yes-or-no outcomes.
+  /** The share with the outcome expected without the intervention, 0 < p < 1. */
+  controlProportion: sourced(z.number().gt(0, 'The proportion must be above 0.').lt(1, 'The proportion must be below 1.')).optional(),
+  /** The effect worth detecting: the proportion expected with the intervention, or its difference, risk ratio or odds ratio against controlProportion. */
+  proportionEffect: z
+    .object({
+      measure: z.enum(PROPORTION_EFFECT_MEASURES),
+      value: z.number().finite('The effect must be a number.').gt(-1, 'The effect must be above −1.').max(1e6, 'The effect can be at most 1,000,000.'),
+      source: sourceSchema.default({ kind: 'none', certainty: 'low' }),
+    })
+    .superRefine((e, ctx) => {
+      const problem =
+        e.measure === 'p2' && !(e.value > 0 && e.value < 1)
+          ? 'The proportion must be between 0 and 1.'
+          : e.measure === 'difference' && !(e.value < 1)
+            ? 'The difference must be between −1 and 1.'
+            : (e.measure === 'riskRatio' || e.measure === 'oddsRatio') && !(e.value > 0)
+              ? 'The ratio must be above 0.'
+              : null;
+      if (problem) ctx.addIssue({ code: 'custom', path: ['value'], message: problem });
+    })
+    .optional(),
+  // Counts of events.
+  /** Events per unit of follow-up time expected without the intervention. */
+  baselineRate: sourced(z.number().positive('The rate must be above 0.').max(1e6)).optional(),
+  /** The rate ratio worth detecting (rate with the intervention / baseline rate): 0.8 is a 20% reduction. */
+  rateRatio: sourced(z.number().positive('The rate ratio must be above 0.').max(1e6).refine((x) => x !== 1, 'A rate ratio of 1 is no effect.')).optional(),
+  /** Follow-up time of each unit, in the time unit of the rate. */
+  followUpTime: sourced(z.number().positive('The follow-up time must be above 0.').max(1e6)).optional(),
+  /** Negative binomial dispersion between units (variance = mean + dispersion × mean²); 0 for plain Poisson counts. */
+  dispersion: sourced(z.number().min(0, 'The dispersion is at least 0.').max(100, 'The dispersion can be at most 100.')).optional(),
+  /** Coefficient of variation of the true rates between clusters (Hayes & Bennett's k), for cluster-randomised counts. */
+  betweenClusterCv: sourced(z.number().min(0, 'The coefficient of variation is at least 0.').max(5, 'The coefficient of variation can be at most 5.')).optional(),
   alpha: z.number().gt(0).lt(0.5).default(0.05),
   power: z.number().gt(0.5).lt(1).default(0.8),
 });

@@ -8,13 +8,21 @@
  * - a continuous exposure: `regression`, the slope of the outcome on the exposure;
  * - the treatment varies within the experimental unit in a two-period cross-over:
  *   `two-group-means` on the period differences (the AB/BA analysis, Senn 2002), below;
+ * - a count outcome (events over a follow-up time): whole clusters randomised → `cluster-rates`
+ *   (Hayes & Bennett 1999), otherwise `two-rates` (Wald test on the log rate ratio, Poisson or
+ *   negative binomial), from the baseline rate, rate ratio, follow-up time, overdispersion and
+ *   between-cluster coefficient of variation of the Assumptions step (`planForCountOutcome`);
  * - the experimental unit holds observations of units below it that are not repeated
  *   measurements over time (pupils in classrooms, plants in trays, replicate wells): binary
- *   outcome → `two-proportions` with the design effect; otherwise `cluster-means`;
+ *   outcome → `cluster-proportions` (`planForBinaryOutcome`); otherwise `cluster-means`;
  * - the experimental unit is measured repeatedly: trajectory of interest → `longitudinal-slopes`;
  *   baselines and follow-ups, or several follow-ups → `repeated-measures` (ANCOVA when the plan or
  *   the recommendation adjusts for the baseline);
- * - independent units measured once: binary → `two-proportions`; otherwise `two-group-means`.
+ * - independent units measured once: binary → `two-proportions` (`planForBinaryOutcome`);
+ *   otherwise `two-group-means`.
+ * Binary outcomes are planned from the control proportion and the effect as the Assumptions step
+ * states it (second proportion, difference, risk ratio or odds ratio); no count or binary outcome
+ * is sized by a normal approximation on an SD.
  *
  * Deeper nesting (trays → plants → leaves). The cluster-means calculation has two levels, the
  * cluster and its members. With ICCs read as shares ρₖ of the total variance σ² (the convention
@@ -39,7 +47,7 @@
  * on the Plan tab). When the effect is missing but the planned size is known, the smallest
  * detectable effect is solved for instead.
  */
-import type { Design, Level, Source } from '@/lib/design/schema';
+import type { Assumptions, Design, Level, Source } from '@/lib/design/schema';
 import { DESIGN_STEPS } from '@/lib/design/schema';
 import { designFacts, iccOf, sizeCv, smallestArm, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
 import { cap, dec, noun, num } from '@/lib/rules/text';
@@ -309,14 +317,7 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
   armsNotes(b, f, false);
   const planned = smallestArm(f, E);
 
-  if (binary) {
-    b.rationale.push('The outcome is binary: two proportions, with the sample size multiplied by the design effect of the clusters (Donner & Klar 2000).');
-    b.need('p1', 'The proportion expected in the comparison arm: the design has no field for it; type it below.');
-    b.need('p2', 'The proportion expected in the treated arm: type it below.');
-    if (planned !== undefined) b.planned = { input: 'nPerGroup', value: planned * Math.max(1, Math.round(m)) };
-    b.labels.size = `${noun(member.level, true)} per arm`;
-    return { kind: 'two-proportions' as const, solveFor: 'nPerGroup' };
-  }
+  if (binary) return planForBinaryOutcome(b, d.assumptions, { clustered: true, planned });
 
   const hasEffect = effect(b, f, 'delta', 'Smallest difference worth detecting');
   const solveFor = chooseUnknown(b, hasEffect, 'clustersPerArm', 'delta', planned, 2);
@@ -426,13 +427,7 @@ function independent(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary
     b.set('ratio', tidy(shares[1]! / shares[0]!), `Allocation ratio (${d.assignment.arms[1]!.name} : ${d.assignment.arms[0]!.name})`, design('Assignment step'));
     b.labels.size = `${noun(E.level, true)} in ${d.assignment.arms[0]!.name}`;
   }
-  if (binary) {
-    b.rationale.push(`${cap(noun(E.level, true))} are independent and the outcome is binary: two proportions, normal approximation (Fleiss, Levin & Paik 2003).`);
-    b.need('p1', 'The proportion expected in the comparison arm: the design has no field for it; type it below.');
-    b.need('p2', 'The proportion expected in the treated arm: type it below.');
-    if (planned !== undefined && planned >= 2) b.planned = { input: 'nPerGroup', value: planned };
-    return { kind: 'two-proportions' as const, solveFor: 'nPerGroup' };
-  }
+  if (binary) return planForBinaryOutcome(b, d.assumptions, { clustered: false, planned });
   b.rationale.push(`${cap(noun(E.level, true))} are assigned to the arms and measured once each, independently: the calculation is the two-sample t test (Cohen 1988).`);
   const above = f.levels.slice(0, E.index).filter((l) => l.groupsObservations);
   if (above.length > 0) {
@@ -465,6 +460,108 @@ function exposure(b: Builder, d: Design, f: DesignFacts, E: LevelInfo | undefine
   const planned = E ? E.total : undefined;
   const solveFor = chooseUnknown(b, hasEffect, 'n', 'f2', planned, 3);
   return { kind: 'regression' as const, solveFor };
+}
+
+// ---------------------------------------------------------------- count and binary outcomes
+
+/** What the count and binary plans need from the design, read by the caller. */
+export interface OutcomeSizing {
+  /** Whole clusters are randomised (the size is clusters per arm); the members per cluster are set by the caller or given here. */
+  clustered: boolean;
+  /** Members analysed per cluster, for counts (the binary plan takes it from the cluster inputs already set). */
+  clusterSize?: { value: number; name: string; source: PlanAssumption['source'] };
+  /** The size the design plans: units per arm, or clusters per arm. */
+  planned?: number;
+  /** Allocation ratio of the second arm to the first, when the arms are unequal (units randomised one by one). */
+  ratio?: number;
+}
+
+const EFFECT_NAMES: Record<NonNullable<Assumptions['proportionEffect']>['measure'], string> = {
+  p2: 'Proportion expected with the intervention',
+  difference: 'Difference in proportions worth detecting',
+  riskRatio: 'Risk ratio worth detecting',
+  oddsRatio: 'Odds ratio worth detecting',
+};
+
+/**
+ * A yes-or-no outcome: two proportions (units randomised one by one) or cluster-randomised
+ * proportions (the ICC, cluster size and its CV already set by the caller), with the control
+ * proportion and the effect in the form the Assumptions step gives it.
+ */
+function planForBinaryOutcome(b: Builder, a: Assumptions, read: OutcomeSizing) {
+  const kind = read.clustered ? ('cluster-proportions' as const) : ('two-proportions' as const);
+  const sizeInput = read.clustered ? 'clustersPerArm' : 'nPerGroup';
+  b.rationale.push(
+    read.clustered
+      ? 'The outcome is yes or no and whole clusters are randomised: two proportions at the effective number per arm, clusters × members / design effect, with the ICC on the proportion scale (Donner & Klar 2000); the power of a t test on cluster proportions is shown beside it.'
+      : 'Units are randomised one by one and the outcome is yes or no: two proportions by the normal approximation (Fleiss, Levin & Paik 2003).',
+  );
+  if ('ratio' in b.inputs) {
+    delete b.inputs.ratio;
+    b.notes.push('The arms are not equal in size; the calculation for two proportions assumes equal arms, with the planned number taken from the smallest arm.');
+  }
+  if (a.controlProportion) b.set('p1', a.controlProportion.value, 'Proportion expected without the intervention', fromSource(a.controlProportion.source));
+  else b.need('p1', 'The proportion expected without the intervention (Assumptions step).', 'assumptions');
+  const e = a.proportionEffect;
+  if (e) b.set(e.measure, e.value, EFFECT_NAMES[e.measure], fromSource(e.source));
+  const solveFor = chooseUnknown(b, e !== undefined, sizeInput, 'p2', read.planned, 2);
+  return { kind, solveFor };
+}
+
+/**
+ * Counts of events: two event rates (units randomised one by one; Wald test on the log rate
+ * ratio, Poisson or negative binomial) or cluster-randomised rates (Hayes & Bennett 1999), from
+ * the baseline rate, rate ratio, follow-up time, overdispersion and — for clusters — the
+ * variation of rates between clusters that the Assumptions step gives.
+ */
+function planForCountOutcome(b: Builder, a: Assumptions, read: OutcomeSizing) {
+  const kind = read.clustered ? ('cluster-rates' as const) : ('two-rates' as const);
+  const sizeInput = read.clustered ? 'clustersPerArm' : 'nPerGroup';
+  b.rationale.push(
+    read.clustered
+      ? 'The outcome is a count of events and whole clusters are randomised: clusters per arm by Hayes & Bennett (1999), from the variation of the rates between clusters and the person-time followed in each.'
+      : 'The outcome is a count of events over each unit’s follow-up: the Wald test on the log rate ratio, for Poisson or negative binomial counts (Zhu & Lakkis 2014).',
+  );
+  const sourced = (input: string, value: Assumptions['baselineRate'], name: string, missing: string) => {
+    if (value) b.set(input, value.value, name, fromSource(value.source));
+    else b.need(input, `${missing} (Assumptions step).`, 'assumptions');
+  };
+  sourced('baselineRate', a.baselineRate, 'Baseline rate (events per unit of follow-up time)', 'The rate of events expected without the intervention');
+  sourced('exposure', a.followUpTime, 'Follow-up time per unit', 'The follow-up time of each unit, in the time unit of the rate');
+  sourced('dispersion', a.dispersion, 'Overdispersion between units', 'The overdispersion of the counts between units (0 for plain Poisson counts)');
+  if (read.clustered) {
+    sourced('betweenClusterCv', a.betweenClusterCv, 'Between-cluster coefficient of variation of the rate', 'The coefficient of variation of the rates between clusters');
+    if (read.clusterSize) b.set('clusterSize', read.clusterSize.value, read.clusterSize.name, read.clusterSize.source);
+  } else if (read.ratio !== undefined && Math.abs(read.ratio - 1) > 1e-9) {
+    b.set('ratio', tidy(read.ratio), 'Allocation ratio', design('Assignment step'));
+  }
+  if (a.rateRatio) b.set('rateRatio', a.rateRatio.value, 'Rate ratio worth detecting', fromSource(a.rateRatio.source));
+  const solveFor = chooseUnknown(b, a.rateRatio !== undefined, sizeInput, 'rateRatio', read.planned, 2);
+  return { kind, solveFor };
+}
+
+/**
+ * The numbers a count plan reads from the design's facts: cluster-randomised with the members
+ * per cluster analysed (after attrition, as for cluster means), or units randomised one by one
+ * with their allocation ratio; and the planned size.
+ */
+function countSizing(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, clustered: boolean): OutcomeSizing {
+  const planned = smallestArm(f, E);
+  if (!clustered) {
+    b.labels.size = `${noun(E.level, true)} per arm`;
+    armsNotes(b, f, true);
+    const shares = f.armShares;
+    return { clustered, planned, ...(shares.length >= 2 ? { ratio: shares[1]! / shares[0]! } : {}) };
+  }
+  const member = f.levels[E.index + 1]!;
+  b.labels.size = `${noun(E.level, true)} per arm`;
+  b.labels.member = `${noun(member.level, true)} per ${noun(E.level)}`;
+  armsNotes(b, f, false);
+  const dropout = typeof b.inputs.dropout === 'number' ? b.inputs.dropout : 0;
+  const analysed = Math.max(1, Math.floor(member.perParent * (1 - dropout) + 1e-9));
+  const name = `${cap(noun(member.level, true))} per ${noun(E.level)}${dropout > 0 ? ' analysed' : ''}`;
+  const source = dropout > 0 ? derived(`${num(member.perParent)} × (1 − ${dec(dropout, 3)}), rounded down`) : design('Structure step');
+  return { clustered, planned, clusterSize: { value: analysed, name, source } };
 }
 
 // ---------------------------------------------------------------- entry point
@@ -526,14 +623,15 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
   }
   const family = f.outcome.family;
   const binary = family === 'binary';
+  const count = family === 'count';
   if (!f.outcome.type) b.notes.push('The outcome type is not given; the calculation treats the outcome as continuous (Outcome step).');
-  else if (family !== 'continuous' && !binary) {
+  else if (family !== 'continuous' && !binary && !count) {
     b.notes.push(`The outcome is a ${family.replace(/-/g, ' ')}; the calculation uses its mean and SD (a normal approximation), which is rough when values pile up at a bound or are small counts.`);
   }
   common(b, d, f, recommendation);
 
   if (f.withinUnit) {
-    if (f.crossover?.periods !== 2 || binary) {
+    if (f.crossover?.periods !== 2 || binary || count) {
       b.rationale.push(
         `The treatment varies within each ${noun(E.level)}${f.crossover ? ` over ${f.crossover.periods} periods` : ''}; Unitwise calculates within-unit comparisons only for a two-period cross-over with a continuous outcome.`,
       );
@@ -546,7 +644,13 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
 
   const below = f.levels[E.index + 1];
   const measuredOverTime = below?.level.kind === 'repeated' || (!below && f.followUps.length + f.baselines.length >= 2);
-  if (below && E.groupsObservations && below.level.kind !== 'repeated') {
+  const clusterRandomised = below !== undefined && E.groupsObservations && below.level.kind !== 'repeated';
+  if (count) {
+    if (measuredOverTime) b.notes.push('The counts of all occasions are taken together: one rate per unit over its whole follow-up time.');
+    const r = planForCountOutcome(b, d.assumptions, countSizing(b, d, f, E, clusterRandomised));
+    return done(r.kind, r.solveFor);
+  }
+  if (clusterRandomised) {
     const r = clustered(b, d, f, E, binary);
     return done(r.kind, r.solveFor);
   }
