@@ -52,6 +52,8 @@ export const ANALYSIS_TITLES: Record<AnalysisName, string> = {
   huber: 'huber — Huber M-estimation (k = 1.345), sandwich SE',
   'log-ols': 'log-ols — least squares on the log outcome (effect as a ratio)',
   glm: 'glm — logistic or Poisson regression',
+  'glm-nb': 'glm-nb — negative-binomial regression for overdispersed counts',
+  glmm: 'glmm — logistic or Poisson mixed model with a random intercept',
 };
 
 export interface MetricValue {

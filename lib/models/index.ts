@@ -12,6 +12,9 @@
  *   huber           huber.ts          Huber M-estimation, sandwich SE (Huber 1964)
  *   log-ols         log-ols.ts        OLS on log y; the effect is a log ratio
  *   glm             glm.ts            logistic or Poisson regression, z test
+ *   glm-nb          glm-nb.ts         negative-binomial regression (log link), z test
+ *   glmm            glmm.ts           logistic or Poisson GLMM with a random intercept (Laplace
+ *                                     or adaptive quadrature), z test
  *
  * The functions reuse module-level buffers: call them from one thread at a time per module
  * instance (each worker thread has its own), and copy a result before the next call only if you
@@ -20,6 +23,8 @@
 import { fitClusterMeans, type ClusterMeansOptions } from './cluster-means';
 import { fitClusterRobust, type Cr2Options } from './cr2';
 import { fitGlm, type GlmOptions } from './glm';
+import { fitGlmNb, type GlmNbOptions } from './glm-nb';
+import { fitGlmm, type GlmmOptions } from './glmm';
 import { fitOlsHc3, type Hc3Options } from './hc3';
 import { fitHuber, type HuberOptions } from './huber';
 import { fitLogOls } from './log-ols';
@@ -27,8 +32,8 @@ import { fitMixed, type MixedOptions } from './mixed';
 import { fitOls, type OlsOptions } from './ols';
 import type { AnalysisName, Dataset, EffectEstimate, FixedEffects } from './types';
 
-export { fitClusterMeans, fitClusterRobust, fitGlm, fitHuber, fitLogOls, fitMixed, fitOls, fitOlsHc3 };
-export type { ClusterMeansOptions, Cr2Options, GlmOptions, Hc3Options, HuberOptions, MixedOptions, OlsOptions };
+export { fitClusterMeans, fitClusterRobust, fitGlm, fitGlmm, fitGlmNb, fitHuber, fitLogOls, fitMixed, fitOls, fitOlsHc3 };
+export type { ClusterMeansOptions, Cr2Options, GlmmOptions, GlmNbOptions, GlmOptions, Hc3Options, HuberOptions, MixedOptions, OlsOptions };
 
 /** The options each analysis takes. */
 export interface AnalysisOptionsMap {
@@ -40,11 +45,13 @@ export interface AnalysisOptionsMap {
   huber: HuberOptions;
   'log-ols': OlsOptions;
   glm: GlmOptions;
+  'glm-nb': GlmNbOptions;
+  glmm: GlmmOptions;
 }
 
 /** Options of any analysis, for callers that pass one options object to several analyses. */
 export type AnalysisOptions = Partial<
-  OlsOptions & Hc3Options & Cr2Options & ClusterMeansOptions & MixedOptions & HuberOptions & GlmOptions
+  OlsOptions & Hc3Options & Cr2Options & ClusterMeansOptions & MixedOptions & HuberOptions & GlmOptions & GlmNbOptions & GlmmOptions
 >;
 
 const FITS: { [K in AnalysisName]: (data: Dataset, fixed: FixedEffects, options?: AnalysisOptionsMap[K]) => EffectEstimate } = {
@@ -56,6 +63,8 @@ const FITS: { [K in AnalysisName]: (data: Dataset, fixed: FixedEffects, options?
   huber: fitHuber,
   'log-ols': fitLogOls,
   glm: fitGlm,
+  'glm-nb': fitGlmNb,
+  glmm: fitGlmm,
 };
 
 /** Fits the analysis `name` to `data`; see the file of each analysis for what it throws. */
