@@ -250,74 +250,95 @@ export class GlmmCriterion {
     const { p, s, m, x, family } = this.patterns;
     const { nodes, logWeights } = this.rule;
     const q = nodes.length;
+    const laplace = q === 1;
     const eta0 = this.eta0;
-    // Sums at the mode: Σw, Σw′, Σw·x, Σw′·x.
+    // One pass at the mode: Σw, Σw′, Σw·x, Σw′·x, and (Laplace) ℓ(û) and Σ(s − μ)·x.
     let sw = 0;
     let sw1 = 0;
     let residual = 0;
-    const { wx, w1x } = this;
-    wx.fill(0);
-    w1x.fill(0);
+    let loglikMode = 0;
+    const { wx, w1x, rx } = this;
+    if (grad) {
+      wx.fill(0);
+      w1x.fill(0);
+      if (laplace) rx.fill(0, 0, p);
+    }
     for (let k = from; k < to; k++) {
       const eta = eta0[k]! + theta * mode;
       let mu: number;
       let w: number;
       let w1: number;
       if (family === 'binomial') {
-        const pr = 1 / (1 + Math.exp(-eta));
+        // One exponential for both expit(η) and ln(1 + e^η).
+        const ex = Math.exp(-Math.abs(eta));
+        const pr = eta >= 0 ? 1 / (1 + ex) : ex / (1 + ex);
         mu = m[k]! * pr;
         w = mu * (1 - pr);
         w1 = w * (1 - 2 * pr);
+        if (laplace) loglikMode += s[k]! * eta - m[k]! * (Math.max(eta, 0) + Math.log1p(ex));
       } else {
         mu = m[k]! * Math.exp(eta);
         w = mu;
         w1 = mu;
+        if (laplace) loglikMode += s[k]! * eta - mu;
       }
       sw += w;
       sw1 += w1;
-      residual += s[k]! - mu;
+      const e = s[k]! - mu;
+      residual += e;
       if (grad) {
         for (let c = 0; c < p; c++) {
           const xc = x[k * p + c]!;
           wx[c]! += w * xc;
           w1x[c]! += w1 * xc;
+          if (laplace) rx[c]! += e * xc;
         }
       }
     }
     const d = 1 + theta * theta * sw;
     this.curvature[j] = d;
     const scale = 1 / Math.sqrt(d);
-    // The quadrature terms a_k = ln w_k + g(u_k) + z_k²/2.
-    const { a, r, rx, u } = this;
-    let largest = -Infinity;
-    for (let node = 0; node < q; node++) {
-      const z = nodes[node]!;
-      const uk = mode + scale * z;
-      u[node] = uk;
-      let loglik = 0;
-      let rk = 0;
-      if (grad) rx.fill(0, node * p, node * p + p);
-      for (let k = from; k < to; k++) {
-        const eta = eta0[k]! + theta * uk;
-        let mu: number;
-        if (family === 'binomial') {
-          loglik += s[k]! * eta - m[k]! * log1pExp(eta);
-          mu = m[k]! / (1 + Math.exp(-eta));
-        } else {
-          mu = m[k]! * Math.exp(eta);
-          loglik += s[k]! * eta - mu;
+    const { a, r, u } = this;
+    let logI: number;
+    let largest = 0;
+    let total = 1;
+    if (laplace) {
+      a[0] = loglikMode - 0.5 * mode * mode;
+      r[0] = residual;
+      u[0] = mode;
+      logI = a[0] - 0.5 * Math.log(d);
+    } else {
+      // The quadrature terms a_k = ln w_k + g(u_k) + z_k²/2.
+      largest = -Infinity;
+      for (let node = 0; node < q; node++) {
+        const z = nodes[node]!;
+        const uk = mode + scale * z;
+        u[node] = uk;
+        let loglik = 0;
+        let rk = 0;
+        if (grad) rx.fill(0, node * p, node * p + p);
+        for (let k = from; k < to; k++) {
+          const eta = eta0[k]! + theta * uk;
+          let mu: number;
+          if (family === 'binomial') {
+            loglik += s[k]! * eta - m[k]! * log1pExp(eta);
+            mu = m[k]! / (1 + Math.exp(-eta));
+          } else {
+            mu = m[k]! * Math.exp(eta);
+            loglik += s[k]! * eta - mu;
+          }
+          const e = s[k]! - mu;
+          rk += e;
+          if (grad) for (let c = 0; c < p; c++) rx[node * p + c]! += e * x[k * p + c]!;
         }
-        const e = s[k]! - mu;
-        rk += e;
-        if (grad) for (let c = 0; c < p; c++) rx[node * p + c]! += e * x[k * p + c]!;
+        r[node] = rk;
+        a[node] = logWeights[node]! + loglik - 0.5 * uk * uk + 0.5 * z * z;
+        if (a[node]! > largest) largest = a[node]!;
       }
-      r[node] = rk;
-      a[node] = logWeights[node]! + loglik - 0.5 * uk * uk + 0.5 * z * z;
-      if (a[node]! > largest) largest = a[node]!;
+      total = 0;
+      for (let node = 0; node < q; node++) total += Math.exp(a[node]! - largest);
+      logI = Math.log(scale) + largest + Math.log(total);
     }
-    let total = 0;
-    for (let node = 0; node < q; node++) total += Math.exp(a[node]! - largest);
-    const logI = Math.log(scale) + largest + Math.log(total);
     if (!grad) return logI;
 
     // dû/dφ and dD/dφ (index p is θ).
@@ -329,9 +350,10 @@ export class GlmmCriterion {
     dd[p] = 2 * theta * sw + t2 * mode * sw1 + t2 * theta * sw1 * du[p]!;
     for (let c = 0; c <= p; c++) grad[c] = (-0.5 * dd[c]!) / d;
     for (let node = 0; node < q; node++) {
-      const weight = Math.exp(a[node]! - largest) / total;
+      const weight = laplace ? 1 : Math.exp(a[node]! - largest) / total;
       const z = nodes[node]!;
-      const slope = theta * r[node]! - u[node]!;
+      // g′(u_k); 0 at the mode itself (the Laplace node), up to the mode's tolerance.
+      const slope = laplace ? 0 : theta * r[node]! - u[node]!;
       for (let c = 0; c <= p; c++) {
         const ds = -0.5 * scale * (dd[c]! / d);
         const direct = c < p ? rx[node * p + c]! : r[node]! * u[node]!;
