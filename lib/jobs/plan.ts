@@ -31,6 +31,7 @@ const ANALYSIS_COST_US: Record<AnalysisName, number> = {
   glm: 0.3,
   'glm-nb': 0.6,
   glmm: 1,
+  'period-difference': 0.03,
 };
 /** Estimated µs per fit beyond the rows (iterations' set-up, small matrices). */
 const FIT_OVERHEAD_US: Record<AnalysisName, number> = {
@@ -44,6 +45,7 @@ const FIT_OVERHEAD_US: Record<AnalysisName, number> = {
   glm: 40,
   'glm-nb': 80,
   glmm: 300,
+  'period-difference': 5,
 };
 const GENERATION_US_PER_ROW = 0.12;
 

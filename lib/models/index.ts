@@ -15,6 +15,7 @@
  *   glm-nb          glm-nb.ts         negative-binomial regression (log link), z test
  *   glmm            glmm.ts           logistic or Poisson GLMM with a random intercept (Laplace
  *                                     or adaptive quadrature), z test
+ *   period-difference  period-difference.ts  AB/BA cross-over: t test on the period differences
  *
  * The functions reuse module-level buffers: call them from one thread at a time per module
  * instance (each worker thread has its own), and copy a result before the next call only if you
@@ -30,10 +31,11 @@ import { fitHuber, type HuberOptions } from './huber';
 import { fitLogOls } from './log-ols';
 import { fitMixed, type MixedOptions } from './mixed';
 import { fitOls, type OlsOptions } from './ols';
+import { fitPeriodDifference, type PeriodDifferenceOptions } from './period-difference';
 import type { AnalysisName, Dataset, EffectEstimate, FixedEffects } from './types';
 
-export { fitClusterMeans, fitClusterRobust, fitGlm, fitGlmm, fitGlmNb, fitHuber, fitLogOls, fitMixed, fitOls, fitOlsHc3 };
-export type { ClusterMeansOptions, Cr2Options, GlmmOptions, GlmNbOptions, GlmOptions, Hc3Options, HuberOptions, MixedOptions, OlsOptions };
+export { fitClusterMeans, fitClusterRobust, fitGlm, fitGlmm, fitGlmNb, fitHuber, fitLogOls, fitMixed, fitOls, fitOlsHc3, fitPeriodDifference };
+export type { ClusterMeansOptions, Cr2Options, GlmmOptions, GlmNbOptions, GlmOptions, Hc3Options, HuberOptions, MixedOptions, OlsOptions, PeriodDifferenceOptions };
 
 /** The options each analysis takes. */
 export interface AnalysisOptionsMap {
@@ -47,11 +49,12 @@ export interface AnalysisOptionsMap {
   glm: GlmOptions;
   'glm-nb': GlmNbOptions;
   glmm: GlmmOptions;
+  'period-difference': PeriodDifferenceOptions;
 }
 
 /** Options of any analysis, for callers that pass one options object to several analyses. */
 export type AnalysisOptions = Partial<
-  OlsOptions & Hc3Options & Cr2Options & ClusterMeansOptions & MixedOptions & HuberOptions & GlmOptions & GlmNbOptions & GlmmOptions
+  OlsOptions & Hc3Options & Cr2Options & ClusterMeansOptions & MixedOptions & HuberOptions & GlmOptions & GlmNbOptions & GlmmOptions & PeriodDifferenceOptions
 >;
 
 const FITS: { [K in AnalysisName]: (data: Dataset, fixed: FixedEffects, options?: AnalysisOptionsMap[K]) => EffectEstimate } = {
@@ -65,6 +68,7 @@ const FITS: { [K in AnalysisName]: (data: Dataset, fixed: FixedEffects, options?
   glm: fitGlm,
   'glm-nb': fitGlmNb,
   glmm: fitGlmm,
+  'period-difference': fitPeriodDifference,
 };
 
 /** Fits the analysis `name` to `data`; see the file of each analysis for what it throws. */
