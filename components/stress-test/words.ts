@@ -16,6 +16,7 @@ export const VIOLATION_TITLES: Record<Violation, string> = {
   'unequal-variance': 'Unequal variance',
   nonlinear: 'Curved relation',
   serial: 'Serial correlation between occasions',
+  'carry-over': 'Carry-over from the previous period',
 };
 
 function num(x: number): string {
@@ -40,6 +41,10 @@ export function describeScenario(s: Scenario): string {
       return `Curved relation (${s.shape} in ${s.on ?? 'time or a covariate'}, rising ${num(s.strength)} SD, fitted as a line)`;
     case 'serial':
       return `Serial correlation between occasions (AR(1) with ρ = ${num(s.ar)})`;
+    case 'carry-over':
+      return s.size !== undefined
+        ? `Carry-over: the second arm's treatment adds ${num(s.size)} in the period after it`
+        : `Carry-over: ${num(s.fraction * 100)}% of the effect persists into the period after the second arm`;
   }
 }
 
@@ -52,6 +57,9 @@ export const ANALYSIS_TITLES: Record<AnalysisName, string> = {
   huber: 'huber — Huber M-estimation (k = 1.345), sandwich SE',
   'log-ols': 'log-ols — least squares on the log outcome (effect as a ratio)',
   glm: 'glm — logistic or Poisson regression',
+  'glm-nb': 'glm-nb — negative-binomial regression for overdispersed counts',
+  glmm: 'glmm — logistic or Poisson mixed model with a random intercept',
+  'period-difference': 'period-difference — t test on the differences between the two periods (AB/BA cross-over)',
 };
 
 export interface MetricValue {

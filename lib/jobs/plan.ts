@@ -29,6 +29,9 @@ const ANALYSIS_COST_US: Record<AnalysisName, number> = {
   huber: 0.2,
   'log-ols': 0.04,
   glm: 0.3,
+  'glm-nb': 0.6,
+  glmm: 1,
+  'period-difference': 0.03,
 };
 /** Estimated µs per fit beyond the rows (iterations' set-up, small matrices). */
 const FIT_OVERHEAD_US: Record<AnalysisName, number> = {
@@ -40,6 +43,9 @@ const FIT_OVERHEAD_US: Record<AnalysisName, number> = {
   huber: 40,
   'log-ols': 5,
   glm: 40,
+  'glm-nb': 80,
+  glmm: 300,
+  'period-difference': 5,
 };
 const GENERATION_US_PER_ROW = 0.12;
 

@@ -36,6 +36,7 @@ const SCENARIO_PHRASES: Record<Scenario['violation'], string> = {
   'unequal-variance': 'With unequal variances',
   nonlinear: 'With a curved relation',
   serial: 'With serial correlation',
+  'carry-over': 'With carry-over between periods',
 };
 
 /** 0.25 → "25%", 0.051 → "5.1%", 0.0004 → "0.04%". */
