@@ -9,6 +9,9 @@
  * - `huber`: gaussian outcomes (an M-estimator of a location; it has nothing to downweight in 0/1
  *   data).
  * - `glm`: binary and count outcomes (logistic or Poisson regression).
+ * - `glmm`: binary and count outcomes with clusters or occasions (a random intercept on the link scale).
+ * - `glm-nb`: count outcomes (negative-binomial regression, for overdispersed counts).
+ * - `period-difference`: a two-period (AB/BA) cross-over of a continuous outcome (Senn 2002).
  * - `log-ols`: outcomes that the data model makes positive. None of the models in
  *   lib/sim/generate.ts does: gaussian outcomes have normal random effects and errors (every
  *   scenario's errors can be negative), counts can be 0, binary outcomes are 0 or 1. A log-normal
@@ -29,6 +32,8 @@ const POSITIVE: Record<Family, boolean> = { gaussian: false, binary: false, coun
 export function analysisApplies(analysis: AnalysisName, spec: SimulationSpecInput): boolean {
   const family: Family = spec.truth.family ?? 'gaussian';
   const grouped = spec.design.clustersPerArm !== undefined || spec.design.occasions !== undefined;
+  /** Something a random intercept can sit on: clusters, occasions, blocks or a cross-over's units. */
+  const intercept = grouped || spec.design.blocks !== undefined || spec.design.crossover !== undefined;
   switch (analysis) {
     case 'ols':
     case 'ols-hc3':
@@ -41,6 +46,12 @@ export function analysisApplies(analysis: AnalysisName, spec: SimulationSpecInpu
       return family === 'gaussian';
     case 'glm':
       return family !== 'gaussian';
+    case 'glmm':
+      return family !== 'gaussian' && intercept;
+    case 'glm-nb':
+      return family === 'count';
+    case 'period-difference':
+      return spec.design.crossover?.periods === 2 && family === 'gaussian';
     case 'log-ols':
       return POSITIVE[family];
   }
