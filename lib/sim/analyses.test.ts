@@ -15,8 +15,8 @@ describe('offeredAnalyses: only analyses defined for the simulated data', () => 
     ['gaussian, clusters', spec({ arms: 2, clustersPerArm: 10, clusterSize: 20 }, { icc: 0.1 }), ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'huber']],
     ['gaussian, occasions', spec({ arms: 2, unitsPerArm: 30, occasions: 4 }), ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'huber']],
     ['gaussian with a positive level (still normal: can be ≤ 0)', spec({ arms: 2, unitsPerArm: 30 }, { baseline: 50 }), ['ols', 'ols-hc3', 'huber']],
-    ['binary, clusters', spec({ arms: 2, clustersPerArm: 10, clusterSize: 20 }, { family: 'binary', sd: undefined }), ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'glm']],
-    ['count, independent units (counts can be 0)', spec({ arms: 2, unitsPerArm: 30 }, { family: 'count', sd: undefined }), ['ols', 'ols-hc3', 'glm']],
+    ['binary, clusters', spec({ arms: 2, clustersPerArm: 10, clusterSize: 20 }, { family: 'binary', sd: undefined }), ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'glm', 'glmm']],
+    ['count, independent units (counts can be 0)', spec({ arms: 2, unitsPerArm: 30 }, { family: 'count', sd: undefined }), ['ols', 'ols-hc3', 'glm', 'glm-nb']],
   ] as const)('%s', (_name, s, offered) => {
     expect(offeredAnalyses(s)).toEqual(offered);
   });
