@@ -25,7 +25,7 @@
  * The mode. g_j is strictly concave (g″ ≤ −1), so Newton's method on g′(u) = θΣ(s_i − μ_i) − u,
  * kept inside a bracket that shrinks with every step (bisection when a step leaves it), finds û_j
  * from any start; it starts from the previous evaluation's mode and stops when the step is below
- * 1e-14·(1 + |u|). The bracket: û ∈ [−θΣm_i, θΣm_i] (binomial), [−θΣe^{x_iᵀβ}, θΣs_i] (Poisson).
+ * 1e-14·(1 + |u|). The bracket: û ∈ [−θΣm_i, θΣm_i] (binomial), (−∞, θΣs_i] (Poisson).
  *
  * The gradient in φ = (β, θ), exact for the quadrature formula as it stands (the nodes move with
  * û and s): by the implicit function theorem dû/dφ = g_uφ/D, and with R_k = Σ(s_i − μ_i(u_k)),
@@ -138,6 +138,9 @@ export class GlmmCriterion {
   private readonly du: Float64Array;
   private readonly dd: Float64Array;
   private readonly groupGradient: Float64Array;
+  /** Per group: Σ trials (binomial) and Σ y, for the brackets of the modes. */
+  private readonly groupTrials: Float64Array;
+  private readonly groupTotals: Float64Array;
 
   constructor(
     readonly patterns: Patterns,
@@ -157,6 +160,14 @@ export class GlmmCriterion {
     this.du = new Float64Array(p + 1);
     this.dd = new Float64Array(p + 1);
     this.groupGradient = new Float64Array(p + 1);
+    this.groupTrials = new Float64Array(groups);
+    this.groupTotals = new Float64Array(groups);
+    for (let j = 0; j < groups; j++) {
+      for (let k = patterns.groupStart[j]!; k < patterns.groupStart[j + 1]!; k++) {
+        this.groupTrials[j]! += patterns.m[k]!;
+        this.groupTotals[j]! += patterns.s[k]!;
+      }
+    }
   }
 
   /**
@@ -197,30 +208,18 @@ export class GlmmCriterion {
     }
     const { s, m, family } = this.patterns;
     const eta0 = this.eta0;
-    let lo: number;
-    let hi: number;
-    if (family === 'binomial') {
-      let total = 0;
-      for (let k = from; k < to; k++) total += m[k]!;
-      lo = -theta * total;
-      hi = theta * total;
-    } else {
-      let sum = 0;
-      let rate = 0;
-      for (let k = from; k < to; k++) {
-        sum += s[k]!;
-        rate += m[k]! * Math.exp(eta0[k]!);
-      }
-      lo = Math.max(-theta * rate, -1e6);
-      hi = theta * sum;
-    }
+    const binomial = family === 'binomial';
+    // The bracket: û ≤ θΣs (and ≥ −θΣm for the binomial); for the Poisson the lower end stays
+    // open until a point with g′ > 0 closes it (Newton never steps below such a point's left).
+    let hi = theta * (binomial ? this.groupTrials[j]! : this.groupTotals[j]!);
+    let lo = binomial ? -hi : -Infinity;
     let u = Math.min(Math.max(this.modes[j]!, lo), hi);
     for (let iteration = 0; iteration < 200; iteration++) {
       let score = 0;
       let weight = 0;
       for (let k = from; k < to; k++) {
         const eta = eta0[k]! + theta * u;
-        if (family === 'binomial') {
+        if (binomial) {
           const mu = 1 / (1 + Math.exp(-eta));
           score += s[k]! - m[k]! * mu;
           weight += m[k]! * mu * (1 - mu);
@@ -231,15 +230,13 @@ export class GlmmCriterion {
         }
       }
       const g = theta * score - u;
+      const step = g / (1 + theta * theta * weight);
+      if (!(Math.abs(step) > 1e-14 * (1 + Math.abs(u)))) break;
       if (g > 0) lo = u;
-      else if (g < 0) hi = u;
-      else break;
-      const d = 1 + theta * theta * weight;
-      let next = u + g / d;
-      if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-      const step = Math.abs(next - u);
+      else hi = u;
+      let next = u + step;
+      if (!(next > lo && next < hi)) next = Number.isFinite(lo) ? 0.5 * (lo + hi) : hi - 2 * (hi - u) - 1;
       u = next;
-      if (step <= 1e-14 * (1 + Math.abs(u))) break;
     }
     this.modes[j] = u;
     return u;

@@ -12,7 +12,8 @@
  * H the Hessian of the deviance in (β, θ) at the estimates (glmer's default,
  * vcov(use.hessian = TRUE)), and the test is a z test (df = Infinity).
  *
- * Optimisation: β starts from the GLM fit (θ = 0, IRLS), θ from 1 (glmer's start). Newton's
+ * Optimisation: β starts from the GLM fit (θ = 0, IRLS), θ from a moment estimate (the spread of
+ * the groups' empirical logits or log rates around that fit beyond their sampling error). Newton's
  * method on (β, θ) with the exact gradient and a Hessian from forward differences of that
  * gradient (step 1e-4·max(1, |φ|)); when the Hessian is not positive definite a multiple of the
  * identity is added; steps longer than 5 are shortened, and halved until the deviance falls
@@ -277,6 +278,47 @@ function glmStart(patterns: Patterns, phi: Float64Array): { iterations: number }
 }
 
 /**
+ * A starting value for θ: the variance of the groups' empirical link values around the GLM fit,
+ * less their average sampling variance (an ANOVA-style moment estimate on the link scale:
+ * link((Σy + ½)/(Σm + 1)) with sampling variance 1/(Σm·p(1 − p)) for the binomial, ln((Σy + ½)/Σm)
+ * with 1/(Σm·μ) for the Poisson), floored at 0.1². Only where Newton's method starts.
+ */
+function momentTheta(patterns: Patterns, phi: Float64Array): number {
+  const { p, groups, groupStart, x, s, m, family } = patterns;
+  let sum = 0;
+  let sumSquares = 0;
+  let sampling = 0;
+  for (let j = 0; j < groups; j++) {
+    let sy = 0;
+    let sm = 0;
+    let eta = 0;
+    for (let k = groupStart[j]!; k < groupStart[j + 1]!; k++) {
+      let e = 0;
+      for (let c = 0; c < p; c++) e += x[k * p + c]! * phi[c]!;
+      sy += s[k]!;
+      sm += m[k]!;
+      eta += m[k]! * e;
+    }
+    eta /= sm;
+    let residual: number;
+    if (family === 'binomial') {
+      const pr = (sy + 0.5) / (sm + 1);
+      residual = Math.log(pr / (1 - pr)) - eta;
+      sampling += 1 / (sm * pr * (1 - pr));
+    } else {
+      const mu = (sy + 0.5) / sm;
+      residual = Math.log(mu) - eta;
+      sampling += 1 / (sm * mu);
+    }
+    sum += residual;
+    sumSquares += residual * residual;
+  }
+  if (groups < 2) return 0.1;
+  const variance = (sumSquares - (sum * sum) / groups) / (groups - 1) - sampling / groups;
+  return Math.sqrt(Math.max(variance, 0.01));
+}
+
+/**
  * Fits the GLMM of `problem`. Never throws on numerical trouble (only on bad input): the result's
  * `converged` is false instead.
  */
@@ -292,10 +334,10 @@ export function fitGlmmProblem(problem: GlmmProblem, options: GlmmFitOptions = {
   const criterion = new GlmmCriterion(patterns, gaussHermite(quadraturePoints));
   const search = new NewtonSearch(criterion, p + 1);
 
-  // The GLM (θ = 0), then the GLMM from θ = 1.
+  // The GLM (θ = 0), then the GLMM from a moment estimate of θ.
   const phi = new Float64Array(p + 1);
   const start = glmStart(patterns, phi);
-  phi[p] = 1;
+  phi[p] = momentTheta(patterns, phi);
   const run = search.minimise(phi, p + 1, maxIterations);
   const sigma = Math.abs(phi[p]!);
   const singular = sigma < SINGULAR_THETA;
