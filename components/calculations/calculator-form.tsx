@@ -12,7 +12,7 @@ import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
 import { calculationSchema, SOLVABLE, type CalculationKind } from '@/lib/validation/calculations';
 import { formatValue, labelOf } from './format';
-import { kindInfo, SOLVE_LABELS, type FieldSpec, type KindInfo } from './kinds';
+import { fieldsShown, groupFields, kindInfo, modeShown, SOLVE_LABELS, type FieldSpec, type KindInfo } from './kinds';
 import { headlineKeys } from './meaning';
 import { ResultPanel } from './result-panel';
 import { RadioChoice, SolveForChoice } from './solve-for-choice';
@@ -40,9 +40,7 @@ function toRequest(info: KindInfo, values: Values, solveFor: string | null, mode
   return out;
 }
 
-function visibleFields(info: KindInfo, solveFor: string | null, mode: string | null): FieldSpec[] {
-  return info.fields.filter((f) => f.name !== solveFor && !(f.modes && mode && !f.modes.includes(mode)) && !(solveFor === 'f2' && f.name === 'slope'));
-}
+const visibleFields = fieldsShown;
 
 /** Starting state of a kind: its demo example with the schema's defaults filled in. */
 function initialState(kind: CalculationKind): { values: Values; solveFor: string | null; mode: string | null } {
@@ -165,12 +163,24 @@ export function CalculatorForm({ kind }: { kind: CalculationKind }) {
           Inputs
         </h2>
         <SolveForChoice name="solveFor" solvable={solvable} value={solveFor} onChange={chooseUnknown} labelOf={(q) => solveLabel(kind, q)} />
-        {info.mode && <RadioChoice legend={info.mode.legend} name="mode" options={info.mode.options} value={mode} onChange={chooseMode} />}
-        <div className="grid gap-4 sm:grid-cols-2">
-          {fields.map((field) => (
-            <Field key={field.name} field={field} form={form} error={fieldError(errors, field.name)} />
-          ))}
-        </div>
+        {info.mode && modeShown(info, solveFor) && <RadioChoice legend={info.mode.legend} name="mode" options={info.mode.options} value={mode} onChange={chooseMode} />}
+        {groupFields(fields).map((group) => {
+          const grid = (
+            <div className="grid gap-4 sm:grid-cols-2">
+              {group.fields.map((field) => (
+                <Field key={field.name} field={field} form={form} error={fieldError(errors, field.name)} />
+              ))}
+            </div>
+          );
+          return group.legend === null ? (
+            <div key="(ungrouped)">{grid}</div>
+          ) : (
+            <fieldset key={group.legend} className="space-y-3 border-t border-line pt-4">
+              <legend className="pr-2 text-sm font-bold">{group.legend}</legend>
+              {grid}
+            </fieldset>
+          );
+        })}
       </form>
       <div className="space-y-4">
         <div aria-live="polite" aria-atomic="true" className="space-y-2">

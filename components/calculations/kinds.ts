@@ -11,13 +11,21 @@ export interface FieldSpec {
   help: string;
   input: 'number' | 'whole' | 'select' | 'times' | 'checkbox';
   options?: readonly (readonly [string, string])[];
-  /** Shown only in these modes (kinds with a mode switch: regression, optimal-allocation). */
+  /** Shown only in these modes (kinds with a mode switch: regression, optimal-allocation, the proportions). */
   modes?: readonly string[];
+  /** Shown only while this quantity is solved for (the direction of a solved effect). */
+  onlyWhenSolving?: string;
+  /** Hidden while this quantity is solved for (another form of the same effect: slope for f2, a risk ratio for p2). */
+  hiddenWhenSolving?: string;
+  /** The heading the field is listed under; fields without one come first, under no heading. */
+  group?: string;
 }
 
 export interface ModeSpec {
   legend: string;
   options: readonly (readonly [string, string])[];
+  /** The choice is moot, and hidden, while this quantity is solved for. */
+  hiddenWhenSolving?: string;
 }
 
 export interface KindInfo {
@@ -45,14 +53,23 @@ const f = {
   rho: { name: 'rho', label: 'Correlation between occasions', help: 'Correlation of two measurements of the same unit (compound symmetry).', input: 'number' } satisfies FieldSpec,
 };
 
+const TEST_GROUP = 'Significance and power';
+const ADJUSTMENTS_GROUP = 'Attrition and several outcomes';
+
 /** Significance, power, attrition and several outcomes: the same on every kind that has them. */
 const ERROR_RATES: FieldSpec[] = [
-  { name: 'alpha', label: 'Significance level (alpha)', help: 'The false-positive rate (type I error) of each test, e.g. 0.05.', input: 'number' },
-  { name: 'power', label: 'Power', help: 'The chance of detecting the effect if it is real, as a fraction: 0.8 means 80%.', input: 'number' },
+  { name: 'alpha', label: 'Significance level (alpha)', help: 'The false-positive rate (type I error) of each test, e.g. 0.05.', input: 'number', group: TEST_GROUP },
+  { name: 'power', label: 'Power', help: 'The chance of detecting the effect if it is real, as a fraction: 0.8 means 80%.', input: 'number', group: TEST_GROUP },
 ];
 const ADJUSTMENTS: FieldSpec[] = [
-  { name: 'dropout', label: 'Expected attrition', help: 'Share of units lost before the analysis, as a fraction (0.1 = 10%). Sizes to recruit are inflated by 1 / (1 − attrition).', input: 'number' },
-  { name: 'outcomes', label: 'Primary outcomes', help: 'Number of primary outcomes, each tested at the adjusted alpha.', input: 'whole' },
+  {
+    name: 'dropout',
+    label: 'Expected attrition',
+    help: 'Share of units lost before the analysis, as a fraction (0.1 = 10%). Sizes to recruit are inflated by 1 / (1 − attrition).',
+    input: 'number',
+    group: ADJUSTMENTS_GROUP,
+  },
+  { name: 'outcomes', label: 'Primary outcomes', help: 'Number of primary outcomes, each tested at the adjusted alpha.', input: 'whole', group: ADJUSTMENTS_GROUP },
   {
     name: 'multiplicity',
     label: 'Adjustment for several outcomes',
@@ -63,15 +80,85 @@ const ADJUSTMENTS: FieldSpec[] = [
       ['bonferroni', 'Bonferroni'],
       ['holm', 'Holm'],
     ],
+    group: ADJUSTMENTS_GROUP,
   },
 ];
+/** The sides of the test, listed with alpha and power. */
+const SIDES_FIELD: FieldSpec = { ...f.sides, group: TEST_GROUP };
+
+/** The four ways to give the effect on a yes-or-no outcome, and the fields behind them. */
+const PROPORTION_MODE: ModeSpec = {
+  legend: 'Describe the effect as',
+  options: [
+    ['p2', 'The proportion expected with the intervention'],
+    ['difference', 'A difference in proportions'],
+    ['riskRatio', 'A risk ratio'],
+    ['oddsRatio', 'An odds ratio'],
+  ],
+  hiddenWhenSolving: 'p2',
+};
+
+function proportionFields(group: string): FieldSpec[] {
+  const effect = { input: 'number', group, hiddenWhenSolving: 'p2' } as const;
+  return [
+    { name: 'p1', label: 'Proportion in the comparison group', help: 'Expected share with the outcome without the intervention, as a fraction (0.55 = 55%).', input: 'number', group },
+    { name: 'p2', label: 'Proportion with the intervention', help: 'Expected share with the outcome under the intervention, as a fraction.', modes: ['p2'], ...effect },
+    { name: 'difference', label: 'Difference in proportions', help: 'Proportion with the intervention minus the comparison one, as a fraction: 0.1 is ten percentage points more.', modes: ['difference'], ...effect },
+    { name: 'riskRatio', label: 'Risk ratio', help: 'Proportion with the intervention divided by the comparison one: 1.25 is a quarter more, 0.8 a fifth less.', modes: ['riskRatio'], ...effect },
+    { name: 'oddsRatio', label: 'Odds ratio', help: 'Odds of the outcome with the intervention divided by the odds without it.', modes: ['oddsRatio'], ...effect },
+    {
+      name: 'direction',
+      label: 'Look for a proportion',
+      help: 'Whether the smallest detectable effect is an increase or a decrease from the comparison proportion.',
+      input: 'select',
+      options: [
+        ['higher', 'Above the comparison one'],
+        ['lower', 'Below the comparison one'],
+      ],
+      onlyWhenSolving: 'p2',
+      group,
+    },
+  ];
+}
+
+function rateFields(group: string): FieldSpec[] {
+  return [
+    {
+      name: 'baselineRate',
+      label: 'Baseline rate (events per unit of follow-up time)',
+      help: 'Events expected per participant per unit of time without the intervention, e.g. 1.5 awakenings a night or 0.3 infections a person-year.',
+      input: 'number',
+      group,
+    },
+    { name: 'rateRatio', label: 'Rate ratio', help: 'Rate with the intervention divided by the baseline rate: 0.8 is a 20% reduction, 1.5 a 50% increase.', input: 'number', group },
+    {
+      name: 'direction',
+      label: 'Look for',
+      help: 'Whether the smallest detectable effect is a reduction or an increase in the rate.',
+      input: 'select',
+      options: [
+        ['lower', 'A reduction (rate ratio below 1)'],
+        ['higher', 'An increase (rate ratio above 1)'],
+      ],
+      onlyWhenSolving: 'rateRatio',
+      group,
+    },
+  ];
+}
+
+const FOLLOW_UP: FieldSpec = {
+  name: 'exposure',
+  label: 'Follow-up time per participant',
+  help: 'How long each participant is followed, in the time unit of the rate: 8 for eight nights with a rate per night.',
+  input: 'number',
+};
 
 export const KINDS: readonly KindInfo[] = [
   {
     kind: 'two-group-means',
     title: 'Two group means',
     when: 'Two independent groups compared on a continuous outcome, each unit measured once and randomised on its own — no clusters, no repeated measures.',
-    fields: [f.delta(), f.sd(), f.nPerGroup(), { name: 'ratio', label: 'Allocation ratio', help: 'Size of the second group divided by the first; 1 for equal groups.', input: 'number' }, f.sides, ...ERROR_RATES, ...ADJUSTMENTS],
+    fields: [f.delta(), f.sd(), f.nPerGroup(), { name: 'ratio', label: 'Allocation ratio', help: 'Size of the second group divided by the first; 1 for equal groups.', input: 'number' }, SIDES_FIELD, ...ERROR_RATES, ...ADJUSTMENTS],
   },
   {
     kind: 'regression',
@@ -86,7 +173,7 @@ export const KINDS: readonly KindInfo[] = [
     },
     fields: [
       { name: 'f2', label: 'Effect size f²', help: 'Cohen’s f² = R² explained by the tested predictors / (1 − R²); 0.02 small, 0.15 medium, 0.35 large (Cohen 1988).', input: 'number', modes: ['f2'] },
-      { name: 'slope', label: 'Slope', help: 'Change in the outcome per unit of the tested predictor.', input: 'number', modes: ['slope'] },
+      { name: 'slope', label: 'Slope', help: 'Change in the outcome per unit of the tested predictor.', input: 'number', modes: ['slope'], hiddenWhenSolving: 'f2' },
       { name: 'sdX', label: 'Standard deviation of the predictor', help: 'Spread of the tested predictor in the sample.', input: 'number', modes: ['slope'] },
       { name: 'residualSd', label: 'Residual standard deviation', help: 'Spread of the outcome around the fitted line.', input: 'number', modes: ['slope'] },
       { name: 'testedPredictors', label: 'Predictors tested', help: 'How many coefficients the F test tests together (numerator degrees of freedom).', input: 'whole' },
@@ -108,7 +195,7 @@ export const KINDS: readonly KindInfo[] = [
       f.cv,
       { name: 'clustersPerArm', label: 'Clusters per arm', help: 'Clusters randomised to each arm.', input: 'whole' },
       { name: 'clusterDropout', label: 'Clusters expected to drop out', help: 'Share of whole clusters lost, as a fraction.', input: 'number' },
-      f.sides,
+      SIDES_FIELD,
       ...ERROR_RATES,
       ...ADJUSTMENTS,
     ],
@@ -135,7 +222,7 @@ export const KINDS: readonly KindInfo[] = [
         ],
       },
       f.nPerGroup(),
-      f.sides,
+      SIDES_FIELD,
       ...ERROR_RATES,
       ...ADJUSTMENTS,
     ],
@@ -150,7 +237,7 @@ export const KINDS: readonly KindInfo[] = [
       f.rho,
       { name: 'times', label: 'Times of measurement', help: 'When each unit is measured, separated by commas, e.g. 0, 1, 2, 3.', input: 'times' },
       f.nPerGroup(),
-      f.sides,
+      SIDES_FIELD,
       ...ERROR_RATES,
       ...ADJUSTMENTS,
     ],
@@ -159,15 +246,87 @@ export const KINDS: readonly KindInfo[] = [
     kind: 'two-proportions',
     title: 'Two proportions',
     when: 'A yes-or-no outcome compared between two groups; give an ICC and cluster size when units share clusters (Fleiss, Levin & Paik 2003).',
+    mode: PROPORTION_MODE,
     fields: [
-      { name: 'p1', label: 'Proportion in the first group', help: 'Expected share with the outcome under control, as a fraction (0.55 = 55%).', input: 'number' },
-      { name: 'p2', label: 'Proportion in the second group', help: 'Expected share with the outcome under the intervention.', input: 'number' },
-      f.nPerGroup(),
-      f.sides,
-      { name: 'continuityCorrection', label: 'Continuity correction', help: 'Adds the correction of Fleiss, Levin & Paik (2003); more conservative.', input: 'checkbox' },
-      f.icc('Leave empty when units are independent.'),
-      { name: 'clusterSize', label: 'Units per cluster', help: 'Leave empty when units are independent.', input: 'whole' },
-      f.cv,
+      ...proportionFields('Proportions and the effect'),
+      { ...f.nPerGroup(), group: 'Sample size' },
+      { name: 'continuityCorrection', label: 'Continuity correction', help: 'Adds the correction of Fleiss, Levin & Paik (2003); more conservative.', input: 'checkbox', group: TEST_GROUP },
+      { ...f.icc('Leave empty when units are independent.'), group: 'Clusters (optional)' },
+      { name: 'clusterSize', label: 'Units per cluster', help: 'Leave empty when units are independent.', input: 'whole', group: 'Clusters (optional)' },
+      { ...f.cv, group: 'Clusters (optional)' },
+      SIDES_FIELD,
+      ...ERROR_RATES,
+      ...ADJUSTMENTS,
+    ],
+  },
+  {
+    kind: 'cluster-proportions',
+    title: 'Cluster-randomised proportions',
+    when: 'Whole clusters — classrooms, clinics, villages — are randomised to two arms and a yes-or-no outcome is recorded for each member (Donner & Klar 2000).',
+    mode: PROPORTION_MODE,
+    fields: [
+      ...proportionFields('Proportions and the effect'),
+      {
+        ...f.icc('Share of the variation in the yes-or-no outcome that lies between clusters, on the proportion scale.'),
+        group: 'Clusters',
+      },
+      { name: 'clusterSize', label: 'Members per cluster', help: 'Average number of members analysed in each cluster.', input: 'whole', group: 'Clusters' },
+      { ...f.cv, group: 'Clusters' },
+      { name: 'clustersPerArm', label: 'Clusters per arm', help: 'Clusters randomised to each arm.', input: 'whole', group: 'Clusters' },
+      { name: 'clusterDropout', label: 'Clusters expected to drop out', help: 'Share of whole clusters lost, as a fraction.', input: 'number', group: 'Clusters' },
+      SIDES_FIELD,
+      ...ERROR_RATES,
+      ...ADJUSTMENTS,
+    ],
+  },
+  {
+    kind: 'two-rates',
+    title: 'Two event rates',
+    when: 'Counts of events — infections, falls, awakenings — compared between two groups of participants randomised one by one, each followed for a time (Zhu & Lakkis 2014).',
+    fields: [
+      ...rateFields('Rates and the effect'),
+      { ...FOLLOW_UP, group: 'Follow-up and variation between participants' },
+      {
+        name: 'dispersion',
+        label: 'Overdispersion between participants',
+        help:
+          'How much more participants differ than chance alone makes them: 0 for plain (Poisson) counts. The variance of a count is its mean + dispersion × mean²; ' +
+          'the dispersion is 1 / k for a negative binomial k, and the square of the coefficient of variation of participants’ own rates.',
+        input: 'number',
+        group: 'Follow-up and variation between participants',
+      },
+      { ...f.nPerGroup('Participants analysed in the first group.'), group: 'Sample size' },
+      { name: 'ratio', label: 'Allocation ratio', help: 'Size of the second group divided by the first; 1 for equal groups.', input: 'number', group: 'Sample size' },
+      SIDES_FIELD,
+      ...ERROR_RATES,
+      ...ADJUSTMENTS,
+    ],
+  },
+  {
+    kind: 'cluster-rates',
+    title: 'Cluster-randomised event rates',
+    when: 'Whole clusters — villages, wards, classrooms — are randomised to two arms and events are counted over the follow-up of their members (Hayes & Bennett 1999).',
+    fields: [
+      ...rateFields('Rates and the effect'),
+      { name: 'clusterSize', label: 'Participants per cluster', help: 'Average number of participants followed in each cluster.', input: 'whole', group: 'Clusters and follow-up' },
+      { ...FOLLOW_UP, group: 'Clusters and follow-up' },
+      {
+        name: 'betweenClusterCv',
+        label: 'Between-cluster coefficient of variation of the rate',
+        help: 'How much the clusters’ true rates differ within an arm: the standard deviation of the cluster rates divided by their mean. Take it from earlier studies of similar clusters.',
+        input: 'number',
+        group: 'Clusters and follow-up',
+      },
+      {
+        name: 'dispersion',
+        label: 'Overdispersion between participants in a cluster',
+        help: 'Leave at 0 when participants in one cluster differ only by chance (the published formula’s assumption); otherwise the negative binomial dispersion, as for two event rates.',
+        input: 'number',
+        group: 'Clusters and follow-up',
+      },
+      { name: 'clustersPerArm', label: 'Clusters per arm', help: 'Clusters randomised to each arm.', input: 'whole', group: 'Clusters and follow-up' },
+      { name: 'clusterDropout', label: 'Clusters expected to drop out', help: 'Share of whole clusters lost, as a fraction.', input: 'number', group: 'Clusters and follow-up' },
+      SIDES_FIELD,
       ...ERROR_RATES,
       ...ADJUSTMENTS,
     ],
@@ -204,13 +363,48 @@ export const KINDS: readonly KindInfo[] = [
       f.sd('Total standard deviation of the outcome among units. Optional with a budget.'),
       { name: 'alpha', label: 'Significance level (alpha)', help: 'The false-positive rate of the test, e.g. 0.05.', input: 'number' },
       { name: 'power', label: 'Power', help: 'The target: the chance of detecting the effect if it is real, as a fraction (0.8 = 80%).', input: 'number', modes: ['target'] },
-      f.sides,
+      SIDES_FIELD,
     ],
   },
 ];
 
 export function kindInfo(kind: string): KindInfo | undefined {
   return KINDS.find((k) => k.kind === kind);
+}
+
+/** The fields a form shows while `solveFor` is unknown in `mode`: the calculator pages and the Plan tab. */
+export function fieldsShown(info: KindInfo, solveFor: string | null, mode: string | null): FieldSpec[] {
+  const mooted = info.mode?.hiddenWhenSolving !== undefined && info.mode.hiddenWhenSolving === solveFor;
+  return info.fields.filter(
+    (field) =>
+      field.name !== solveFor &&
+      !(field.modes && mode && !mooted && !field.modes.includes(mode)) &&
+      !(field.onlyWhenSolving && field.onlyWhenSolving !== solveFor) &&
+      !(field.hiddenWhenSolving && field.hiddenWhenSolving === solveFor),
+  );
+}
+
+/** Whether the kind's mode choice matters while `solveFor` is unknown. */
+export function modeShown(info: KindInfo, solveFor: string | null): boolean {
+  return info.mode !== undefined && info.mode.hiddenWhenSolving !== solveFor;
+}
+
+export interface FieldGroup {
+  /** The heading, or null for the leading fields without one. */
+  legend: string | null;
+  fields: FieldSpec[];
+}
+
+/** Fields bucketed by their group, in the order each group first appears. */
+export function groupFields(fields: readonly FieldSpec[]): FieldGroup[] {
+  const groups: FieldGroup[] = [];
+  for (const field of fields) {
+    const legend = field.group ?? null;
+    const existing = groups.find((g) => g.legend === legend);
+    if (existing) existing.fields.push(field);
+    else groups.push({ legend, fields: [field] });
+  }
+  return groups.sort((a, b) => (a.legend === null ? -1 : b.legend === null ? 1 : 0));
 }
 
 /** The words for the quantities a kind can solve for, in our own wording. */
@@ -224,4 +418,5 @@ export const SOLVE_LABELS: Record<string, string> = {
   slopeDifference: 'smallest detectable effect',
   f2: 'smallest detectable effect',
   p2: 'smallest detectable effect',
+  rateRatio: 'smallest detectable rate ratio',
 };

@@ -51,7 +51,11 @@ function effectPhrase(kind: CalculationKind, r: Record<string, ResultValue>): st
     case 'regression':
       return `an effect of f² = ${show(r.f2)}${num(r.slope) !== undefined ? ` (a slope of ${show(r.slope)})` : ''}`;
     case 'two-proportions':
+    case 'cluster-proportions':
       return `a change from ${pct(r.p1)} to ${pct(r.p2)}`;
+    case 'two-rates':
+    case 'cluster-rates':
+      return `a rate ratio of ${show(r.rateRatio)} (from ${show(r.baselineRate)} to ${show(r.treatedRate)} events per unit of follow-up time)`;
     default:
       return `a difference in means of ${show(r.delta)} (SD ${show(r.sd)})`;
   }
@@ -63,6 +67,10 @@ function sizePhrase(kind: CalculationKind, r: Record<string, ResultValue>): stri
       return `${show(r.n)} units`;
     case 'cluster-means':
       return `${show(r.clustersPerArm)} clusters per arm of ${show(r.clusterSize)} units each`;
+    case 'cluster-proportions':
+      return `${show(r.clustersPerArm)} clusters per arm of ${show(r.clusterSize)} members each`;
+    case 'cluster-rates':
+      return `${show(r.clustersPerArm)} clusters per arm of ${show(r.clusterSize)} participants, each followed for ${show(r.exposure)}`;
     default:
       return `${show(r.nPerGroup)} per group`;
   }

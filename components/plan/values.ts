@@ -3,7 +3,7 @@
  * and booleans for checkboxes); the request is what the schema accepts, or the messages per
  * field when it does not.
  */
-import { kindInfo, type FieldSpec } from '@/components/calculations/kinds';
+import { fieldsShown, kindInfo, type FieldSpec } from '@/components/calculations/kinds';
 import type { PlanDraft } from '@/lib/plan/from-design';
 import { calculationSchema, type CalculationKind, type CalculationRequest } from '@/lib/validation/calculations';
 import type { InputValues } from './plan-inputs';
@@ -17,21 +17,26 @@ const DEFAULTS: Record<string, string | boolean> = {
   outcomes: '1',
   multiplicity: 'none',
   ratio: '1',
+  exposure: '1',
+  dispersion: '0',
   testedPredictors: '1',
   continuityCorrection: false,
   alpha: '0.05',
 };
 
-/** Regression is shown with a slope when the design gave one (or its SDs), else with f². */
+/**
+ * Regression is shown with a slope when the design gave one (or its SDs), else with f²; the
+ * proportion kinds with the form of the effect the plan filled in (p2 when none).
+ */
 export function modeOf(kind: CalculationKind, inputs: PlanDraft['inputs']): string | null {
-  if (kind !== 'regression') return null;
-  return 'slope' in inputs || 'sdX' in inputs || 'residualSd' in inputs ? 'slope' : 'f2';
+  if (kind === 'regression') return 'slope' in inputs || 'sdX' in inputs || 'residualSd' in inputs ? 'slope' : 'f2';
+  if (kind === 'two-proportions' || kind === 'cluster-proportions') return (['difference', 'riskRatio', 'oddsRatio'] as const).find((name) => name in inputs) ?? 'p2';
+  return null;
 }
 
 export function visibleFields(kind: CalculationKind, solveFor: string | null, mode: string | null): FieldSpec[] {
   const info = kindInfo(kind);
-  if (!info) return [];
-  return info.fields.filter((f) => f.name !== solveFor && !(f.modes && mode && !f.modes.includes(mode)) && !(solveFor === 'f2' && f.name === 'slope'));
+  return info ? fieldsShown(info, solveFor, mode) : [];
 }
 
 export function initialValues(kind: CalculationKind, inputs: PlanDraft['inputs']): InputValues {

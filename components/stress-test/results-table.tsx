@@ -2,7 +2,7 @@
 
 import { usePathname, useSearchParams } from 'next/navigation';
 import { useMemo } from 'react';
-import { formatMetric, RESULT_COLUMNS, type MetricValue, type ResultColumn } from './words';
+import { formatFailedFits, formatMetric, RESULT_COLUMNS, type MetricValue, type ResultColumn } from './words';
 
 export interface ResultRow {
   /** The scenario's key in the results (its name, by default its violation). */
@@ -78,7 +78,7 @@ export function ResultsTable({ rows, replicates, alpha }: { rows: ResultRow[]; r
       <table className="w-full min-w-[56rem] text-left text-sm" data-testid="results-table">
         <caption className="mb-2 text-left text-sm text-muted">
           Each value ± its Monte Carlo SE, from {replicates.toLocaleString('en-GB')} replicates per scenario. Power at the planned effect; false-positive rate from a
-          paired run at zero effect; coverage of the {Math.round(100 * (1 - alpha))}% confidence interval. Select a column heading to sort.
+          paired run at zero effect; coverage of the {Math.round(100 * (1 - alpha))}% confidence interval; failed fits out of those asked for (each replicate is fitted with and without the effect). Select a column heading to sort.
         </caption>
         <thead>
           <tr className="border-b border-line">
@@ -96,7 +96,7 @@ export function ResultsTable({ rows, replicates, alpha }: { rows: ResultRow[]; r
               </th>
               {RESULT_COLUMNS.map((c) => (
                 <td key={c.key} className="whitespace-nowrap py-1 pr-3 text-right tabular-nums">
-                  {formatMetric(r.metrics[c.key], c.rate)}
+                  {c.key === 'nonConverged' ? formatFailedFits(r.metrics[c.key], replicates) : formatMetric(r.metrics[c.key], c.rate)}
                 </td>
               ))}
             </tr>

@@ -87,6 +87,8 @@ export function scenarioFromForm(v: Violation, s: RunFormValues['scenarios'], ha
       return { violation: 'nonlinear', shape: 'quadratic', on: hasOccasions ? 'time' : 'covariate', strength: s.nonlinear.strength };
     case 'serial':
       return { violation: 'serial', ar: s.serial.ar };
+    case 'carry-over':
+      return { violation: 'carry-over', fraction: 0.5 };
   }
 }
 

@@ -12,7 +12,7 @@ import { ANALYSIS_TITLES, describeScenario, formatRate, rateMcse, VIOLATION_TITL
 export interface RunFormProps {
   /** The specification from the design (lib/sim/from-design.ts), with defaults applied. */
   base: SimulationSpec;
-  /** Analyses that make sense for this design (cluster analyses need clusters or occasions). */
+  /** The analyses that apply to the simulated data, as lib/sim/analyses.ts decides them. */
   analyses: AnalysisName[];
   pending: boolean;
   onRun: (spec: SimulationSpecInput) => void;

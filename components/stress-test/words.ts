@@ -16,6 +16,7 @@ export const VIOLATION_TITLES: Record<Violation, string> = {
   'unequal-variance': 'Unequal variance',
   nonlinear: 'Curved relation',
   serial: 'Serial correlation between occasions',
+  'carry-over': 'Carry-over from the previous period',
 };
 
 function num(x: number): string {
@@ -40,6 +41,10 @@ export function describeScenario(s: Scenario): string {
       return `Curved relation (${s.shape} in ${s.on ?? 'time or a covariate'}, rising ${num(s.strength)} SD, fitted as a line)`;
     case 'serial':
       return `Serial correlation between occasions (AR(1) with ρ = ${num(s.ar)})`;
+    case 'carry-over':
+      return s.size !== undefined
+        ? `Carry-over: the second arm's treatment adds ${num(s.size)} in the period after it`
+        : `Carry-over: ${num(s.fraction * 100)}% of the effect persists into the period after the second arm`;
   }
 }
 
@@ -52,6 +57,9 @@ export const ANALYSIS_TITLES: Record<AnalysisName, string> = {
   huber: 'huber — Huber M-estimation (k = 1.345), sandwich SE',
   'log-ols': 'log-ols — least squares on the log outcome (effect as a ratio)',
   glm: 'glm — logistic or Poisson regression',
+  'glm-nb': 'glm-nb — negative-binomial regression for overdispersed counts',
+  glmm: 'glmm — logistic or Poisson mixed model with a random intercept',
+  'period-difference': 'period-difference — t test on the differences between the two periods (AB/BA cross-over)',
 };
 
 export interface MetricValue {
@@ -67,7 +75,7 @@ export const RESULT_COLUMNS = [
   { key: 'bias', label: 'Bias', rate: false },
   { key: 'seRatio', label: 'SE ratio', rate: false },
   { key: 'ciWidth', label: 'CI width', rate: false },
-  { key: 'nonConverged', label: 'Non-converged', rate: false },
+  { key: 'nonConverged', label: 'Failed fits', rate: false },
 ] as const;
 export type ResultColumn = (typeof RESULT_COLUMNS)[number]['key'];
 
@@ -88,6 +96,13 @@ export function formatMetric(m: MetricValue | undefined, rate: boolean): string 
   const value = rate ? formatRate(m.value) : formatPlain(m.value);
   if (m.mcse === null || !Number.isFinite(m.mcse)) return value;
   return `${value} ± ${rate ? formatRate(m.mcse) : formatPlain(m.mcse)}`;
+}
+
+/** "12 of 2,000 (0.6%)": failed fits against the fits asked for (two per replicate: with and without the effect). */
+export function formatFailedFits(m: MetricValue | undefined, replicates: number): string {
+  if (!m || m.value === null || !Number.isFinite(m.value)) return '—';
+  const asked = 2 * replicates;
+  return `${m.value.toLocaleString('en-GB')} of ${asked.toLocaleString('en-GB')} (${formatRate(m.value / asked)})`;
 }
 
 /** Monte Carlo SE of an estimated rate p over R replicates, √(p(1 − p)/R) (Morris, White & Crowther 2019, Stat Med 38:2074). */

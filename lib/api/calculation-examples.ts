@@ -40,6 +40,18 @@ export const CALCULATION_EXAMPLES: Record<CalculationKind, CalculationExample> =
     summary: 'Reading programme: pupils per group to raise the share reading at the expected level from 55% to 70%, classrooms of 25, ICC 0.05',
     request: { kind: 'two-proportions', p1: 0.55, p2: 0.7, icc: 0.05, clusterSize: 25, alpha: 0.05, power: 0.8 },
   },
+  'cluster-proportions': {
+    summary: 'Reading programme randomised by classroom: classrooms per arm to raise the share reading at the expected level from 55% to 70%, about 25 pupils per class (CV 0.3), ICC 0.05',
+    request: { kind: 'cluster-proportions', p1: 0.55, p2: 0.7, icc: 0.05, clusterSize: 25, cv: 0.3, alpha: 0.05, power: 0.8 },
+  },
+  'two-rates': {
+    summary: 'Sleep-timing study: volunteers per group to detect 20% fewer night-time awakenings (1.5 a night without the change, 8 nights each, dispersion 0.3)',
+    request: { kind: 'two-rates', baselineRate: 1.5, rateRatio: 0.8, exposure: 8, dispersion: 0.3, alpha: 0.05, power: 0.8 },
+  },
+  'cluster-rates': {
+    summary: 'Reading programme randomised by classroom: classrooms per arm to cut absences by 25% (0.5 days a pupil-month, 6 months, 25 pupils per class, CV between classrooms 0.25)',
+    request: { kind: 'cluster-rates', baselineRate: 0.5, rateRatio: 0.75, exposure: 6, clusterSize: 25, betweenClusterCv: 0.25, alpha: 0.05, power: 0.8 },
+  },
   'design-effect': {
     summary: 'Greenhouse trial: 12 plants share each tray, ICC 0.3 — what 288 plants are worth and how often a plant-level test would be wrong',
     request: { kind: 'design-effect', icc: 0.3, clusterSize: 12, cv: 0, totalObservations: 288, alpha: 0.05 },

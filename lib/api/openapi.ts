@@ -345,10 +345,11 @@ export const API_ROUTES: RouteConfig[] = [
     method: 'get',
     path: '/api/v1/studies/{studyId}/simulations/spec',
     summary: 'The stress-test specification derived from the study’s design (the newest revision unless one is given)',
-    description: 'spec is null when the design cannot be simulated yet; missing then says what it lacks.',
+    description:
+      'spec is null when the design cannot be simulated yet: missing then lists what the design still lacks (each naming the Design step that supplies it), unsupported has one sentence per feature of the design the stress test does not simulate yet.',
     request: { params: studyParams, query: simulationSpecQuerySchema },
     responses: {
-      200: json(z.object({ revision: z.number().int(), spec: simulationSpecSchema.nullable(), missing: z.array(z.string()) }), 'The derived specification, or what is missing'),
+      200: json(z.object({ revision: z.number().int(), spec: simulationSpecSchema.nullable(), missing: z.array(z.string()), unsupported: z.array(z.string()) }), 'The derived specification, or what is missing or not supported'),
       400: err('Invalid query'),
       ...standardErrors,
     },

@@ -45,25 +45,32 @@ const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 export const RUNS_PER_HOUR: Limit = { limit: 60, windowSeconds: 60 * 60 };
 
-/** The specification derived from a revision's design, or what the design still lacks. */
-async function derivedSpec(studyId: string, revision: number): Promise<{ spec: SimulationSpec; missing: [] } | { spec: null; missing: string[] }> {
+type Derived = { spec: SimulationSpec; missing: []; unsupported: [] } | { spec: null; missing: string[]; unsupported: string[] };
+
+/**
+ * The specification derived from a revision's design, or why there is none: `missing` lists what
+ * the Design tab can still supply, `unsupported` the features of the design the stress test does
+ * not simulate yet (one sentence each).
+ */
+async function derivedSpec(studyId: string, revision: number): Promise<Derived> {
   const rev = await findRevision(db(), studyId, revision);
   if (!rev) throw new AppError('not_found', `Revision ${revision} of this study was not found.`);
   const parsed = designSchema.safeParse(rev.design ?? {});
   if (!parsed.success) throw new AppError('conflict', `The design of revision ${revision} no longer matches the current design model; save the design again, then start the stress test.`);
   const derived = specFromDesign(parsed.data);
-  if (!derived.ok) return { spec: null, missing: derived.missing };
+  if (!derived.ok) return { spec: null, missing: derived.missing, unsupported: derived.unsupported };
   const spec = simulationSpecSchema.safeParse(derived.spec);
   if (!spec.success) {
-    return { spec: null, missing: spec.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`) };
+    return { spec: null, missing: spec.error.issues.map((i) => i.message), unsupported: [] };
   }
-  return { spec: spec.data, missing: [] };
+  return { spec: spec.data, missing: [], unsupported: [] };
 }
 
 async function specForStudy(studyId: string, revision: number, input: SimulationRunInput): Promise<SimulationSpec> {
   if (input.spec) return input.spec;
   const derived = await derivedSpec(studyId, revision);
   if (!derived.spec) {
+    if (derived.unsupported.length > 0) throw new AppError('bad_request', derived.unsupported.join(' '));
     throw new AppError('bad_request', `The design is not complete enough for a stress test: ${derived.missing.join('; ')}. Complete it in the Design tab, or send a specification.`);
   }
   const spec = simulationSpecSchema.safeParse({
@@ -87,10 +94,10 @@ export async function defaultSimulationSpec(
   actor: Actor | null,
   studyId: string,
   revision?: number,
-): Promise<{ revision: number; spec: SimulationSpec | null; missing: string[] }> {
+): Promise<{ revision: number } & Derived> {
   const { study } = await requireStudy(actor, studyId, 'study.read');
   const number = revision ?? study.currentRevision;
-  if (number < 1) return { revision: 0, spec: null, missing: ['a saved design'] };
+  if (number < 1) return { revision: 0, spec: null, missing: ['a saved design'], unsupported: [] };
   if (number > study.currentRevision) throw new AppError('not_found', `Revision ${number} of this study was not found.`);
   return { revision: number, ...(await derivedSpec(studyId, number)) };
 }

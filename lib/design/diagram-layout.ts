@@ -15,7 +15,7 @@
  * the arms; lower levels inherit their parent's arm.
  */
 import type { Design, Level } from './schema';
-import { armShares, assignmentLevel, levelTotals, measurementLevel, totalObservations, type LevelTotal } from './derive';
+import { designFacts, unitsByArm, type DesignFacts, type LevelInfo } from './facts';
 
 export type LevelKind = Level['kind'];
 
@@ -231,11 +231,10 @@ interface ArmInfo {
   text: string;
 }
 
-function armInfo(design: Design, assigned: LevelTotal | undefined): ArmInfo | undefined {
-  const arms = design.assignment.arms;
+function armInfo(f: DesignFacts, assigned: LevelInfo | undefined): ArmInfo | undefined {
+  const arms = f.design.assignment.arms;
   if (!assigned || arms.length === 0) return undefined;
-  const shares = armShares(design);
-  const perArm = shares.map((s) => assigned.total * s);
+  const perArm = unitsByArm(f, assigned);
   const equal = perArm.every((p) => Math.abs(p - perArm[0]!) < 1e-9);
   const text = equal
     ? `${formatCount(perArm[0]!)} per arm`
@@ -256,7 +255,7 @@ interface LevelPlan {
   drawn: number;
 }
 
-function planLevels(totals: LevelTotal[]): LevelPlan[] {
+function planLevels(totals: LevelInfo[]): LevelPlan[] {
   return totals.map((t) => {
     const count = Math.max(1, Math.ceil(t.perParent - 1e-9));
     return { count, drawn: Math.min(DRAWN_PER_PARENT, count) };
@@ -341,7 +340,8 @@ const round = (v: number) => Math.round(v * 10) / 10;
 
 export function layoutDiagram(design: Design, options: LayoutOptions = {}): DiagramLayout {
   const width = Math.max(280, Math.round(options.width ?? 640));
-  const totals = levelTotals(design);
+  const f = designFacts(design);
+  const totals = f.levels;
   const labels: DiagramLabel[] = [];
   const markers: DiagramMarker[] = [];
   const boxes: DiagramBox[] = [];
@@ -375,10 +375,10 @@ export function layoutDiagram(design: Design, options: LayoutOptions = {}): Diag
   }
 
   const n = totals.length;
-  const assigned = assignmentLevel(design);
+  const assigned = f.assignment;
   const aIndex = assigned?.index;
-  const measured = measurementLevel(design)!;
-  const arms = armInfo(design, assigned);
+  const measured = f.bottom!;
+  const arms = armInfo(f, assigned);
   const nArms = arms?.names.length ?? 0;
   const continuous = design.assignment.kind === 'continuous';
 
@@ -512,7 +512,7 @@ export function layoutDiagram(design: Design, options: LayoutOptions = {}): Diag
     y = rowY + rowH + 4;
   }
 
-  const observations = totalObservations(design);
+  const observations = f.totalObs;
   const measuredName = measured.level.name;
   let totalsText: string;
   let message: string | undefined;
@@ -523,7 +523,7 @@ export function layoutDiagram(design: Design, options: LayoutOptions = {}): Diag
     const k = assigned.total;
     const perArm = arms ? ` (${arms.text})` : '';
     if (assigned.level.kind === 'repeated' || assigned.level.kind === 'replicate') {
-      const owner = [...totals.slice(0, assigned.index)].reverse().find((t) => t.level.kind === 'independent' || t.level.kind === 'grouping');
+      const owner = f.withinUnit ? f.eu : undefined;
       totalsText = `${formatCount(observations)} ${obsWord(observations)} · ${counted(k, assigned.level.name)} at the level of assignment${perArm}`;
       if (owner) totalsText += `, not independent: they come from ${counted(owner.total, owner.level.name)}`;
     } else {

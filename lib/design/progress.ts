@@ -2,14 +2,15 @@
  * Which wizard steps are complete: enough of each part for the checks and the calculations to
  * use it. "started" means something is filled in but not enough yet.
  */
-import type { Design, DesignPart } from './schema';
+import { designFacts } from './facts';
+import type { Assumptions, Design, DesignPart, Level } from './schema';
 
 export type StepState = 'complete' | 'started' | 'empty';
 
 export function stepStates(d: Design): Record<DesignPart, StepState> {
   const o = d.outcome;
   const outcome: StepState = o.name && o.type ? 'complete' : o.name || o.type ? 'started' : 'empty';
-  const structure: StepState = d.structure.levels.length > 0 ? 'complete' : 'empty';
+  const structure: StepState = designFacts(d).levels.length > 0 ? 'complete' : 'empty';
   const a = d.assignment;
   const assignmentDone = a.kind && a.levelId && (a.kind === 'continuous' || a.arms.length >= 2);
   const assignment: StepState = assignmentDone ? 'complete' : a.kind || a.levelId || a.arms.length ? 'started' : 'empty';
@@ -17,13 +18,33 @@ export function stepStates(d: Design): Record<DesignPart, StepState> {
   const needIcc = iccLevels(d);
   const s = d.assumptions;
   const iccsDone = needIcc.every((l) => s.iccs.some((c) => c.levelId === l.id));
-  const assumptions: StepState = s.outcomeSd && s.effect && iccsDone ? 'complete' : s.outcomeSd || s.effect || s.iccs.length ? 'started' : 'empty';
+  const given = outcomeAssumptions(d).map((name) => s[name] !== undefined);
+  const assumptions: StepState = given.every(Boolean) && iccsDone ? 'complete' : given.some(Boolean) || s.iccs.length ? 'started' : 'empty';
   const an = d.analysis;
   const analysis: StepState = an.method && an.unitOfAnalysisLevelId ? 'complete' : an.method || an.unitOfAnalysisLevelId ? 'started' : 'empty';
   return { outcome, structure, assignment, occasions, assumptions, analysis };
 }
 
-/** Levels that carry an ICC: grouping levels, and units measured repeatedly. */
-export function iccLevels(d: Design) {
-  return d.structure.levels.filter((l, i) => l.kind === 'grouping' || (l.kind === 'independent' && d.structure.levels[i + 1]?.kind === 'repeated'));
+/** Levels whose ICC the design needs (lib/design/facts.ts): every level above the bottom that groups observations. */
+export function iccLevels(d: Design): Level[] {
+  return designFacts(d).iccLevels.map((l) => l.level);
+}
+
+/**
+ * The outcome's own numbers the Assumptions step asks for: a yes-or-no outcome its control
+ * proportion and effect; counts a baseline rate, rate ratio, follow-up time and overdispersion
+ * (with the variation of rates between clusters when clusters are randomised); any other outcome
+ * its SD and the smallest important difference.
+ */
+export function outcomeAssumptions(d: Design): (keyof Assumptions)[] {
+  if (d.outcome.type === 'binary') return ['controlProportion', 'proportionEffect'];
+  if (d.outcome.type === 'count') return ['baselineRate', 'rateRatio', 'followUpTime', 'dispersion', ...(clusterRandomised(d) ? (['betweenClusterCv'] as const) : [])];
+  return ['outcomeSd', 'effect'];
+}
+
+/** Whether the level of assignment holds members below it that are not repeated measurements (whole clusters randomised). */
+export function clusterRandomised(d: Design): boolean {
+  const f = designFacts(d);
+  const below = f.assignment ? f.levels[f.assignment.index + 1] : undefined;
+  return below !== undefined && below.level.kind !== 'repeated';
 }

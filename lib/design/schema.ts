@@ -2,8 +2,8 @@
  * The design model: one zod schema family shared by the wizard's forms, the API and the stored
  * revisions. A design is saved while it is being written, so every part may be incomplete:
  * fields are optional where a half-filled wizard needs them to be, and `lib/design/progress.ts`
- * says which steps are complete. The rules module (lib/rules) reads this shape and skips what is
- * not filled in yet.
+ * says which steps are complete. lib/design/facts.ts is the one reader that interprets it (counts,
+ * units, ICCs, occasions, the outcome); the checks, the Plan and the stress test ask it.
  *
  * Bounds keep hostile input harmless (at most 8 levels, counts up to 1,000,000, texts limited);
  * the error messages say what to fix.
@@ -80,8 +80,15 @@ export const levelSchema = z.object({
   name: name('Level name', 60),
   kind: z.enum(LEVEL_KINDS),
   groupingType: z.enum(GROUPING_TYPES).optional(),
-  /** Planned number per parent (per arm for the top level), or in total when `countIsTotal`. */
+  /**
+   * Planned number. The top level's count is the number in the whole study, over all arms (split
+   * between the arms by their allocation; `countIsTotal` changes nothing there). A lower level's
+   * count is the number per unit of the level above, or the number in the whole study when
+   * `countIsTotal` (then the number per parent is that total divided by the parent level's total).
+   * lib/design/facts.ts reads it; nothing else does.
+   */
   count: z.number({ error: 'Count must be a number.' }).int('Count must be a whole number.').min(1, 'Count is at least 1.').max(1_000_000, 'Count is at most 1,000,000.'),
+  /** The count of a lower level is the number in the whole study rather than per parent. */
   countIsTotal: z.boolean().default(false),
   /** Coefficient of variation of the count between parents (0 when all parents have the same number). */
   countCv: z.number().min(0, 'CV is at least 0.').max(3, 'A CV above 3 is not plausible.').default(0),
@@ -160,6 +167,8 @@ export const occasionsSchema = z.object({
 // ---------------------------------------------------------------- assumptions
 
 export const SOURCE_KINDS = ['published', 'pilot', 'expert', 'none'] as const;
+/** How the effect on a yes-or-no outcome is stated: the second proportion itself, or against the first. */
+export const PROPORTION_EFFECT_MEASURES = ['p2', 'difference', 'riskRatio', 'oddsRatio'] as const;
 export const CERTAINTY = ['low', 'medium', 'high'] as const;
 
 export const sourceSchema = z.object({
@@ -180,6 +189,39 @@ export const assumptionsSchema = z.object({
   occasionCorrelation: sourced(z.number().min(-1).max(1)).optional(),
   /** The smallest difference worth detecting, in the outcome's units. */
   effect: sourced(z.number().positive('The effect must be above 0; give its size, not its sign.').max(1e12)).optional(),
+  // Yes-or-no outcomes.
+  /** The share with the outcome expected without the intervention, 0 < p < 1. */
+  controlProportion: sourced(z.number().gt(0, 'The proportion must be above 0.').lt(1, 'The proportion must be below 1.')).optional(),
+  /** The effect worth detecting: the proportion expected with the intervention, or its difference, risk ratio or odds ratio against controlProportion. */
+  proportionEffect: z
+    .object({
+      measure: z.enum(PROPORTION_EFFECT_MEASURES),
+      value: z.number().finite('The effect must be a number.').gt(-1, 'The effect must be above −1.').max(1e6, 'The effect can be at most 1,000,000.'),
+      source: sourceSchema.default({ kind: 'none', certainty: 'low' }),
+    })
+    .superRefine((e, ctx) => {
+      const problem =
+        e.measure === 'p2' && !(e.value > 0 && e.value < 1)
+          ? 'The proportion must be between 0 and 1.'
+          : e.measure === 'difference' && !(e.value < 1)
+            ? 'The difference must be between −1 and 1.'
+            : (e.measure === 'riskRatio' || e.measure === 'oddsRatio') && !(e.value > 0)
+              ? 'The ratio must be above 0.'
+              : null;
+      if (problem) ctx.addIssue({ code: 'custom', path: ['value'], message: problem });
+    })
+    .optional(),
+  // Counts of events.
+  /** Events per unit of follow-up time expected without the intervention. */
+  baselineRate: sourced(z.number().positive('The rate must be above 0.').max(1e6)).optional(),
+  /** The rate ratio worth detecting (rate with the intervention / baseline rate): 0.8 is a 20% reduction. */
+  rateRatio: sourced(z.number().positive('The rate ratio must be above 0.').max(1e6).refine((x) => x !== 1, 'A rate ratio of 1 is no effect.')).optional(),
+  /** Follow-up time of each unit, in the time unit of the rate. */
+  followUpTime: sourced(z.number().positive('The follow-up time must be above 0.').max(1e6)).optional(),
+  /** Negative binomial dispersion between units (variance = mean + dispersion × mean²); 0 for plain Poisson counts. */
+  dispersion: sourced(z.number().min(0, 'The dispersion is at least 0.').max(100, 'The dispersion can be at most 100.')).optional(),
+  /** Coefficient of variation of the true rates between clusters (Hayes & Bennett's k), for cluster-randomised counts. */
+  betweenClusterCv: sourced(z.number().min(0, 'The coefficient of variation is at least 0.').max(5, 'The coefficient of variation can be at most 5.')).optional(),
   alpha: z.number().gt(0).lt(0.5).default(0.05),
   power: z.number().gt(0.5).lt(1).default(0.8),
 });

@@ -12,7 +12,9 @@
  * (designs of 100–1,000 rows, one analysis at a time, measured while other work shared the
  * cores, so they are high rather than low): closed-form least squares and its sandwich variants
  * are cheap and linear in the rows; the iterative fits (REML mixed model, Huber IRLS, GLM IRLS)
- * cost several passes and a fixed amount per fit.
+ * cost several passes and a fixed amount per fit. glm-nb and glmm from `npm run bench -- glmm`
+ * (glmm's rows are those of a design whose rows all differ, e.g. a cross-over; clusters without
+ * covariates merge into one pattern each and cost far less).
  * A wrong estimate changes only the chunk size, never the results: each replicate draws its own
  * random stream, so results do not depend on how the run is cut.
  */
@@ -29,6 +31,9 @@ const ANALYSIS_COST_US: Record<AnalysisName, number> = {
   huber: 0.2,
   'log-ols': 0.04,
   glm: 0.3,
+  'glm-nb': 0.2,
+  glmm: 5,
+  'period-difference': 0.03,
 };
 /** Estimated µs per fit beyond the rows (iterations' set-up, small matrices). */
 const FIT_OVERHEAD_US: Record<AnalysisName, number> = {
@@ -40,6 +45,9 @@ const FIT_OVERHEAD_US: Record<AnalysisName, number> = {
   huber: 40,
   'log-ols': 5,
   glm: 40,
+  'glm-nb': 60,
+  glmm: 300,
+  'period-difference': 5,
 };
 const GENERATION_US_PER_ROW = 0.12;
 

@@ -12,6 +12,10 @@
  *   huber           huber.ts          Huber M-estimation, sandwich SE (Huber 1964)
  *   log-ols         log-ols.ts        OLS on log y; the effect is a log ratio
  *   glm             glm.ts            logistic or Poisson regression, z test
+ *   glm-nb          glm-nb.ts         negative-binomial regression (log link), z test
+ *   glmm            glmm.ts           logistic or Poisson GLMM with a random intercept (Laplace
+ *                                     or adaptive quadrature), z test
+ *   period-difference  period-difference.ts  AB/BA cross-over: t test on the period differences
  *
  * The functions reuse module-level buffers: call them from one thread at a time per module
  * instance (each worker thread has its own), and copy a result before the next call only if you
@@ -20,15 +24,18 @@
 import { fitClusterMeans, type ClusterMeansOptions } from './cluster-means';
 import { fitClusterRobust, type Cr2Options } from './cr2';
 import { fitGlm, type GlmOptions } from './glm';
+import { fitGlmNb, type GlmNbOptions } from './glm-nb';
+import { fitGlmm, type GlmmOptions } from './glmm';
 import { fitOlsHc3, type Hc3Options } from './hc3';
 import { fitHuber, type HuberOptions } from './huber';
 import { fitLogOls } from './log-ols';
 import { fitMixed, type MixedOptions } from './mixed';
 import { fitOls, type OlsOptions } from './ols';
+import { fitPeriodDifference, type PeriodDifferenceOptions } from './period-difference';
 import type { AnalysisName, Dataset, EffectEstimate, FixedEffects } from './types';
 
-export { fitClusterMeans, fitClusterRobust, fitGlm, fitHuber, fitLogOls, fitMixed, fitOls, fitOlsHc3 };
-export type { ClusterMeansOptions, Cr2Options, GlmOptions, Hc3Options, HuberOptions, MixedOptions, OlsOptions };
+export { fitClusterMeans, fitClusterRobust, fitGlm, fitGlmm, fitGlmNb, fitHuber, fitLogOls, fitMixed, fitOls, fitOlsHc3, fitPeriodDifference };
+export type { ClusterMeansOptions, Cr2Options, GlmmOptions, GlmNbOptions, GlmOptions, Hc3Options, HuberOptions, MixedOptions, OlsOptions, PeriodDifferenceOptions };
 
 /** The options each analysis takes. */
 export interface AnalysisOptionsMap {
@@ -40,11 +47,14 @@ export interface AnalysisOptionsMap {
   huber: HuberOptions;
   'log-ols': OlsOptions;
   glm: GlmOptions;
+  'glm-nb': GlmNbOptions;
+  glmm: GlmmOptions;
+  'period-difference': PeriodDifferenceOptions;
 }
 
 /** Options of any analysis, for callers that pass one options object to several analyses. */
 export type AnalysisOptions = Partial<
-  OlsOptions & Hc3Options & Cr2Options & ClusterMeansOptions & MixedOptions & HuberOptions & GlmOptions
+  OlsOptions & Hc3Options & Cr2Options & ClusterMeansOptions & MixedOptions & HuberOptions & GlmOptions & GlmNbOptions & GlmmOptions & PeriodDifferenceOptions
 >;
 
 const FITS: { [K in AnalysisName]: (data: Dataset, fixed: FixedEffects, options?: AnalysisOptionsMap[K]) => EffectEstimate } = {
@@ -56,6 +66,9 @@ const FITS: { [K in AnalysisName]: (data: Dataset, fixed: FixedEffects, options?
   huber: fitHuber,
   'log-ols': fitLogOls,
   glm: fitGlm,
+  'glm-nb': fitGlmNb,
+  glmm: fitGlmm,
+  'period-difference': fitPeriodDifference,
 };
 
 /** Fits the analysis `name` to `data`; see the file of each analysis for what it throws. */

@@ -49,5 +49,5 @@ export interface EffectEstimate {
   converged: boolean;
 }
 
-export const ANALYSIS_NAMES = ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'huber', 'log-ols', 'glm'] as const;
+export const ANALYSIS_NAMES = ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'huber', 'log-ols', 'glm', 'glm-nb', 'glmm', 'period-difference'] as const;
 export type AnalysisName = (typeof ANALYSIS_NAMES)[number];

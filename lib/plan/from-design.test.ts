@@ -11,6 +11,7 @@ import type { Design, DesignInput } from '@/lib/design/schema';
 import { runChecks } from '@/lib/rules/registry';
 import { expectRelativelyClose } from './expect-close';
 import { planFromDesign, type PlanDraft } from './from-design';
+import { calculate } from '@/lib/stats/calculations';
 import fixture from './fixtures/variance.json';
 
 const draft = (d: Design): PlanDraft => planFromDesign(d, runChecks(d, { onRuleError: () => {} }).recommendation);
@@ -37,6 +38,29 @@ const withSdAndRho = variant(longitudinal, (d) => {
   d.assumptions.effect = { value: 0.24, source: { kind: 'expert', certainty: 'medium' } };
 });
 
+const binaryClassroom = variant(classroom, (d) => {
+  d.outcome.type = 'binary';
+  d.assumptions.controlProportion = { value: 0.55, source: { kind: 'published', citation: 'Invented test source', certainty: 'medium' } };
+  d.assumptions.proportionEffect = { measure: 'riskRatio', value: 1.25, source: { kind: 'expert', certainty: 'low' } };
+});
+
+const withCounts = (d: Design) =>
+  variant(d, (x) => {
+    x.outcome.type = 'count';
+    x.assumptions.baselineRate = { value: 1.5, source: { kind: 'pilot', certainty: 'medium' } };
+    x.assumptions.rateRatio = { value: 0.8, source: { kind: 'expert', certainty: 'low' } };
+    x.assumptions.followUpTime = { value: 8, source: { kind: 'none', certainty: 'high' } };
+    x.assumptions.dispersion = { value: 0.3, source: { kind: 'published', citation: 'Invented test source', certainty: 'medium' } };
+  });
+const countSimple = withCounts(simple);
+const countClassroom = variant(withCounts(classroom), (d) => {
+  d.assumptions.baselineRate = { value: 0.5, source: { kind: 'pilot', certainty: 'medium' } };
+  d.assumptions.rateRatio = { value: 0.75, source: { kind: 'expert', certainty: 'low' } };
+  d.assumptions.followUpTime = { value: 6, source: { kind: 'none', certainty: 'high' } };
+  d.assumptions.dispersion = { value: 0, source: { kind: 'expert', certainty: 'low' } };
+  d.assumptions.betweenClusterCv = { value: 0.25, source: { kind: 'published', citation: 'Invented test source', certainty: 'low' } };
+});
+
 type Row = [label: string, design: Design, expected: Partial<PlanDraft> & { missingInputs?: string[]; inputsContain?: Record<string, unknown>; complete?: boolean }];
 
 const ROWS: Row[] = [
@@ -56,7 +80,18 @@ const ROWS: Row[] = [
   ['sleep demo: AB/BA cross-over as a t test between sequences', sleep, { kind: 'two-group-means', solveFor: 'nPerGroup', planned: { input: 'nPerGroup', value: 12 }, inputsContain: { delta: 20, sd: 11.25, dropout: 0.1 }, missingInputs: [], complete: true }],
   ['classroom without an effect: smallest detectable effect with 10 per arm', noEffect(classroom), { kind: 'cluster-means', solveFor: 'delta', inputsContain: { clustersPerArm: 10 }, missingInputs: [], complete: true }],
   ['classroom without the classroom ICC: asks for it', variant(classroom, (d) => void (d.assumptions.iccs = [])), { kind: 'cluster-means', missingInputs: ['icc'], complete: false }],
-  ['classroom with a binary outcome: two proportions with the design effect', variant(classroom, (d) => void (d.outcome.type = 'binary')), { kind: 'two-proportions', solveFor: 'nPerGroup', inputsContain: { icc: 0.15, clusterSize: 23, cv: 0.25 }, missingInputs: ['p1', 'p2'], complete: false }],
+  [
+    'classroom with a binary outcome and no proportions yet: clustered proportions, the smallest detectable p2 with 10 per arm, p1 asked for',
+    variant(classroom, (d) => void (d.outcome.type = 'binary')),
+    { kind: 'cluster-proportions', solveFor: 'p2', inputsContain: { icc: 0.15, clusterSize: 23, cv: 0.25, clustersPerArm: 10 }, missingInputs: ['p1'], complete: false },
+  ],
+  ['classroom with a binary outcome, control proportion and risk ratio: classrooms per arm', binaryClassroom, { kind: 'cluster-proportions', solveFor: 'clustersPerArm', planned: { input: 'clustersPerArm', value: 10 }, inputsContain: { p1: 0.55, riskRatio: 1.25, icc: 0.15, clusterSize: 23, cv: 0.25 }, missingInputs: [], complete: true }],
+  ['simple trial with a binary outcome and a difference: two proportions', variant(simple, (d) => { d.outcome.type = 'binary'; d.assumptions.controlProportion = { value: 0.3, source: { kind: 'pilot', certainty: 'medium' } }; d.assumptions.proportionEffect = { measure: 'difference', value: -0.1, source: { kind: 'expert', certainty: 'low' } }; }), { kind: 'two-proportions', solveFor: 'nPerGroup', inputsContain: { p1: 0.3, difference: -0.1 }, missingInputs: [], complete: true }],
+  ['simple trial with a count outcome: two event rates from the rate, rate ratio, follow-up and overdispersion', countSimple, { kind: 'two-rates', solveFor: 'nPerGroup', planned: { input: 'nPerGroup', value: 30 }, inputsContain: { baselineRate: 1.5, rateRatio: 0.8, exposure: 8, dispersion: 0.3 }, missingInputs: [], complete: true }],
+  ['simple trial with a count outcome and no numbers: the smallest detectable rate ratio with 30 per arm, the rest asked for', variant(simple, (d) => void (d.outcome.type = 'count')), { kind: 'two-rates', solveFor: 'rateRatio', inputsContain: { nPerGroup: 30 }, missingInputs: ['baselineRate', 'exposure', 'dispersion'], complete: false }],
+  ['classroom with a count outcome: cluster-randomised rates (Hayes & Bennett)', countClassroom, { kind: 'cluster-rates', solveFor: 'clustersPerArm', planned: { input: 'clustersPerArm', value: 10 }, inputsContain: { baselineRate: 0.5, rateRatio: 0.75, exposure: 6, dispersion: 0, betweenClusterCv: 0.25, clusterSize: 23 }, missingInputs: [], complete: true }],
+  ['classroom with a count outcome without the between-classroom variation: asks for it', variant(countClassroom, (d) => void delete d.assumptions.betweenClusterCv), { kind: 'cluster-rates', missingInputs: ['betweenClusterCv'], complete: false }],
+  ['sleep cross-over with a count outcome: no calculation yet', variant(sleep, (d) => void (d.outcome.type = 'count')), { kind: null, missingInputs: ['crossover'], complete: false }],
   ['classroom with 3 primary outcomes and no adjustment planned: Holm, as recommended', variant(classroom, (d) => void (d.outcome.primaryOutcomes = 3)), { kind: 'cluster-means', inputsContain: { outcomes: 3, multiplicity: 'holm' }, complete: true }],
   ['classroom with Bonferroni planned', variant(classroom, (d) => { d.outcome.primaryOutcomes = 2; d.analysis.multiplicity = 'bonferroni'; }), { inputsContain: { outcomes: 2, multiplicity: 'bonferroni' }, complete: true }],
   ['classroom with ICCs adding up to more than 1', variant(classroom, (d) => void d.assumptions.iccs.push({ levelId: 'pupil', value: 0.9, source: { kind: 'none', certainty: 'low' } })), { kind: 'cluster-means', complete: true }],
@@ -182,5 +217,28 @@ describe('derived inputs against the full covariance matrix (R)', () => {
     const perSequence = c.n / 2;
     // Two-sample t test with n/2 per sequence: Var(effect) = σ'²·(2 / (n/2)).
     expectRelativelyClose(JSON.stringify(c), (sd * sd * 2) / perSequence, c.varEffect, 1e-9);
+  });
+});
+
+describe('count and binary outcomes are planned with their own parameters', () => {
+  it.each([
+    ['two event rates', countSimple, /Zhu & Lakkis/, /Wald test on the log rate ratio/],
+    ['cluster-randomised rates', countClassroom, /Hayes & Bennett/, /Hayes & Bennett \(1999\)/],
+    ['cluster-randomised proportions', binaryClassroom, /Donner & Klar/, /Normal approximation for two proportions/],
+  ])('%s: no SD or difference in means, the method named in the reasons and in the answer', (_label, design, reason, method) => {
+    const got = draft(design);
+    expect(got.inputs).not.toHaveProperty('sd');
+    expect(got.inputs).not.toHaveProperty('delta');
+    expect(got.notes.join(' ')).not.toMatch(/normal approximation/);
+    expect(got.rationale.join(' ')).toMatch(reason);
+    expect(calculate(got.request!).method).toMatch(method);
+  });
+
+  it('the Hayes & Bennett plan for the classroom counts: 25 pupils, 23 analysed after 8% attrition, followed 6 months, CV 0.25 → 17 classrooms per arm', () => {
+    // By hand: y = 23 × 6 = 138, c = 1 + 7.8489 × (0.875/138 + 0.0625 × 0.390625)/0.125² = 16.47 → 17.
+    const out = calculate(draft(countClassroom).request!);
+    expect(out.result.clusterSize).toBe(23);
+    expect(out.result.clusterSizeToRecruit).toBe(25);
+    expect(out.result.clustersPerArm).toBe(17);
   });
 });

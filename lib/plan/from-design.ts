@@ -8,17 +8,25 @@
  * - a continuous exposure: `regression`, the slope of the outcome on the exposure;
  * - the treatment varies within the experimental unit in a two-period cross-over:
  *   `two-group-means` on the period differences (the AB/BA analysis, Senn 2002), below;
+ * - a count outcome (events over a follow-up time): whole clusters randomised → `cluster-rates`
+ *   (Hayes & Bennett 1999), otherwise `two-rates` (Wald test on the log rate ratio, Poisson or
+ *   negative binomial), from the baseline rate, rate ratio, follow-up time, overdispersion and
+ *   between-cluster coefficient of variation of the Assumptions step (`planForCountOutcome`);
  * - the experimental unit holds observations of units below it that are not repeated
  *   measurements over time (pupils in classrooms, plants in trays, replicate wells): binary
- *   outcome → `two-proportions` with the design effect; otherwise `cluster-means`;
+ *   outcome → `cluster-proportions` (`planForBinaryOutcome`); otherwise `cluster-means`;
  * - the experimental unit is measured repeatedly: trajectory of interest → `longitudinal-slopes`;
  *   baselines and follow-ups, or several follow-ups → `repeated-measures` (ANCOVA when the plan or
  *   the recommendation adjusts for the baseline);
- * - independent units measured once: binary → `two-proportions`; otherwise `two-group-means`.
+ * - independent units measured once: binary → `two-proportions` (`planForBinaryOutcome`);
+ *   otherwise `two-group-means`.
+ * Binary outcomes are planned from the control proportion and the effect as the Assumptions step
+ * states it (second proportion, difference, risk ratio or odds ratio); no count or binary outcome
+ * is sized by a normal approximation on an SD.
  *
  * Deeper nesting (trays → plants → leaves). The cluster-means calculation has two levels, the
  * cluster and its members. With ICCs read as shares ρₖ of the total variance σ² (the convention
- * of lib/rules/facts.ts) and Mₖ observations per unit of level k, the mean of one member (level
+ * of lib/design/facts.ts) and Mₖ observations per unit of level k, the mean of one member (level
  * c, the level below the cluster) varies within its cluster by v = Σ_{k ≥ c} ρₖ·Mₖ/M_c (the
  * bottom level's share is 1 − Σ of the others, M = 1). The cluster-means calculation is then
  * given the members' means: SD σ·√(ρ_cl + v), ICC ρ_cl / (ρ_cl + v), m = members per cluster —
@@ -39,10 +47,9 @@
  * on the Plan tab). When the effect is missing but the planned size is known, the smallest
  * detectable effect is solved for instead.
  */
-import type { Design, Level, Source } from '@/lib/design/schema';
+import type { Assumptions, Design, Level, Source } from '@/lib/design/schema';
 import { DESIGN_STEPS } from '@/lib/design/schema';
-import { armShares } from '@/lib/design/derive';
-import { designFacts, iccOf, sizeCv, type DesignFacts, type LevelInfo } from '@/lib/rules/facts';
+import { designFacts, iccOf, sizeCv, smallestArm, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
 import { cap, dec, noun, num } from '@/lib/rules/text';
 import { outcomeName } from '@/lib/rules/phrases';
 import type { Recommendation } from '@/lib/rules/types';
@@ -131,11 +138,11 @@ class Builder {
 }
 
 /** Significance level, power, attrition and multiplicity: shared by every kind. */
-function common(b: Builder, d: Design, rec: Recommendation | undefined) {
+function common(b: Builder, d: Design, f: DesignFacts, rec: Recommendation | undefined) {
   b.set('alpha', d.assumptions.alpha, 'Significance level (alpha)', design('Assumptions step'));
   b.set('power', d.assumptions.power, 'Target power', design('Assumptions step'));
-  const last = [...d.occasions.list].sort((x, y) => x.time - y.time).at(-1);
-  const dropout = Math.max(0, ...d.occasions.list.map((o) => o.attrition));
+  const last = f.occasions.at(-1);
+  const dropout = f.maxAttrition;
   if (dropout > 0) {
     if (dropout > 0.9) {
       b.need('dropout', `The attrition of ${dec(dropout * 100, 0)}% is above the 90% the calculation accepts: check the occasions.`, 'occasions');
@@ -164,8 +171,8 @@ function common(b: Builder, d: Design, rec: Recommendation | undefined) {
   }
 }
 
-function effect(b: Builder, d: Design, input: string, name: string): boolean {
-  const e = d.assumptions.effect;
+function effect(b: Builder, f: DesignFacts, input: string, name: string): boolean {
+  const e = f.outcome.effect;
   if (e) {
     b.set(input, e.value, name, fromSource(e.source));
     return true;
@@ -173,10 +180,10 @@ function effect(b: Builder, d: Design, input: string, name: string): boolean {
   return false;
 }
 
-function sd(b: Builder, d: Design): number | undefined {
-  const s = d.assumptions.outcomeSd;
+function sd(b: Builder, f: DesignFacts): number | undefined {
+  const s = f.outcome.sd;
   if (!s) {
-    b.need('sd', `The standard deviation of ${outcomeName(d)} (Assumptions step).`, 'assumptions');
+    b.need('sd', `The standard deviation of ${outcomeName(f.design)} (Assumptions step).`, 'assumptions');
     return undefined;
   }
   return s.value;
@@ -201,16 +208,9 @@ function iccNeeded(b: Builder, L: Level, input: string, what: string) {
   b.need(input, `The ICC of ${noun(L)} — ${what} (${STEP_WORD.assumptions} step).`, 'assumptions');
 }
 
-function plannedPerArm(f: DesignFacts, L: LevelInfo): number | undefined {
-  const shares = armShares(f.design);
-  if (shares.length < 2) return undefined;
-  return Math.floor(L.total * Math.min(...shares));
-}
-
-function armsNotes(b: Builder, d: Design, kindCanTakeRatio: boolean) {
-  const arms = d.assignment.arms;
-  if (arms.length > 2) b.notes.push(`The design has ${arms.length} arms; the calculation compares two of them (each pairwise comparison needs this size per arm).`);
-  const shares = armShares(d);
+function armsNotes(b: Builder, f: DesignFacts, kindCanTakeRatio: boolean) {
+  const shares = f.armShares;
+  if (shares.length > 2) b.notes.push(`The design has ${shares.length} arms; the calculation compares two of them (each pairwise comparison needs this size per arm).`);
   if (!kindCanTakeRatio && shares.length >= 2 && Math.max(...shares) - Math.min(...shares) > 1e-9) {
     b.notes.push('The arms are not equal in size; the calculation assumes equal arms, with the planned number taken from the smallest arm.');
   }
@@ -278,7 +278,7 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
     within = undefined;
   }
 
-  const sigma = binary ? undefined : sd(b, d);
+  const sigma = binary ? undefined : sd(b, f);
   if (within !== undefined && own) {
     const total = clusterShare + within;
     const icc = total > 0 ? Math.min(1, clusterShare / total) : 0;
@@ -291,14 +291,14 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
     }
     if (sigma !== undefined) {
       if (deeper) {
-        b.note(`SD of ${outcomeName(d)}`, sigma, fromSource(d.assumptions.outcomeSd!.source));
+        b.note(`SD of ${outcomeName(d)}`, sigma, fromSource(f.outcome.sd!.source));
         b.set('sd', tidy(sigma * Math.sqrt(total)), `SD of ${noun(member.level)} means`, derived('σ·√(ρ + v), from the outcome SD and the ICCs'));
       } else {
-        b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(d.assumptions.outcomeSd!.source));
+        b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(f.outcome.sd!.source));
       }
     }
   } else if (sigma !== undefined && member === bottom) {
-    b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(d.assumptions.outcomeSd!.source));
+    b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(f.outcome.sd!.source));
   }
   // The number per cluster is fixed by the clusters (a class has its pupils): attrition shrinks
   // the number analysed, and the calculation's dropout turns that back into the number recruited.
@@ -314,22 +314,15 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
   const cv = sizeCv(f, E.index, member.index);
   if (cv > 0) b.set('cv', tidy(Math.min(3, cv)), `CV of the number of ${noun(member.level, true)} per ${noun(E.level)}`, design('Structure step'));
 
-  armsNotes(b, d, false);
-  const planned = plannedPerArm(f, E);
+  armsNotes(b, f, false);
+  const planned = smallestArm(f, E);
 
-  if (binary) {
-    b.rationale.push('The outcome is binary: two proportions, with the sample size multiplied by the design effect of the clusters (Donner & Klar 2000).');
-    b.need('p1', 'The proportion expected in the comparison arm: the design has no field for it; type it below.');
-    b.need('p2', 'The proportion expected in the treated arm: type it below.');
-    if (planned !== undefined) b.planned = { input: 'nPerGroup', value: planned * Math.max(1, Math.round(m)) };
-    b.labels.size = `${noun(member.level, true)} per arm`;
-    return { kind: 'two-proportions' as const, solveFor: 'nPerGroup' };
-  }
+  if (binary) return planForBinaryOutcome(b, d.assumptions, { clustered: true, planned });
 
-  const hasEffect = effect(b, d, 'delta', 'Smallest difference worth detecting');
+  const hasEffect = effect(b, f, 'delta', 'Smallest difference worth detecting');
   const solveFor = chooseUnknown(b, hasEffect, 'clustersPerArm', 'delta', planned, 2);
-  if (d.occasions.list.some((o) => o.baseline) && d.assumptions.occasionCorrelation) {
-    const r = d.assumptions.occasionCorrelation.value;
+  if (f.baselines.length > 0 && f.occasionCorrelation) {
+    const r = f.occasionCorrelation.value;
     b.notes.push(
       `The design measures a baseline (correlation ${dec(r, 2)} between occasions). Adjusting for it can shrink the variance — for individual-level data by the factor 1 − ρ² = ${dec(1 - r * r, 2)} — but in a cluster trial the gain also depends on how well cluster means track over time, which the design does not give; this calculation does not count on it.`,
     );
@@ -338,28 +331,28 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
 }
 
 function crossover(b: Builder, d: Design, f: DesignFacts, E: LevelInfo) {
-  const periods = d.assignment.crossover.periods;
+  const periods = f.crossover?.periods ?? 2;
   b.labels.size = `${noun(E.level, true)} per sequence`;
   b.rationale.push(
     `Each ${noun(E.level)} receives both arms in a two-period cross-over, so ${noun(E.level, true)} are compared with themselves: the size to plan is the number of ${noun(E.level, true)} per sequence (AB or BA), and the test is the two-sample t test of the halved period differences between the sequences (Senn 2002).`,
   );
   const k = E.obsPerUnit / periods;
-  const rhoSource = iccOf(f, E.level.id) ?? (d.assumptions.occasionCorrelation ? { value: d.assumptions.occasionCorrelation.value, source: d.assumptions.occasionCorrelation.source } : undefined);
+  const rhoSource = iccOf(f, E.level.id) ?? f.occasionCorrelation;
   if (!rhoSource) b.need('rho', `The correlation between observations of one ${noun(E.level)}: the ICC of ${noun(E.level)} or the occasion correlation (Assumptions step).`, 'assumptions');
   else if (rhoSource.value < 0 || rhoSource.value >= 1) b.need('rho', `The correlation between observations of one ${noun(E.level)} must be between 0 and 1 (Assumptions step).`, 'assumptions');
-  const sigma = sd(b, d);
+  const sigma = sd(b, f);
   b.note(`${cap(noun(f.bottom!.level, true))} per ${noun(E.level)} in each period`, tidy(k), design('Structure and Assignment steps'));
   if (!Number.isInteger(k)) b.notes.push(`${num(E.obsPerUnit)} observations per ${noun(E.level)} do not split evenly over ${periods} periods; the calculation uses ${dec(k, 2)} per period.`);
   if (rhoSource && rhoSource.value >= 0 && rhoSource.value < 1 && sigma !== undefined) {
-    b.note(`SD of ${outcomeName(d)}`, sigma, fromSource(d.assumptions.outcomeSd!.source));
+    b.note(`SD of ${outcomeName(d)}`, sigma, fromSource(f.outcome.sd!.source));
     b.note(`Correlation between observations of one ${noun(E.level)}`, rhoSource.value, fromSource(rhoSource.source));
     b.set('sd', tidy(sigma * Math.sqrt((1 - rhoSource.value) / (2 * k))), 'SD of the halved period difference', derived('σ·√((1 − ρ)/(2k)), k observations per period'));
   }
   if (d.occasions.correlationStructure === 'ar1') {
     b.notes.push('The occasions are described as AR(1) (neighbouring observations more alike); the calculation assumes equal correlation between all observations of a unit, which is only an approximation then.');
   }
-  if (d.assignment.crossover.carryoverPossible) b.notes.push('Carry-over is possible: the calculation assumes none; plan a washout (Senn 2002).');
-  const hasEffect = effect(b, d, 'delta', 'Smallest difference worth detecting');
+  if (f.crossover?.carryoverPossible) b.notes.push('Carry-over is possible: the calculation assumes none; plan a washout (Senn 2002).');
+  const hasEffect = effect(b, f, 'delta', 'Smallest difference worth detecting');
   const units = E.total;
   const solveFor = chooseUnknown(b, hasEffect, 'nPerGroup', 'delta', Math.floor(units / 2), 2);
   return { kind: 'two-group-means' as const, solveFor };
@@ -367,15 +360,12 @@ function crossover(b: Builder, d: Design, f: DesignFacts, E: LevelInfo) {
 
 function repeated(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, rec: Recommendation | undefined) {
   const { baselines, followUps } = f;
-  const times = [...d.occasions.list].sort((x, y) => x.time - y.time).map((o) => o.time);
+  const times = f.occasions.map((o) => o.time);
   const trajectory = d.occasions.trajectoryOfInterest || d.analysis.randomSlopeForTime;
   b.labels.size = `${noun(E.level, true)} per arm`;
-  const planned = plannedPerArm(f, E);
-  armsNotes(b, d, false);
-  const rho = d.assumptions.occasionCorrelation ?? (() => {
-    const c = iccOf(f, E.level.id);
-    return c ? { value: c.value, source: c.source } : undefined;
-  })();
+  const planned = smallestArm(f, E);
+  armsNotes(b, f, false);
+  const rho = f.occasionCorrelation ?? iccOf(f, E.level.id);
   const setRho = () => {
     if (!rho) b.need('rho', `The correlation between occasions of one ${noun(E.level)} (Assumptions step).`, 'assumptions');
     else if (rho.value < 0) b.need('rho', `The occasion correlation is negative (${dec(rho.value, 2)}); the calculation needs a correlation between 0 and 1 (Assumptions step).`, 'assumptions');
@@ -387,16 +377,17 @@ function repeated(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, rec: Reco
     b.rationale.push(
       `The trajectory is of interest: the calculation compares the rates of change of ${outcomeName(d)} between the arms over the ${times.length} occasions (Diggle et al. 2002, compound symmetry).`,
     );
-    const sigma = sd(b, d);
-    if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(d.assumptions.outcomeSd!.source));
+    const sigma = sd(b, f);
+    if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(f.outcome.sd!.source));
     setRho();
     b.set('times', times, `Times of the occasions (${d.occasions.timeUnit})`, design('Occasions step'));
     const span = times[times.length - 1]! - times[0]!;
     let hasEffect = false;
-    if (d.assumptions.effect && span > 0) {
-      b.note('Smallest difference worth detecting', d.assumptions.effect.value, fromSource(d.assumptions.effect.source));
-      b.set('slopeDifference', tidy(d.assumptions.effect.value / span), `Difference in slopes (per ${d.occasions.timeUnit.replace(/s$/, '')})`, derived(`the effect reached by the last occasion: δ / ${dec(span, 3)}`));
-      b.rationale.push(`The effect is read as the difference reached by the last occasion, so the difference in slopes is ${dec(d.assumptions.effect.value, 3)} / ${dec(span, 3)} per ${d.occasions.timeUnit.replace(/s$/, '')}.`);
+    const delta = f.outcome.effect;
+    if (delta && span > 0) {
+      b.note('Smallest difference worth detecting', delta.value, fromSource(delta.source));
+      b.set('slopeDifference', tidy(delta.value / span), `Difference in slopes (per ${d.occasions.timeUnit.replace(/s$/, '')})`, derived(`the effect reached by the last occasion: δ / ${dec(span, 3)}`));
+      b.rationale.push(`The effect is read as the difference reached by the last occasion, so the difference in slopes is ${dec(delta.value, 3)} / ${dec(span, 3)} per ${d.occasions.timeUnit.replace(/s$/, '')}.`);
       hasEffect = true;
     }
     const solveFor = chooseUnknown(b, hasEffect, 'nPerGroup', 'slopeDifference', planned, 2);
@@ -416,42 +407,36 @@ function repeated(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, rec: Reco
       (analysis === 'ancova' ? (planAdjusts ? ' The analysis plan adjusts for the baseline.' : ' The Checks recommend adjusting for the baseline.') : ''),
   );
   if (analysis === 'change') b.notes.push('The plan compares changes from baseline; ANCOVA on the baseline is never less efficient (Frison & Pocock 1992; Vickers & Altman 2001).');
-  const sigma = sd(b, d);
-  if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(d.assumptions.outcomeSd!.source));
+  const sigma = sd(b, f);
+  if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(f.outcome.sd!.source));
   setRho();
   b.set('baselines', nBase, 'Baseline occasions', design('Occasions step'));
   b.set('followUps', nFollow, 'Follow-up occasions', design(followUps.length > 0 ? 'Occasions step' : 'Structure step'));
   b.set('analysis', analysis, 'Analysis', design(planAdjusts ? 'Analysis plan step' : recAdjusts ? 'Recommended analysis (Checks)' : 'Analysis plan step'));
-  const hasEffect = effect(b, d, 'delta', 'Smallest difference worth detecting');
+  const hasEffect = effect(b, f, 'delta', 'Smallest difference worth detecting');
   const solveFor = chooseUnknown(b, hasEffect, 'nPerGroup', 'delta', planned, 2);
   return { kind: 'repeated-measures' as const, solveFor };
 }
 
 function independent(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: boolean) {
   b.labels.size = `${noun(E.level, true)} per arm`;
-  const shares = armShares(d);
-  const planned = plannedPerArm(f, E);
-  armsNotes(b, d, true);
+  const shares = f.armShares;
+  const planned = smallestArm(f, E);
+  armsNotes(b, f, true);
   if (shares.length >= 2 && Math.abs(shares[1]! / shares[0]! - 1) > 1e-9) {
     b.set('ratio', tidy(shares[1]! / shares[0]!), `Allocation ratio (${d.assignment.arms[1]!.name} : ${d.assignment.arms[0]!.name})`, design('Assignment step'));
     b.labels.size = `${noun(E.level, true)} in ${d.assignment.arms[0]!.name}`;
   }
-  if (binary) {
-    b.rationale.push(`${cap(noun(E.level, true))} are independent and the outcome is binary: two proportions, normal approximation (Fleiss, Levin & Paik 2003).`);
-    b.need('p1', 'The proportion expected in the comparison arm: the design has no field for it; type it below.');
-    b.need('p2', 'The proportion expected in the treated arm: type it below.');
-    if (planned !== undefined && planned >= 2) b.planned = { input: 'nPerGroup', value: planned };
-    return { kind: 'two-proportions' as const, solveFor: 'nPerGroup' };
-  }
+  if (binary) return planForBinaryOutcome(b, d.assumptions, { clustered: false, planned });
   b.rationale.push(`${cap(noun(E.level, true))} are assigned to the arms and measured once each, independently: the calculation is the two-sample t test (Cohen 1988).`);
   const above = f.levels.slice(0, E.index).filter((l) => l.groupsObservations);
   if (above.length > 0) {
     const names = above.map((l) => noun(l.level, true)).join(' and ');
     b.notes.push(`The ${noun(E.level, true)} share ${names}; if both arms are found within each, an analysis that accounts for the ${names} (see Checks) compares the arms within them and is at least as precise as this t test assumes.`);
   }
-  const sigma = sd(b, d);
-  if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(d.assumptions.outcomeSd!.source));
-  const hasEffect = effect(b, d, 'delta', 'Smallest difference worth detecting');
+  const sigma = sd(b, f);
+  if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(f.outcome.sd!.source));
+  const hasEffect = effect(b, f, 'delta', 'Smallest difference worth detecting');
   const solveFor = chooseUnknown(b, hasEffect, 'nPerGroup', 'delta', planned, 2);
   return { kind: 'two-group-means' as const, solveFor };
 }
@@ -464,17 +449,119 @@ function exposure(b: Builder, d: Design, f: DesignFacts, E: LevelInfo | undefine
   const covariates = d.outcome.explanatoryVariables.filter((x) => x.role === 'covariate').length;
   b.set('testedPredictors', 1, 'Predictors tested', design('Outcome step'));
   b.set('predictors', 1 + covariates, 'Predictors in the model', design(`Outcome step: the exposure${covariates ? ` and ${covariates} covariate${covariates === 1 ? '' : 's'}` : ''}`));
-  const sigma = sd(b, d);
+  const sigma = sd(b, f);
   if (sigma !== undefined) {
-    b.set('residualSd', sigma, `Residual SD (taken as the SD of ${outcomeName(d)})`, fromSource(d.assumptions.outcomeSd!.source));
+    b.set('residualSd', sigma, `Residual SD (taken as the SD of ${outcomeName(d)})`, fromSource(f.outcome.sd!.source));
     b.notes.push('The residual SD is taken as the SD of the outcome, which is conservative: the covariates and the exposure explain some of it.');
   }
   b.need('sdX', `The SD of ${name} in the study: the design gives a range, not an SD; type it below.`);
-  const hasEffect = effect(b, d, 'slope', `Slope: change in ${outcomeName(d)} per unit of ${name}`);
+  const hasEffect = effect(b, f, 'slope', `Slope: change in ${outcomeName(d)} per unit of ${name}`);
   if (E && E.groupsObservations) b.notes.push(`${cap(noun(E.level, true))} hold several observations each; this regression treats observations as independent, so its size is for ${noun(E.level)}-level data (one value per ${noun(E.level)}).`);
   const planned = E ? E.total : undefined;
   const solveFor = chooseUnknown(b, hasEffect, 'n', 'f2', planned, 3);
   return { kind: 'regression' as const, solveFor };
+}
+
+// ---------------------------------------------------------------- count and binary outcomes
+
+/** What the count and binary plans need from the design, read by the caller. */
+export interface OutcomeSizing {
+  /** Whole clusters are randomised (the size is clusters per arm); the members per cluster are set by the caller or given here. */
+  clustered: boolean;
+  /** Members analysed per cluster, for counts (the binary plan takes it from the cluster inputs already set). */
+  clusterSize?: { value: number; name: string; source: PlanAssumption['source'] };
+  /** The size the design plans: units per arm, or clusters per arm. */
+  planned?: number;
+  /** Allocation ratio of the second arm to the first, when the arms are unequal (units randomised one by one). */
+  ratio?: number;
+}
+
+const EFFECT_NAMES: Record<NonNullable<Assumptions['proportionEffect']>['measure'], string> = {
+  p2: 'Proportion expected with the intervention',
+  difference: 'Difference in proportions worth detecting',
+  riskRatio: 'Risk ratio worth detecting',
+  oddsRatio: 'Odds ratio worth detecting',
+};
+
+/**
+ * A yes-or-no outcome: two proportions (units randomised one by one) or cluster-randomised
+ * proportions (the ICC, cluster size and its CV already set by the caller), with the control
+ * proportion and the effect in the form the Assumptions step gives it.
+ */
+function planForBinaryOutcome(b: Builder, a: Assumptions, read: OutcomeSizing) {
+  const kind = read.clustered ? ('cluster-proportions' as const) : ('two-proportions' as const);
+  const sizeInput = read.clustered ? 'clustersPerArm' : 'nPerGroup';
+  b.rationale.push(
+    read.clustered
+      ? 'The outcome is yes or no and whole clusters are randomised: two proportions at the effective number per arm, clusters × members / design effect, with the ICC on the proportion scale (Donner & Klar 2000); the power of a t test on cluster proportions is shown beside it.'
+      : 'Units are randomised one by one and the outcome is yes or no: two proportions by the normal approximation (Fleiss, Levin & Paik 2003).',
+  );
+  if ('ratio' in b.inputs) {
+    delete b.inputs.ratio;
+    b.notes.push('The arms are not equal in size; the calculation for two proportions assumes equal arms, with the planned number taken from the smallest arm.');
+  }
+  if (a.controlProportion) b.set('p1', a.controlProportion.value, 'Proportion expected without the intervention', fromSource(a.controlProportion.source));
+  else b.need('p1', 'The proportion expected without the intervention (Assumptions step).', 'assumptions');
+  const e = a.proportionEffect;
+  if (e) b.set(e.measure, e.value, EFFECT_NAMES[e.measure], fromSource(e.source));
+  const solveFor = chooseUnknown(b, e !== undefined, sizeInput, 'p2', read.planned, 2);
+  return { kind, solveFor };
+}
+
+/**
+ * Counts of events: two event rates (units randomised one by one; Wald test on the log rate
+ * ratio, Poisson or negative binomial) or cluster-randomised rates (Hayes & Bennett 1999), from
+ * the baseline rate, rate ratio, follow-up time, overdispersion and — for clusters — the
+ * variation of rates between clusters that the Assumptions step gives.
+ */
+function planForCountOutcome(b: Builder, a: Assumptions, read: OutcomeSizing) {
+  const kind = read.clustered ? ('cluster-rates' as const) : ('two-rates' as const);
+  const sizeInput = read.clustered ? 'clustersPerArm' : 'nPerGroup';
+  b.rationale.push(
+    read.clustered
+      ? 'The outcome is a count of events and whole clusters are randomised: clusters per arm by Hayes & Bennett (1999), from the variation of the rates between clusters and the person-time followed in each.'
+      : 'The outcome is a count of events over each unit’s follow-up: the Wald test on the log rate ratio, for Poisson or negative binomial counts (Zhu & Lakkis 2014).',
+  );
+  const sourced = (input: string, value: Assumptions['baselineRate'], name: string, missing: string) => {
+    if (value) b.set(input, value.value, name, fromSource(value.source));
+    else b.need(input, `${missing} (Assumptions step).`, 'assumptions');
+  };
+  sourced('baselineRate', a.baselineRate, 'Baseline rate (events per unit of follow-up time)', 'The rate of events expected without the intervention');
+  sourced('exposure', a.followUpTime, 'Follow-up time per unit', 'The follow-up time of each unit, in the time unit of the rate');
+  sourced('dispersion', a.dispersion, 'Overdispersion between units', 'The overdispersion of the counts between units (0 for plain Poisson counts)');
+  if (read.clustered) {
+    sourced('betweenClusterCv', a.betweenClusterCv, 'Between-cluster coefficient of variation of the rate', 'The coefficient of variation of the rates between clusters');
+    if (read.clusterSize) b.set('clusterSize', read.clusterSize.value, read.clusterSize.name, read.clusterSize.source);
+  } else if (read.ratio !== undefined && Math.abs(read.ratio - 1) > 1e-9) {
+    b.set('ratio', tidy(read.ratio), 'Allocation ratio', design('Assignment step'));
+  }
+  if (a.rateRatio) b.set('rateRatio', a.rateRatio.value, 'Rate ratio worth detecting', fromSource(a.rateRatio.source));
+  const solveFor = chooseUnknown(b, a.rateRatio !== undefined, sizeInput, 'rateRatio', read.planned, 2);
+  return { kind, solveFor };
+}
+
+/**
+ * The numbers a count plan reads from the design's facts: cluster-randomised with the members
+ * per cluster analysed (after attrition, as for cluster means), or units randomised one by one
+ * with their allocation ratio; and the planned size.
+ */
+function countSizing(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, clustered: boolean): OutcomeSizing {
+  const planned = smallestArm(f, E);
+  if (!clustered) {
+    b.labels.size = `${noun(E.level, true)} per arm`;
+    armsNotes(b, f, true);
+    const shares = f.armShares;
+    return { clustered, planned, ...(shares.length >= 2 ? { ratio: shares[1]! / shares[0]! } : {}) };
+  }
+  const member = f.levels[E.index + 1]!;
+  b.labels.size = `${noun(E.level, true)} per arm`;
+  b.labels.member = `${noun(member.level, true)} per ${noun(E.level)}`;
+  armsNotes(b, f, false);
+  const dropout = typeof b.inputs.dropout === 'number' ? b.inputs.dropout : 0;
+  const analysed = Math.max(1, Math.floor(member.perParent * (1 - dropout) + 1e-9));
+  const name = `${cap(noun(member.level, true))} per ${noun(E.level)}${dropout > 0 ? ' analysed' : ''}`;
+  const source = dropout > 0 ? derived(`${num(member.perParent)} × (1 − ${dec(dropout, 3)}), rounded down`) : design('Structure step');
+  return { clustered, planned, clusterSize: { value: analysed, name, source } };
 }
 
 // ---------------------------------------------------------------- entry point
@@ -516,13 +603,13 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
     b.rationale.push('The structure is not described yet, so no calculation can be chosen.');
     return done(null, null);
   }
-  if (d.outcome.type === 'time-to-event') {
+  if (f.outcome.family === 'time-to-event') {
     b.rationale.push('The outcome is a time to an event; Unitwise has no calculation for survival outcomes yet. Ask a statistician for an events-based calculation.');
     return done(null, null);
   }
   const E = f.eu;
   if (d.assignment.kind === 'continuous') {
-    common(b, d, recommendation);
+    common(b, d, f, recommendation);
     const r = exposure(b, d, f, E);
     return done(r.kind, r.solveFor);
   }
@@ -531,20 +618,22 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
     b.rationale.push('The level of assignment is not given yet, so the experimental unit — and with it the calculation — cannot be chosen.');
     return done(null, null);
   }
-  if (d.assignment.arms.length < 2 && !f.withinUnit) {
+  if (f.armShares.length < 2 && !f.withinUnit) {
     b.need('arms', 'The arms being compared (Assignment step).', 'assignment');
   }
-  const binary = d.outcome.type === 'binary';
-  if (!d.outcome.type) b.notes.push('The outcome type is not given; the calculation treats the outcome as continuous (Outcome step).');
-  else if (d.outcome.type !== 'continuous' && !binary) {
-    b.notes.push(`The outcome is a ${d.outcome.type.replace(/-/g, ' ')}; the calculation uses its mean and SD (a normal approximation), which is rough when values pile up at a bound or are small counts.`);
+  const family = f.outcome.family;
+  const binary = family === 'binary';
+  const count = family === 'count';
+  if (!f.outcome.type) b.notes.push('The outcome type is not given; the calculation treats the outcome as continuous (Outcome step).');
+  else if (family !== 'continuous' && !binary && !count) {
+    b.notes.push(`The outcome is a ${family.replace(/-/g, ' ')}; the calculation uses its mean and SD (a normal approximation), which is rough when values pile up at a bound or are small counts.`);
   }
-  common(b, d, recommendation);
+  common(b, d, f, recommendation);
 
   if (f.withinUnit) {
-    if (!d.assignment.crossover.enabled || d.assignment.crossover.periods !== 2 || binary) {
+    if (f.crossover?.periods !== 2 || binary || count) {
       b.rationale.push(
-        `The treatment varies within each ${noun(E.level)}${d.assignment.crossover.enabled ? ` over ${d.assignment.crossover.periods} periods` : ''}; Unitwise calculates within-unit comparisons only for a two-period cross-over with a continuous outcome.`,
+        `The treatment varies within each ${noun(E.level)}${f.crossover ? ` over ${f.crossover.periods} periods` : ''}; Unitwise calculates within-unit comparisons only for a two-period cross-over with a continuous outcome.`,
       );
       b.need('crossover', 'A two-period cross-over (Assignment step), or ask a statistician for this design.', 'assignment');
       return done(null, null);
@@ -555,7 +644,13 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
 
   const below = f.levels[E.index + 1];
   const measuredOverTime = below?.level.kind === 'repeated' || (!below && f.followUps.length + f.baselines.length >= 2);
-  if (below && E.groupsObservations && below.level.kind !== 'repeated') {
+  const clusterRandomised = below !== undefined && E.groupsObservations && below.level.kind !== 'repeated';
+  if (count) {
+    if (measuredOverTime) b.notes.push('The counts of all occasions are taken together: one rate per unit over its whole follow-up time.');
+    const r = planForCountOutcome(b, d.assumptions, countSizing(b, d, f, E, clusterRandomised));
+    return done(r.kind, r.solveFor);
+  }
+  if (clusterRandomised) {
     const r = clustered(b, d, f, E, binary);
     return done(r.kind, r.solveFor);
   }

@@ -23,7 +23,7 @@
  */
 import type { Analysis, Design } from '@/lib/design/schema';
 import { BATES_2015, DIGGLE_2002, DONNER_KLAR_2000, GELMAN_HILL_2007, HOLM_1979, MCCULLAGH_NELDER_1989, SENN_2002 } from './citations';
-import { accountsFor, designFacts, iccOf } from './facts';
+import { accountsFor, designFacts, iccOf } from '@/lib/design/facts';
 import { familyFor, modelPlan } from './model';
 import { methodName, outcomeName, plannedMethod, treatmentName } from './phrases';
 import { ASK_STATISTICIAN, cap, count, dec, noun, num, numbers } from './text';
@@ -66,7 +66,7 @@ export const analysisMismatch: Rule = {
     if (E && f.withinUnit && E.groupsObservations && !accountsFor(f, E)) {
       const icc = iccOf(f, E.level.id)?.value;
       const naiveDf = Math.max(0, f.totalObs - 2);
-      const designDf = Math.max(0, E.total - (design.assignment.crossover.enabled ? 2 : 1));
+      const designDf = Math.max(0, E.total - (f.crossover ? 2 : 1));
       out.push({
         ruleId: ID,
         key: `repeated-${E.level.id}`,
@@ -77,7 +77,7 @@ export const analysisMismatch: Rule = {
           `Measurements of the same ${noun(E.level)} are correlated${icc !== undefined ? ` (ICC ${dec(icc, 3)})` : ''}. An analysis that ignores this gets the error wrong in two ways at once: ` +
           `it counts differences between ${noun(E.level, true)}, which a within-${noun(E.level)} comparison removes, as noise (wasting the design's main advantage), and it treats consecutive measurements under the same arm as independent, which overstates the information in them. ` +
           `Its standard error, its degrees of freedom (${num(naiveDf)} in place of about ${num(designDf)} from ${count(E.total, E.level)}) and its p-value do not describe this design.`,
-        todo: `Analyse within ${noun(E.level, true)}: a mixed model with a random intercept for ${noun(E.level)}${design.assignment.crossover.enabled ? ' and period as a fixed effect' : ''}, \`${model}\`, counting the ${count(E.total, E.level)} as n. ${ASK_STATISTICIAN}`,
+        todo: `Analyse within ${noun(E.level, true)}: a mixed model with a random intercept for ${noun(E.level)}${f.crossover ? ' and period as a fixed effect' : ''}, \`${model}\`, counting the ${count(E.total, E.level)} as n. ${ASK_STATISTICIAN}`,
         model,
         numbers: numbers({ observations: f.totalObs, experimentalUnits: E.total, naiveDf, designDf, icc }),
         citations: [SENN_2002, DIGGLE_2002, BATES_2015],

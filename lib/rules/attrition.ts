@@ -15,7 +15,7 @@
  * - recruitment for the same analysable number, N/(1 − a) (SPIRIT 2013 item 14 asks for it).
  */
 import { DIGGLE_2002, LIANG_ZEGER_1986, SPIRIT_2013 } from './citations';
-import { designFacts } from './facts';
+import { designFacts } from '@/lib/design/facts';
 import { count, noun, num, numbers, pct } from './text';
 import type { Rule } from './types';
 
@@ -26,11 +26,10 @@ export const attrition: Rule = {
   title: 'Attrition over occasions',
   severity: 'warning',
   check(design) {
-    const list = [...design.occasions.list].sort((x, y) => x.time - y.time);
-    if (list.length === 0) return [];
-    const a = Math.max(...list.map((o) => o.attrition));
-    if (!(a > 0)) return [];
     const f = designFacts(design);
+    const list = f.occasions;
+    const a = f.maxAttrition;
+    if (!(a > 0)) return [];
     const unit = [...f.levels].reverse().find((l) => l.level.kind !== 'repeated' && l.level.kind !== 'replicate');
     const last = list.find((o) => o.attrition === a)!;
     const several = list.length >= 2 && (f.subject !== undefined || list.filter((o) => !o.baseline).length >= 1);

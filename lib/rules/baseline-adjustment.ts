@@ -11,7 +11,7 @@
  * illustration, said to be so.
  */
 import { FRISON_POCOCK_1992, VICKERS_ALTMAN_2001 } from './citations';
-import { designFacts } from './facts';
+import { designFacts } from '@/lib/design/facts';
 import { modelPlan, randomLevels } from './model';
 import { outcomeName, plannedMethod, sourcePhrase } from './phrases';
 import { ASK_STATISTICIAN, cap, dec, numbers, pct } from './text';

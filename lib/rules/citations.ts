@@ -50,3 +50,12 @@ export const COHEN_1988 = cite(
   'Cohen 1988',
   'Cohen (1988). Statistical Power Analysis for the Behavioral Sciences (2nd ed.). Hillsdale, NJ: Lawrence Erlbaum.',
 );
+
+// Appended for the count (event-rate) calculations. Hayes & Bennett: title, journal, volume and
+// first page checked against the PubMed record (Int J Epidemiol 1999;28(2):319–26). Zhu & Lakkis:
+// authors, year and journal as public implementations cite them; volume and page from memory.
+export const HAYES_BENNETT_1999 = cite(
+  'Hayes & Bennett 1999',
+  'Hayes & Bennett (1999). Simple sample size calculation for cluster-randomized trials. Int J Epidemiol 28:319.',
+);
+export const ZHU_LAKKIS_2014 = cite('Zhu & Lakkis 2014', 'Zhu & Lakkis (2014). Sample size calculation for comparing two negative binomial rates. Stat Med 33:376.');

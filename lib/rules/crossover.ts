@@ -11,7 +11,7 @@
  * - `period` (advice): include period as a fixed effect and balance the sequences (Senn 2002).
  */
 import { SENN_2002 } from './citations';
-import { designFacts } from './facts';
+import { designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { treatmentName } from './phrases';
 import { cap, count, list, noun, num, numbers } from './text';

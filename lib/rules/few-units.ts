@@ -21,7 +21,8 @@
  * residual df of an analysis of every observation (N − arms).
  */
 import { BELL_MCCAFFREY_2002, DONNER_KLAR_2000, HAYES_MOULTON_2017, KENWARD_ROGER_1997, PUSTEJOVSKY_TIPTON_2018, RAUDENBUSH_1997, SATTERTHWAITE_1946 } from './citations';
-import { designFacts, FEW_CLUSTERS, unitsPerArm } from './facts';
+import { designFacts, unitsPerArm } from '@/lib/design/facts';
+import { FEW_CLUSTERS } from './clustering';
 import { assignedVerb, treatmentName, unitsWithArms } from './phrases';
 import { ASK_STATISTICIAN, cap, count, noun, num, numbers } from './text';
 import type { Finding, Rule } from './types';

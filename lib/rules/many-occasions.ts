@@ -11,7 +11,7 @@
  *   (or not at all): splines or polynomial terms, and a random slope for time (Diggle et al. 2002).
  */
 import { DIGGLE_2002 } from './citations';
-import { designFacts } from './facts';
+import { designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { cap, dec, noun, num, numbers } from './text';
 import type { Finding, Rule } from './types';
@@ -24,7 +24,7 @@ export const manyOccasions: Rule = {
   severity: 'advice',
   check(design) {
     const f = designFacts(design);
-    const times = [...design.occasions.list].map((o) => o.time).sort((a, b) => a - b);
+    const times = f.occasions.map((o) => o.time);
     const T = times.length;
     const gaps = times.slice(1).map((t, i) => t - times[i]!);
     const unequal = gaps.length >= 2 && gaps.some((g) => Math.abs(g - gaps[0]!) > 1e-9 * Math.max(1, Math.abs(gaps[0]!)));

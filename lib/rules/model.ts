@@ -11,7 +11,8 @@
  * below about 40 experimental units, Satterthwaite above, between-within df for a GLMM.
  */
 import type { Analysis, Design } from '@/lib/design/schema';
-import { designFacts, FEW_CLUSTERS, type DesignFacts, type LevelInfo } from './facts';
+import { designFacts, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
+import { FEW_CLUSTERS } from './clustering';
 import { identifier } from './text';
 
 export interface ModelPlan {
@@ -102,8 +103,8 @@ function buildPlan(f: DesignFacts): ModelPlan {
   const outcome = identifier(d.outcome.name, 'y');
   const response = logScale ? `log(${outcome})` : outcome;
   const treatment = treatmentTerm(d);
-  const crossover = d.assignment.crossover.enabled;
-  const occasions = d.occasions.list.length;
+  const crossover = f.crossover !== undefined;
+  const occasions = f.occasions.length;
   const hasBaseline = f.baselines.length > 0 && f.followUps.length > 0;
   const repeatedOverTime = f.subject !== undefined && f.followUps.length >= 2 && !crossover;
   const trajectory = repeatedOverTime && d.occasions.trajectoryOfInterest;

@@ -13,7 +13,8 @@
  */
 import { effectiveSampleSize } from '@/lib/stats/design-effect';
 import { DONNER_KLAR_2000, ELDRIDGE_2006, HAYES_MOULTON_2017, KISH_1965 } from './citations';
-import { accountsFor, clusteringEffect, designFacts, givenIccs, iccOf, plausibleIccRange, sizeCv, type LevelInfo } from './facts';
+import { accountsFor, designFacts, givenIccs, iccOf, sizeCv, type LevelInfo } from '@/lib/design/facts';
+import { clusteringEffect, plausibleIccRange } from './clustering';
 import { modelPlan } from './model';
 import { range } from './phrases';
 import { cap, count, dec, list, noun, num, numbers, pct } from './text';

@@ -13,7 +13,7 @@
  * effects are cluster-specific and population-averaged respectively.
  */
 import { BATES_2015, FLEISS_2003, LIANG_ZEGER_1986, MCCULLAGH_NELDER_1989 } from './citations';
-import { designFacts } from './facts';
+import { designFacts } from '@/lib/design/facts';
 import { familyFor, modelPlan, randomLevels } from './model';
 import { outcomeName, plannedMethod } from './phrases';
 import { cap, noun } from './text';

@@ -11,7 +11,7 @@
  *   intercept for the pair (Bates et al. 2015).
  */
 import { BATES_2015, DONNER_KLAR_2000, HAYES_MOULTON_2017 } from './citations';
-import { accountsFor, designFacts } from './facts';
+import { accountsFor, designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { cap, count, noun, num } from './text';
 import type { Finding, Rule } from './types';

@@ -3,7 +3,7 @@
  * method, the ICC as a figure or a range. Kept here so the findings word things the same way.
  */
 import type { Analysis, Design } from '@/lib/design/schema';
-import type { DesignFacts, LevelInfo } from './facts';
+import type { DesignFacts, LevelInfo } from '@/lib/design/facts';
 import { count, dec, noun, num } from './text';
 
 const METHOD_NAMES: Record<NonNullable<Analysis['method']>, string> = {

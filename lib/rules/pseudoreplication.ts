@@ -14,7 +14,7 @@
  */
 import { designEffect } from '@/lib/stats/design-effect';
 import { HURLBERT_1984, KISH_1965, LAZIC_2010 } from './citations';
-import { accountsFor, designFacts, iccOf } from './facts';
+import { accountsFor, designFacts, iccOf, sizeCv } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { range } from './phrases';
 import { cap, count, dec, list, noun, num, numbers } from './text';
@@ -33,7 +33,7 @@ export const pseudoreplication: Rule = {
       if (R.level.kind !== 'replicate' || R.index === 0 || !(R.perParent > 1)) continue;
       const P = f.levels[R.index - 1]!;
       const k = R.perParent;
-      const cv = R.level.countCv;
+      const cv = sizeCv(f, P.index, R.index);
       const counted = f.unitOfAnalysis ? f.unitOfAnalysis.index >= R.index : f.planGiven && !accountsFor(f, P);
       const E = f.eu && f.eu.index < P.index ? f.eu : undefined;
 

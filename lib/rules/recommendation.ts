@@ -24,7 +24,7 @@ import {
   SENN_2002,
   uniqueCitations,
 } from './citations';
-import { designFacts, unitsPerArm } from './facts';
+import { designFacts, unitsPerArm } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { assignedVerb, outcomeName, treatmentName } from './phrases';
 import { cap, count, list, noun, num, pct } from './text';
@@ -46,7 +46,7 @@ export function recommend(design: Design, findings: readonly Finding[]): Recomme
   const unequalVariance = design.outcome.unequalVarianceExpected === true;
   const standardErrors: Analysis['standardErrors'] = unequalVariance && !mixed ? 'hc3' : 'model';
   const modelVariance = unequalVariance && mixed;
-  const maxAttrition = Math.max(0, ...design.occasions.list.map((o) => o.attrition));
+  const maxAttrition = f.maxAttrition;
   const K = design.outcome.primaryOutcomes;
   const citations: Citation[] = [];
   const adjustments: string[] = [];
@@ -66,7 +66,7 @@ export function recommend(design: Design, findings: readonly Finding[]): Recomme
     citations.push(FRISON_POCOCK_1992);
   }
   if (plan.blockTerm) adjustments.push(`Include ${plan.blockTerm} in the model, as the randomisation was ${design.assignment.blocking.kind} by it.`);
-  if (design.assignment.crossover.enabled) {
+  if (f.crossover) {
     adjustments.push('Period as a fixed effect; a washout (or a run-in left out of the analysis) rather than a test for carry-over.');
     citations.push(SENN_2002);
   }

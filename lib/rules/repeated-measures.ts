@@ -15,7 +15,7 @@
  */
 import { designEffect, effectiveSampleSize } from '@/lib/stats/design-effect';
 import { BATES_2015, DIGGLE_2002, KISH_1965 } from './citations';
-import { accountsFor, designFacts, iccOf } from './facts';
+import { accountsFor, designFacts, iccOf } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { outcomeName, range, treatmentName } from './phrases';
 import { cap, count, dec, noun, num, numbers } from './text';

@@ -11,7 +11,7 @@
  * the unit to which a treatment is independently applied); Lazic 2010.
  */
 import { HURLBERT_1984, LAZIC_2010 } from './citations';
-import { accountsFor, designFacts, unitsPerArm } from './facts';
+import { accountsFor, designFacts, unitsPerArm } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { assignedVerb, treatmentName, unitsWithArms } from './phrases';
 import { cap, count, noun, num, numbers } from './text';

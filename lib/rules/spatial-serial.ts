@@ -12,7 +12,7 @@
  *   segregated layouts).
  */
 import { DIGGLE_2002, HURLBERT_1984 } from './citations';
-import { designFacts } from './facts';
+import { designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { cap, count, dec, noun, num, numbers } from './text';
 import type { Finding, Rule } from './types';

@@ -12,7 +12,8 @@
  * CONSORT's cluster extension asks trials to report the ICC and its uncertainty.
  */
 import { CONSORT_CLUSTER_2010, DONNER_KLAR_2000, HAYES_MOULTON_2017 } from './citations';
-import { clusteringEffect, designFacts, givenIccs, iccOf, plausibleIccRange } from './facts';
+import { designFacts, givenIccs, iccOf } from '@/lib/design/facts';
+import { clusteringEffect, plausibleIccRange } from './clustering';
 import { sourcePhrase } from './phrases';
 import { dec, noun, numbers } from './text';
 import type { Finding, Rule } from './types';

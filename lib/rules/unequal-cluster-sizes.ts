@@ -13,7 +13,8 @@
  * clusters efficiently.
  */
 import { ELDRIDGE_2006, KISH_1965 } from './citations';
-import { clusteringEffect, designFacts, givenIccs, iccOf, plausibleIccRange, sizeCv } from './facts';
+import { designFacts, givenIccs, iccOf, sizeCv } from '@/lib/design/facts';
+import { clusteringEffect, plausibleIccRange } from './clustering';
 import { cap, dec, noun, num, numbers, pct } from './text';
 import type { Finding, Rule } from './types';
 

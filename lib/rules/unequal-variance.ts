@@ -12,9 +12,8 @@
  * Tipton 2018), or a separate residual variance per arm in the mixed model.
  * Quantified: the allocation ratio, largest share over smallest.
  */
-import { armShares } from '@/lib/design/derive';
 import { MACKINNON_WHITE_1985, PUSTEJOVSKY_TIPTON_2018 } from './citations';
-import { designFacts } from './facts';
+import { designFacts } from '@/lib/design/facts';
 import { randomLevels } from './model';
 import { plannedMethod } from './phrases';
 import { dec, noun, numbers } from './text';
@@ -30,7 +29,7 @@ export const unequalVariance: Rule = {
     const a = design.analysis;
     if (design.outcome.unequalVarianceExpected !== true || a.standardErrors !== 'model' || a.modelVariance) return [];
     const f = designFacts(design);
-    const shares = armShares(design);
+    const shares = f.armShares;
     const ratio = shares.length >= 2 ? Math.max(...shares) / Math.min(...shares) : undefined;
     const clustered = randomLevels(f).length > 0;
     const E = f.eu;

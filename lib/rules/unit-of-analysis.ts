@@ -20,7 +20,8 @@
  */
 import { effectiveSampleSize, naiveTypeIError } from '@/lib/stats/design-effect';
 import { DONNER_KLAR_2000, ELDRIDGE_2006, HAYES_MOULTON_2017, KISH_1965 } from './citations';
-import { accountsFor, clusteringEffect, designFacts, givenIccs, iccOf, plausibleIccRange, sizeCv, unitsPerArm, type ClusteringEffect } from './facts';
+import { accountsFor, designFacts, givenIccs, iccOf, sizeCv, unitsPerArm } from '@/lib/design/facts';
+import { clusteringEffect, plausibleIccRange, type ClusteringEffect } from './clustering';
 import { modelPlan } from './model';
 import { assignedVerb, plannedMethod, range, treatmentName, unitsWithArms } from './phrases';
 import { ASK_STATISTICIAN, cap, count, dec, list, noun, num, numbers, pct } from './text';

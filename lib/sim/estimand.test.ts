@@ -48,6 +48,45 @@ describe('trueEffect', () => {
   });
 });
 
+describe('trueEffect for glmm, glm-nb, cross-overs and marginal truths', () => {
+  it('glmm: exactly the conditional effect when its random intercept is the only one; partly marginal when the units’ own effects are left out', () => {
+    const alone = sim({ design: { arms: 2, clustersPerArm: 10, clusterSize: 8 }, truth: { effect: 0.8, icc: 0.2, family: 'binary' } }, ['glmm', 'glm']);
+    expect(trueEffect(alone, 'glmm')).toBe(0.8);
+    const nested = sim({ design: { arms: 2, clustersPerArm: 10, clusterSize: 8, occasions: 3 }, truth: { effect: 0.8, icc: 0.2, occasionCorrelation: 0.5, family: 'binary' } }, ['glmm', 'glm']);
+    const partial = trueEffect(nested, 'glmm');
+    // Marginal over the unit effect only: between the fully marginal value and the conditional one.
+    expect(partial).toBeLessThan(0.8);
+    expect(partial).toBeGreaterThan(trueEffect(nested, 'glm'));
+    const unitSd = nested.sd.unitIntercept;
+    const eta = Math.log(0.3 / 0.7);
+    const logit = (p: number) => Math.log(p / (1 - p));
+    expectRelativelyClose('glmm, units marginalised', partial, logit(marginalProbability(eta + 0.8, unitSd)) - logit(marginalProbability(eta, unitSd)), 1e-12);
+  });
+
+  it('counts: glm, glm-nb and glmm get the log rate ratio; with gamma cluster multipliers (mean 1) the difference in means is baseline·(e^effect − 1)', () => {
+    const s = sim({ design: { arms: 2, clustersPerArm: 5, clusterSize: 4 }, truth: { effect: 0.4, family: 'count', baseline: 3, clusterCv: 0.5, clusterDistribution: 'gamma' } }, ['glm', 'glm-nb', 'glmm', 'ols']);
+    for (const a of ['glm', 'glm-nb', 'glmm'] as const) expect(trueEffect(s, a)).toBe(0.4);
+    expectRelativelyClose('count difference', trueEffect(s, 'ols'), 3 * Math.expm1(0.4), 1e-14);
+  });
+
+  it('a marginal binary truth: glm gets the specification’s (marginal) log odds ratio back, glmm the larger conditional one', () => {
+    const s = sim({ design: { arms: 2, clustersPerArm: 10, clusterSize: 8 }, truth: { effect: 0.6, icc: 0.1, iccScale: 'proportion', marginal: true, family: 'binary', baseline: 0.2 } }, ['glmm', 'glm']);
+    expectRelativelyClose('glm', trueEffect(s, 'glm'), 0.6, 1e-10);
+    expect(trueEffect(s, 'glmm')).toBeGreaterThan(0.6);
+  });
+
+  it('a binary cross-over: glm gets the average of the per-period marginal log odds ratios, differences the average per-period risk difference', () => {
+    const s = sim({ design: { arms: 2, unitsPerArm: 10, crossover: { periods: 2 } }, truth: { effect: 0.5, family: 'binary', baseline: 0.4, occasionCorrelation: 0.3, periodEffects: [0.4] } }, ['glm', 'period-difference']);
+    const sigma = s.sd.unitIntercept;
+    const eta = Math.log(0.4 / 0.6);
+    const logit = (p: number) => Math.log(p / (1 - p));
+    const p = (shift: number, arm: number) => marginalProbability(eta + shift + 0.5 * arm, sigma);
+    expectRelativelyClose('glm', trueEffect(s, 'glm'), (logit(p(0, 1)) - logit(p(0, 0)) + logit(p(0.4, 1)) - logit(p(0.4, 0))) / 2, 1e-12);
+    expectRelativelyClose('period-difference', trueEffect(s, 'period-difference'), (p(0, 1) - p(0, 0) + p(0.4, 1) - p(0.4, 0)) / 2, 1e-12);
+    expect(trueEffect(s, 'glmm')).toBe(0.5);
+  });
+});
+
 describe('by simulation, the marginal estimands are what the analyses estimate (within 3 MC SE)', () => {
   it.each<[string, SimulationSpecInput['truth']]>([
     ['binary, 15 clusters × 20 per arm, ICC 0.2, odds ratio 2', { effect: Math.log(2), icc: 0.2, family: 'binary', baseline: 0.3 }],

@@ -24,15 +24,29 @@
  *   memory), computed by Simpson's rule on z ∈ [−12, 12] with 4,000 intervals (error below 1e-12;
  *   tested against R's integrate() in `estimand.test.ts`). log-ols gets NaN.
  *
+ * - Cross-over (period effects πₜ on the link scale): the same quantities with the intercept moved
+ *   by πₜ in period t; glm (which adjusts for period) gets the average over periods of the
+ *   per-period marginal log odds ratios, the analyses of differences (with period-difference)
+ *   the average of the per-period marginal differences — what they estimate in a balanced
+ *   design (AB/BA: exactly ½ of the two periods' differences).
+ * - glmm: the log odds ratio conditional on its random intercept (generate.ts picks the level:
+ *   clusters, else repeatedly measured units, else blocks), marginal over the other random
+ *   effects: exactly the generating conditional effect c when there are no others (then coverage
+ *   tests the GLMM itself); otherwise the per-period average of logit(p̄₁) − logit(p̄₀) with p̄
+ *   integrated over the other effects' variance only — the approximate target of a GLMM that
+ *   leaves them out. For counts c: the log link keeps conditional and marginal ratios equal.
+ * - glm-nb: the log rate ratio c.
+ * - A marginal truth (truth.marginal): c is solved from the marginal effect (generate.ts), so glm
+ *   gets back the specification's effect and glmm the larger conditional one.
+ *
  * Non-gaussian outcomes with the slope target get NaN for every analysis: their marginal slopes
  * have no single value. A NaN true value makes bias and coverage NaN (reported as not available).
  */
 import type { AnalysisName } from '@/lib/models/types';
-import { normalPdf } from '@/lib/stats/normal';
-import type { SimulationSpec } from '@/lib/validation/simulations';
-import type { Simulation } from './generate';
+import { conditionalEffect, type Simulation } from './generate';
+import { logitNormalMoments } from './logit-normal';
 
-const DIFFERENCE_ANALYSES: ReadonlySet<AnalysisName> = new Set(['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'huber']);
+const DIFFERENCE_ANALYSES: ReadonlySet<AnalysisName> = new Set(['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'huber', 'period-difference']);
 
 /** The true effect each analysis of `spec` estimates, given the scenario's random-effect SDs. */
 export function trueEffect(sim: Simulation, analysis: AnalysisName): number {
@@ -46,29 +60,44 @@ export function trueEffect(sim: Simulation, analysis: AnalysisName): number {
     return effect;
   }
   if (spec.design.target !== 'treat') return NaN;
+  const c = conditionalEffect(sim, effect);
+  const eta0 = sim.link.intercept;
+  const shifts = Array.from(sim.occasionShift);
   const variances = randomEffectVariances(sim);
-  const base = baselineOf(spec);
   if (family === 'count') {
-    if (analysis === 'glm' || analysis === 'log-ols') return effect;
+    if (analysis === 'glm' || analysis === 'glm-nb' || analysis === 'glmm' || analysis === 'log-ols') return c;
     if (!DIFFERENCE_ANALYSES.has(analysis)) return NaN;
-    return mean(variances.map((v) => base * Math.expm1(effect) * Math.exp(v / 2)));
+    return mean(variances.map((v, t) => Math.exp(eta0 + shifts[t]!) * Math.expm1(c) * Math.exp(v / 2)));
   }
-  if (analysis === 'log-ols' || !(analysis === 'glm' || DIFFERENCE_ANALYSES.has(analysis))) return NaN;
-  const intercept = Math.log(base / (1 - base));
-  const p0 = variances.map((v) => marginalProbability(intercept, Math.sqrt(v)));
-  const p1 = variances.map((v) => marginalProbability(intercept + effect, Math.sqrt(v)));
-  if (analysis === 'glm') return logit(mean(p1)) - logit(mean(p0));
-  return mean(p1) - mean(p0);
+  if (analysis === 'log-ols' || !(analysis === 'glm' || analysis === 'glmm' || DIFFERENCE_ANALYSES.has(analysis))) return NaN;
+  const p = (arm: number, t: number, v: number) => marginalProbability(eta0 + shifts[t]! + arm * c, Math.sqrt(v));
+  const perPeriodLogOdds = (vs: number[]) => mean(vs.map((v, t) => logit(p(1, t, v)) - logit(p(0, t, v))));
+  if (analysis === 'glmm') {
+    const others = variances.map((v) => Math.max(0, v - glmmLevelVariance(sim)));
+    return others.every((v) => v === 0) ? c : perPeriodLogOdds(others);
+  }
+  if (analysis === 'glm') {
+    if (sim.layout.periods > 0) return perPeriodLogOdds(variances);
+    return logit(mean(variances.map((v, t) => p(1, t, v)))) - logit(mean(variances.map((v, t) => p(0, t, v))));
+  }
+  return mean(variances.map((v, t) => p(1, t, v) - p(0, t, v)));
 }
 
-/** σ²(t) of the summed random effects on the link scale at each occasion's time. */
+/** σ²(t) of the summed normal random effects on the link scale at each occasion's time. */
 function randomEffectVariances(sim: Simulation): number[] {
-  const { cluster, unitIntercept, unitSlope } = sim.sd;
-  return Array.from(sim.layout.times, (t) => cluster * cluster + unitIntercept * unitIntercept + (unitSlope * t) ** 2);
+  const { block, cluster, unitIntercept, unitSlope } = sim.sd;
+  return Array.from(sim.layout.times, (t) => block * block + cluster * cluster + unitIntercept * unitIntercept + (unitSlope * t) ** 2);
 }
 
-function baselineOf(spec: SimulationSpec): number {
-  return spec.truth.baseline ?? (spec.truth.family === 'binary' ? 0.3 : 5);
+/** The variance of the random effect the glmm fits (at its grouping level). */
+function glmmLevelVariance(sim: Simulation): number {
+  const level = sim.analysisOptions.glmm?.level ?? 0;
+  const name = sim.dataset.groups[level]?.name;
+  const { block, cluster, unitIntercept } = sim.sd;
+  if (name === 'block') return block * block;
+  if (name === 'cluster') return cluster * cluster;
+  if (name === 'unit') return unitIntercept * unitIntercept;
+  return 0;
 }
 
 function mean(values: number[]): number {
@@ -79,25 +108,11 @@ function logit(p: number): number {
   return Math.log(p / (1 - p));
 }
 
-function expit(x: number): number {
-  return x >= 0 ? 1 / (1 + Math.exp(-x)) : Math.exp(x) / (1 + Math.exp(x));
-}
-
-const Z_LIMIT = 12;
-const INTERVALS = 4000;
-
 /**
  * ∫ expit(η + σz) φ(z) dz, the marginal probability under a normal random effect of SD σ, by
- * composite Simpson's rule on [−12, 12] (the mass outside is below 4e-33). σ = 0 gives expit(η).
+ * composite Simpson's rule on [−12, 12] with 4,000 intervals (logit-normal.ts; the mass outside
+ * is below 4e-33). σ = 0 gives expit(η).
  */
 export function marginalProbability(eta: number, sigma: number): number {
-  if (sigma === 0) return expit(eta);
-  const h = (2 * Z_LIMIT) / INTERVALS;
-  let sum = 0;
-  for (let i = 0; i <= INTERVALS; i++) {
-    const z = -Z_LIMIT + i * h;
-    const weight = i === 0 || i === INTERVALS ? 1 : i % 2 === 1 ? 4 : 2;
-    sum += weight * expit(eta + sigma * z) * normalPdf(z);
-  }
-  return (sum * h) / 3;
+  return logitNormalMoments(eta, sigma).mean;
 }

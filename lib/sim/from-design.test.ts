@@ -25,7 +25,9 @@ describe.each([
       design: { arms: 2, clustersPerArm: 6, clusterSize: 6, clusterSizeCv: 0, occasions: 4 },
       truth: { effect: 2, sd: 4.5, icc: 0.2, occasionCorrelation: 0.5 },
       scenarios: [{ violation: 'none' }, { violation: 'skewed' }, { violation: 'unequal-variance' }],
-      analyses: ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'log-ols'],
+      // No log-ols although the outcome is right-skewed: the simulated outcome is normal and can
+      // be 0 or negative, where a log is undefined (it failed all 2,000 fits of a run).
+      analyses: ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed'],
     },
   },
 ])('$name', ({ design, spec }) => {
@@ -54,21 +56,47 @@ describe.each([
 
 describe('designs the stress test cannot simulate say why', () => {
   it.each([
-    { name: 'sleep timing (cross-over: the schedule changes within volunteers)', design: SLEEP_DESIGN, reason: /within units \(cross-over\)/ },
-    { name: 'no effect or SD', design: { ...CLASSROOM_DESIGN, assumptions: { iccs: CLASSROOM_DESIGN.assumptions!.iccs } }, reason: /effect worth detecting.*outcome SD/ },
+    { name: 'no effect or SD', design: { ...CLASSROOM_DESIGN, assumptions: { iccs: CLASSROOM_DESIGN.assumptions!.iccs } }, reason: /effect worth detecting \(Assumptions step\).*outcome SD \(Assumptions step\)/ },
     {
       name: 'no ICC for the clusters',
       design: { ...CLASSROOM_DESIGN, assumptions: { ...CLASSROOM_DESIGN.assumptions, iccs: [] } },
-      reason: /ICC of Classroom/,
+      reason: /ICC of Classroom \(Assumptions step\)/,
     },
-    { name: 'three arms', design: { ...CLASSROOM_DESIGN, assignment: { ...CLASSROOM_DESIGN.assignment, arms: [{ name: 'A', allocation: 1 }, { name: 'B', allocation: 1 }, { name: 'C', allocation: 1 }] } }, reason: /two arms/ },
-    { name: 'a binary outcome', design: { ...CLASSROOM_DESIGN, outcome: { ...CLASSROOM_DESIGN.outcome, type: 'binary' as const } }, reason: /continuous outcome/ },
-    { name: 'an empty design', design: {}, reason: /levels of the structure/ },
-  ])('$name', ({ design, reason }) => {
+    { name: 'no level of assignment', design: { ...CLASSROOM_DESIGN, assignment: { ...CLASSROOM_DESIGN.assignment, levelId: undefined } }, reason: /level the treatment is assigned at \(Assignment step\)/ },
+    { name: 'an empty design', design: {}, reason: /levels of the structure.*\(Structure step\)/ },
+  ])('missing, with the step that supplies it: $name', ({ design, reason }) => {
     const out = specFromDesign(parse(design as DesignInput));
     expect(out.ok).toBe(false);
     if (out.ok) return;
+    expect(out.unsupported).toEqual([]);
     expect(out.missing.join('; ')).toMatch(reason);
+  });
+
+  it.each([
+    { name: 'sleep timing (cross-over: the schedule changes within volunteers)', design: SLEEP_DESIGN, reason: /^Each volunteer receives both arms in turn \(a 2-period cross-over\): .*; the Plan tab sizes the two-period cross-over\.$/ },
+    { name: 'three arms', design: { ...CLASSROOM_DESIGN, assignment: { ...CLASSROOM_DESIGN.assignment, arms: [{ name: 'A', allocation: 1 }, { name: 'B', allocation: 1 }, { name: 'C', allocation: 1 }] } }, reason: /^The design has 3 arms: the stress test compares two/ },
+    { name: 'a binary outcome', design: { ...CLASSROOM_DESIGN, outcome: { ...CLASSROOM_DESIGN.outcome, type: 'binary' as const } }, reason: /^The outcome is binary \(yes or no\): the stress test simulates only continuous outcomes/ },
+    {
+      name: 'pupils randomised within classrooms',
+      design: { ...CLASSROOM_DESIGN, assignment: { ...CLASSROOM_DESIGN.assignment, levelId: 'pupil' } },
+      reason: /^The treatment is assigned to pupils within classrooms: /,
+    },
+    {
+      name: 'classrooms in schools',
+      design: {
+        ...CLASSROOM_DESIGN,
+        structure: { levels: [{ id: 'school', name: 'School', kind: 'grouping' as const, count: 10 }, ...CLASSROOM_DESIGN.structure!.levels!.map((l) => ({ ...l, count: l.id === 'classroom' ? 2 : l.count }))] },
+        assignment: { ...CLASSROOM_DESIGN.assignment, levelId: 'school' },
+      },
+      reason: /^Pupils are grouped in classrooms, and those in schools: the stress test simulates one level of clustering so far/,
+    },
+  ])('not simulated yet, in one sentence without a link to the design: $name', ({ design, reason }) => {
+    const out = specFromDesign(parse(design as DesignInput));
+    expect(out.ok).toBe(false);
+    if (out.ok) return;
+    expect(out.unsupported).toHaveLength(1);
+    expect(out.unsupported[0]).toMatch(reason);
+    expect(out.unsupported[0]).not.toMatch(/specification|family|step\)/);
   });
 });
 

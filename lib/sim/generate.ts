@@ -33,6 +33,12 @@
  * - `serial`: within a unit, e follows a stationary AR(1) across successive occasions:
  *   e₁ = σ_e·Z₁, eₜ = ar·eₜ₋₁ + σ_e·√(1 − ar²)·Zₜ.
  *
+ * Blocks (design.blocks): a block intercept a_k ~ N(0, blockIcc·sd²) joins the sum, and the shares
+ * of the rest are taken from 1 − icc − blockIcc instead of 1 − icc. Cross-over (design.crossover):
+ * each row's treatment is its sequence's arm at that period, period t adds periodEffects[t − 2]
+ * (t ≥ 2), and the `carry-over` scenario adds its size (fraction × the run's effect, or a fixed
+ * size) to every row whose previous period had arm 2.
+ *
  * Binary and count families use the same random effects on the link scale, with the level-one
  * variance fixed by the family: π²/3 for the logit (the latent-variable ICC, Snijders & Bosker
  * 2012, Multilevel Analysis 2nd ed., §17.4) and ln(1 + 1/baseline) for the log link (Nakagawa &
@@ -42,15 +48,33 @@
  * `overdispersion` k is given (negative binomial, Var = λ + λ²/k), else G = 1. `baseline` is the
  * first arm's probability or mean for a cluster and unit with zero random effects.
  *
+ * Other parametrisations of the truth (lib/validation/simulations.ts):
+ * - Binary, iccScale `proportion`: the cluster SD σ on the logit scale is the one whose
+ *   logit-normal cluster probabilities have the requested ICC on the proportion scale in the
+ *   first arm, Var(P_c)/(p̄(1 − p̄)) (logit-normal.ts; Donner & Klar 2000) — so a model-based
+ *   GLMM is correctly specified and the ICC the sample-size formulas use is the generated one.
+ * - Count, clusterCv: the clusters' rate multipliers have that coefficient of variation:
+ *   e^{a_c} with a_c ~ N(0, ln(1 + cv²)) (log-normal), or G_c ~ Gamma(1/cv², cv²) with mean 1
+ *   (gamma: Poisson cluster totals are then negative binomial, Hayes & Bennett 1999's model),
+ *   drawn as a_c = ln G_c.
+ * - marginal: `baseline` is the first arm's population-averaged probability or mean count (at
+ *   time 0 and period 1) and, for binary, `effect` the marginal log odds ratio: the intercept η₀
+ *   solves E[expit(η₀ + √V·Z)] = baseline and the conditional effect c solves
+ *   E[expit(η₀ + c + √V·Z)] = expit(logit(baseline) + effect), V the summed random-effect
+ *   variance (count: η₀ = ln(baseline) − V/2, c = effect).
+ *
  * Order of draws from the replicate's stream (fixed by the specification, so data are
- * reproducible): the clusters' intercepts in cluster order; then per unit in unit order its
+ * reproducible): the blocks' intercepts in block order (with blocks); the clusters' intercepts
+ * (or gamma multipliers) in cluster order; then per unit in unit order its
  * intercept and its slope (each only when its SD is above 0) and its covariate x (when the
  * scenario uses one); then per row in row order the residual (for outliers: the uniform, then
  * the normal; for counts: the gamma factor, then the Poisson draw).
  */
-import type { Dataset, FixedEffects } from '@/lib/models/types';
+import type { AnalysisOptions } from '@/lib/models';
+import type { AnalysisName, Dataset, FixedEffects } from '@/lib/models/types';
 import { scenarioKey, type Scenario, type SimulationSpec } from '@/lib/validation/simulations';
-import { allocateDataset, buildLayout, type Layout } from './layout';
+import { allocateDataset, buildLayout, periodColumn, type Layout } from './layout';
+import { interceptForMarginal, sigmaForIcc } from './logit-normal';
 import { bernoulli, gamma, poisson, standardisedLogNormal, standardisedLogNormalScale, studentT } from './random';
 import type { Rng } from './rng';
 
@@ -69,9 +93,20 @@ export interface Simulation {
   /** The fixed part every analysis fits for this design and scenario. */
   fixed: FixedEffects;
   /** SDs of the components on the outcome's scale (gaussian) or the link scale. */
-  sd: { cluster: number; unitIntercept: number; unitSlope: number; residual: number; total: number };
+  sd: { block: number; cluster: number; unitIntercept: number; unitSlope: number; residual: number; total: number };
+  /**
+   * Binary and count: the linear predictor of the first arm at zero random effects (period 1),
+   * and the shape 1/cv² of gamma cluster multipliers (0 when the cluster effects are normal).
+   */
+  link: { intercept: number; clusterGammaShape: number };
+  /** The mean shift of each occasion (cross-over period effects; 0 otherwise). */
+  occasionShift: Float64Array;
+  /** Options each analysis is fitted with for this design (e.g. the glmm's grouping level). */
+  analysisOptions: Partial<Record<AnalysisName, AnalysisOptions>>;
   /** Per-unit scratch space: intercepts, slopes and the covariate. */
-  scratch: { clusterEffect: Float64Array; unitIntercept: Float64Array; unitSlope: Float64Array; covariate: Float64Array };
+  scratch: { blockEffect: Float64Array; clusterEffect: Float64Array; unitIntercept: Float64Array; unitSlope: Float64Array; covariate: Float64Array };
+  /** Conditional effects already solved for (marginal binary truths). */
+  conditional: Map<number, number>;
 }
 
 /** Does the scenario need the unit covariate x? */
@@ -91,12 +126,15 @@ function nonlinearOn(spec: SimulationSpec, scenario: Extract<Scenario, { violati
  * curved (the analysis fits it as a line); the covariate x when the scenario generates one. The
  * truth has no time trend otherwise, so time is left out: with every unit measured at the same
  * times it is balanced across arms and would not change the estimate of treat in a linear model,
- * while a summary analysis of cluster means would see it as a constant column.
+ * while a summary analysis of cluster means would see it as a constant column. A cross-over adds
+ * its period indicators (period2, …): every analysis of a cross-over adjusts for period.
  */
 export function fixedEffectsFor(spec: SimulationSpec, scenario: Scenario): FixedEffects {
   const curvedInTime = scenario.violation === 'nonlinear' && nonlinearOn(spec, scenario) === 'time';
+  const periods = spec.design.crossover?.periods ?? 0;
+  const periodColumns = Array.from({ length: Math.max(0, periods - 1) }, (_, k) => periodColumn(k + 2));
   return {
-    covariates: usesCovariate(spec, scenario) ? [COVARIATE] : [],
+    covariates: [...(usesCovariate(spec, scenario) ? [COVARIATE] : []), ...periodColumns],
     includeTime: spec.design.target === 'treat:time' || curvedInTime,
     target: spec.design.target,
   };
@@ -111,21 +149,86 @@ export function createSimulation(spec: SimulationSpec, scenarioIndex: number): S
   const dataset = allocateDataset(layout, fixed.covariates);
   const { truth } = spec;
   const rho = truth.occasionCorrelation;
-  const total = truth.family === 'gaussian' ? truth.sd! : Math.sqrt(levelOneVariance(spec) / ((1 - truth.icc) * (1 - rho)));
+  const rest = 1 - truth.icc - truth.blockIcc;
+  const total = truth.family === 'gaussian' ? truth.sd! : Math.sqrt(levelOneVariance(spec) / (rest * (1 - rho)));
   const sd = {
+    block: total * Math.sqrt(truth.blockIcc),
     cluster: total * Math.sqrt(truth.icc),
-    unitIntercept: total * Math.sqrt(rho * (1 - truth.icc)),
+    unitIntercept: total * Math.sqrt(rho * rest),
     unitSlope: truth.randomSlopeSd,
-    residual: total * Math.sqrt((1 - rho) * (1 - truth.icc)),
+    residual: total * Math.sqrt((1 - rho) * rest),
     total,
   };
+  const link = { intercept: 0, clusterGammaShape: 0 };
+  if (truth.family === 'binary' && truth.iccScale === 'proportion') {
+    const base = baselineOf(spec);
+    sd.cluster = sigmaForIcc(truth.icc, truth.marginal ? { marginal: base } : { eta: Math.log(base / (1 - base)) });
+    sd.total = Math.sqrt(sd.cluster * sd.cluster + levelOneVariance(spec));
+  }
+  if (truth.clusterCv !== undefined) {
+    if (truth.clusterDistribution === 'gamma') link.clusterGammaShape = 1 / (truth.clusterCv * truth.clusterCv);
+    else sd.cluster = Math.sqrt(Math.log1p(truth.clusterCv * truth.clusterCv));
+  }
+  if (truth.family !== 'gaussian') {
+    const base = baselineOf(spec);
+    const variance = sd.block ** 2 + sd.cluster ** 2 + sd.unitIntercept ** 2;
+    if (truth.family === 'binary') link.intercept = truth.marginal ? interceptForMarginal(base, Math.sqrt(variance)) : Math.log(base / (1 - base));
+    else link.intercept = Math.log(base) - (truth.marginal ? variance / 2 : 0);
+  }
+  const occasionShift = new Float64Array(layout.occasions);
+  truth.periodEffects?.forEach((shift, k) => (occasionShift[k + 1] = shift));
   const scratch = {
+    blockEffect: new Float64Array(layout.blockCount),
     clusterEffect: new Float64Array(layout.clusterCount),
     unitIntercept: new Float64Array(layout.unitCount),
     unitSlope: new Float64Array(layout.unitCount),
     covariate: new Float64Array(layout.unitCount),
   };
-  return { spec, scenario, scenarioName: scenarioKey(scenario), layout, dataset, fixed, sd, scratch };
+  return {
+    spec,
+    scenario,
+    scenarioName: scenarioKey(scenario),
+    layout,
+    dataset,
+    fixed,
+    sd,
+    link,
+    occasionShift,
+    analysisOptions: { glmm: { level: glmmLevel(dataset.groups.map((g) => g.name)) } },
+    scratch,
+    conditional: new Map(),
+  };
+}
+
+/**
+ * The grouping level of the glmm's random intercept: the clusters when the design has them (the
+ * level the treatment is assigned at), else the units measured repeatedly (cross-over, occasions),
+ * else the blocks.
+ */
+function glmmLevel(names: string[]): number {
+  const cluster = names.indexOf('cluster');
+  if (cluster >= 0) return cluster;
+  const unit = names.indexOf('unit');
+  return unit >= 0 ? unit : 0;
+}
+
+/**
+ * The effect on the link scale given the effect of the specification's scale: the same, except
+ * for a marginal binary truth, where the conditional log odds ratio c is solved from the marginal
+ * one (see the module comment).
+ */
+export function conditionalEffect(sim: Simulation, effect: number): number {
+  const { truth } = sim.spec;
+  if (!(truth.family === 'binary' && truth.marginal) || effect === 0) return effect;
+  const known = sim.conditional.get(effect);
+  if (known !== undefined) return known;
+  const base = baselineOf(sim.spec);
+  const { sd } = sim;
+  const sigma = Math.sqrt(sd.block ** 2 + sd.cluster ** 2 + sd.unitIntercept ** 2);
+  const target = 1 / (1 + Math.exp(-(Math.log(base / (1 - base)) + effect)));
+  const c = interceptForMarginal(target, sigma) - sim.link.intercept;
+  sim.conditional.set(effect, c);
+  return c;
 }
 
 /** The family's level-one variance on the link scale (see the module comment). */
@@ -136,7 +239,7 @@ function levelOneVariance(spec: SimulationSpec): number {
 }
 
 /** The first arm's probability (binary, default 0.3) or mean count (count, default 5). */
-function baselineOf(spec: SimulationSpec): number {
+export function baselineOf(spec: SimulationSpec): number {
   return spec.truth.baseline ?? (spec.truth.family === 'binary' ? 0.3 : 5);
 }
 
@@ -146,11 +249,16 @@ function baselineOf(spec: SimulationSpec): number {
  */
 export function generate(sim: Simulation, rng: Rng, effect: number): Dataset {
   const { layout, dataset, sd, scratch, scenario, spec } = sim;
-  const { clusterEffect, unitIntercept, unitSlope, covariate } = scratch;
-  const { unitCount, occasions, times, clusterOfUnit, armOfUnit } = layout;
+  const { blockEffect, clusterEffect, unitIntercept, unitSlope, covariate } = scratch;
+  const { unitCount, occasions, times, clusterOfUnit, blockOfUnit, treatOfRow, carriedOfRow } = layout;
 
-  for (let c = 0; c < layout.clusterCount; c++) clusterEffect[c] = sd.cluster > 0 ? sd.cluster * rng.normal() : 0;
-  const needsX = sim.fixed.covariates.length > 0;
+  for (let b = 0; b < layout.blockCount; b++) blockEffect[b] = sd.block > 0 ? sd.block * rng.normal() : 0;
+  const shape = sim.link.clusterGammaShape;
+  for (let c = 0; c < layout.clusterCount; c++) {
+    if (shape > 0) clusterEffect[c] = Math.log(gamma(rng, shape) / shape);
+    else clusterEffect[c] = sd.cluster > 0 ? sd.cluster * rng.normal() : 0;
+  }
+  const needsX = sim.fixed.covariates.includes(COVARIATE);
   for (let u = 0; u < unitCount; u++) {
     unitIntercept[u] = sd.unitIntercept > 0 ? sd.unitIntercept * rng.normal() : 0;
     unitSlope[u] = sd.unitSlope > 0 ? sd.unitSlope * rng.normal() : 0;
@@ -165,13 +273,17 @@ export function generate(sim: Simulation, rng: Rng, effect: number): Dataset {
   const y = dataset.y;
   const slopeTarget = spec.design.target === 'treat:time';
   const curve = scenario.violation === 'nonlinear' ? nonlinearCurve(sim, scenario) : undefined;
+  const shift = sim.occasionShift;
+  const linkEffect = conditionalEffect(sim, effect);
+  const carry = scenario.violation === 'carry-over' ? (scenario.size ?? scenario.fraction * linkEffect) : 0;
   for (let u = 0, row = 0; u < unitCount; u++) {
     const c = clusterOfUnit[u]!;
-    const base = (c >= 0 ? clusterEffect[c]! : 0) + unitIntercept[u]!;
-    const arm = armOfUnit[u]!;
+    const b = blockOfUnit[u]!;
+    const base = (b >= 0 ? blockEffect[b]! : 0) + (c >= 0 ? clusterEffect[c]! : 0) + unitIntercept[u]!;
     for (let t = 0; t < occasions; t++, row++) {
       const time = times[t]!;
-      let mean = base + unitSlope[u]! * time + (arm === 1 ? effect * (slopeTarget ? time : 1) : 0);
+      let mean = base + unitSlope[u]! * time + shift[t]! + (treatOfRow[row] === 1 ? linkEffect * (slopeTarget ? time : 1) : 0);
+      if (carriedOfRow[row] === 1) mean += carry;
       if (curve) mean += curve(u, t);
       y[row] = mean;
     }
@@ -214,6 +326,7 @@ function addResiduals(sim: Simulation, rng: Rng): void {
   switch (scenario.violation) {
     case 'none':
     case 'nonlinear':
+    case 'carry-over':
       for (let i = 0; i < n; i++) y[i]! += s * rng.normal();
       return;
     case 'skewed': {
@@ -270,8 +383,7 @@ function addResiduals(sim: Simulation, rng: Rng): void {
 function fillBinary(sim: Simulation, rng: Rng): Dataset {
   const { dataset } = sim;
   const y = dataset.y;
-  const p0 = baselineOf(sim.spec);
-  const intercept = Math.log(p0 / (1 - p0));
+  const intercept = sim.link.intercept;
   for (let i = 0; i < dataset.n; i++) y[i] = bernoulli(rng, 1 / (1 + Math.exp(-(intercept + y[i]!))));
   return dataset;
 }
@@ -280,7 +392,7 @@ function fillBinary(sim: Simulation, rng: Rng): Dataset {
 function fillCount(sim: Simulation, rng: Rng): Dataset {
   const { dataset, spec } = sim;
   const y = dataset.y;
-  const intercept = Math.log(baselineOf(spec));
+  const intercept = sim.link.intercept;
   const k = spec.truth.overdispersion;
   for (let i = 0; i < dataset.n; i++) {
     let mean = Math.exp(intercept + y[i]!);

@@ -10,7 +10,7 @@
  * `aggregate` — which merges chunks in replicate order and sums in that order — gives
  * bit-identical results for any chunking.
  */
-import { analyse as fitAnalysis } from '@/lib/models';
+import { analyse as fitAnalysis, type AnalysisOptions } from '@/lib/models';
 import type { AnalysisName, Dataset, EffectEstimate, FixedEffects } from '@/lib/models/types';
 import { scenarioKey, type SimulationSpec } from '@/lib/validation/simulations';
 import { trueEffect } from './estimand';
@@ -18,8 +18,11 @@ import { createSimulation, generate, type Simulation } from './generate';
 import { computeMetrics, type FitColumns, type Metrics } from './metrics';
 import { Rng, type Hypothesis } from './rng';
 
-/** The analysis function: `analyse` of lib/models unless a workspace brings another. */
-export type AnalyseFunction = (name: AnalysisName, data: Dataset, fixed: FixedEffects) => EffectEstimate;
+/**
+ * The analysis function: `analyse` of lib/models unless a workspace brings another. `options` are
+ * the design's options for that analysis (`Simulation.analysisOptions`, e.g. the glmm's level).
+ */
+export type AnalyseFunction = (name: AnalysisName, data: Dataset, fixed: FixedEffects, options?: AnalysisOptions) => EffectEstimate;
 
 /** The fits of replicates from … to − 1 of one scenario. Entry ((r − from)·A + a)·2 + h holds analysis a, hypothesis h (0 alternative, 1 null). */
 export interface ReplicateBlock {
@@ -73,7 +76,8 @@ export function runReplicates(spec: SimulationSpec, scenarioIndex: number, from:
       const rng = Rng.forReplicate(spec.seed, simulation.scenarioName, hypothesis, r);
       const data = generate(simulation, rng, hypothesis === 'alternative' ? spec.truth.effect : 0);
       for (let a = 0; a < analyses.length; a++) {
-        const fit = analyse(analyses[a]!, data, simulation.fixed);
+        const name = analyses[a]!;
+        const fit = analyse(name, data, simulation.fixed, simulation.analysisOptions[name]);
         const k = ((r - from) * analyses.length + a) * 2 + h;
         block.estimate[k] = fit.estimate;
         block.se[k] = fit.se;

@@ -9,8 +9,11 @@
  * - bias against 0: "…, the estimate is off by 0.12 on average (40% of the true effect).";
  * - seRatio against 1: "…, the reported standard error is 35% smaller than the real spread of
  *   the estimates.";
- * - nonConverged, whenever it is above 0: "…, 12 of 2,000 fits did not converge or could not be
- *   estimated, and were left out."
+ * - nonConverged, whenever it is above 0, as a count and a share of the fits the run asked for
+ *   (each replicate is fitted twice: with the planned effect and at zero effect): "…, 12 of the
+ *   2,000 fits asked for (0.6%; 1,000 replicates, each fitted with and without the effect) did
+ *   not converge or could not be estimated, and were left out of the other figures." When every
+ *   fit failed the sentence ends "…, so this analysis has no figures here." instead.
  *
  * The yardstick is 3·max(reported MC SE, the MC SE the nominal value would have,
  * √(p₀(1 − p₀)/replicates)), so that an observed rate of exactly 0 or 1, whose own MC SE is 0,
@@ -33,6 +36,7 @@ const SCENARIO_PHRASES: Record<Scenario['violation'], string> = {
   'unequal-variance': 'With unequal variances',
   nonlinear: 'With a curved relation',
   serial: 'With serial correlation',
+  'carry-over': 'With carry-over between periods',
 };
 
 /** 0.25 → "25%", 0.051 → "5.1%", 0.0004 → "0.04%". */
@@ -51,6 +55,13 @@ function scenarioPhrase(scenario: Scenario): string {
   const phrase = SCENARIO_PHRASES[scenario.violation];
   const name = scenarioKey(scenario);
   return name === scenario.violation ? phrase : `${phrase} (${name})`;
+}
+
+/** "12 of the 2,000 fits asked for (0.6%; 1,000 replicates, each fitted with and without the effect) did not converge …". */
+function nonConvergedClause(failed: number, replicates: number): string {
+  const asked = 2 * replicates;
+  const head = `${failed.toLocaleString('en-GB')} of the ${asked.toLocaleString('en-GB')} fits asked for (${percent(failed / asked)}; ${replicates.toLocaleString('en-GB')} replicates, each fitted with and without the effect) did not converge or could not be estimated`;
+  return failed >= asked ? `${head}, so this analysis has no figures here.` : `${head}, and were left out of the other figures.`;
 }
 
 /** The sentences for every scenario × analysis of `results`, in the specification's order. */
@@ -83,9 +94,7 @@ export function summarise(spec: SimulationSpec, results: SimulationResults): str
           `${lead}, the reported standard error is ${percent(Math.abs(change))} ${change < 0 ? 'smaller' : 'larger'} than the real spread of the estimates.`,
         );
       }
-      if (m.nonConverged.value > 0) {
-        sentences.push(`${lead}, ${m.nonConverged.value.toLocaleString('en-GB')} of ${(2 * replicates).toLocaleString('en-GB')} fits did not converge or could not be estimated, and were left out.`);
-      }
+      if (m.nonConverged.value > 0) sentences.push(`${lead}, ${nonConvergedClause(m.nonConverged.value, replicates)}`);
     }
   }
   return sentences;

@@ -19,6 +19,8 @@ const whole = (label: string, min: number, max: number) =>
     .min(min, `${label} is at least ${min}.`)
     .max(max, `${label} can be at most ${max.toLocaleString('en-GB')}.`);
 const openUnit = (label: string) => num(label).gt(0, `${label} must be above 0.`).lt(1, `${label} must be below 1.`);
+/** A ratio of rates, risks or odds: between 1/1,000,000 and 1,000,000. */
+const ratioOf = (label: string) => num(label).min(1e-6, `${label} must be at least 0.000001.`).max(1e6, `${label} can be at most 1,000,000.`);
 
 /** Shared by every kind: significance level, target power, attrition and several outcomes. */
 const common = {
@@ -104,11 +106,23 @@ export const longitudinalSlopesSchema = z
   })
   .meta({ id: 'LongitudinalSlopes', description: 'Difference in rates of change between two groups (Diggle et al. 2002).' });
 
+/**
+ * The effect on a yes-or-no outcome: the proportion p2 itself, or its difference from p1
+ * (p2 − p1), its ratio to p1 (p2/p1) or the odds ratio — at most one of them
+ * (lib/stats/calculations/proportion-effect.ts turns any of them into p2).
+ */
+const proportionEffect = {
+  p2: openUnit('p2').optional(),
+  difference: num('difference').gt(-1, 'difference must be above −1.').lt(1, 'difference must be below 1.').optional(),
+  riskRatio: ratioOf('riskRatio').optional(),
+  oddsRatio: ratioOf('oddsRatio').optional(),
+};
+
 export const twoProportionsSchema = z
   .object({
     kind: z.literal('two-proportions'),
     p1: openUnit('p1'),
-    p2: openUnit('p2').optional(),
+    ...proportionEffect,
     nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
     sides,
     continuityCorrection: z.boolean().default(false),
@@ -120,6 +134,60 @@ export const twoProportionsSchema = z
     ...common,
   })
   .meta({ id: 'TwoProportions', description: 'Two independent proportions (normal approximation), optionally clustered.' });
+
+export const clusterProportionsSchema = z
+  .object({
+    kind: z.literal('cluster-proportions'),
+    p1: openUnit('p1'),
+    ...proportionEffect,
+    icc: num('icc').min(0, 'icc is at least 0.').max(1, 'icc is at most 1.'),
+    clusterSize: whole('clusterSize', 1, 1_000_000).optional(),
+    cv: num('cv').min(0, 'cv is at least 0.').max(3, 'cv can be at most 3.').default(0),
+    clustersPerArm: whole('clustersPerArm', 2, 1_000_000).optional(),
+    clusterDropout: num('clusterDropout').min(0, 'clusterDropout is at least 0.').max(0.9, 'clusterDropout can be at most 0.9.').default(0),
+    direction: z.enum(['higher', 'lower'], { error: 'direction is higher or lower.' }).optional(),
+    sides,
+    ...common,
+  })
+  .meta({ id: 'ClusterProportions', description: 'Two arms randomised by cluster, compared on a yes-or-no outcome (design effect with the ICC on the proportion scale).' });
+
+/** Rate ratio, the solved direction and the shared inputs of both rate kinds. */
+const rateInputs = {
+  /** Events per unit of exposure (person-year, person-month …) in the comparison arm. */
+  baselineRate: positive('baselineRate', 1e6),
+  /** Rate in the treated arm divided by baselineRate. */
+  rateRatio: ratioOf('rateRatio').optional(),
+  /** Follow-up time of each participant, in the time unit of the rate. */
+  exposure: positive('exposure', 1e6).default(1),
+  /** Negative binomial dispersion κ between participants: variance = mean + κ·mean²; 0 for Poisson counts. */
+  dispersion: num('dispersion').min(0, 'dispersion is at least 0.').max(100, 'dispersion can be at most 100.').default(0),
+  /** When solving for rateRatio: a reduction (the default) or an increase. */
+  direction: z.enum(['lower', 'higher'], { error: 'direction is lower or higher.' }).optional(),
+  sides,
+};
+
+export const twoRatesSchema = z
+  .object({
+    kind: z.literal('two-rates'),
+    ...rateInputs,
+    nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
+    ratio: num('ratio').min(0.01, 'ratio is at least 0.01.').max(100, 'ratio can be at most 100.').default(1),
+    ...common,
+  })
+  .meta({ id: 'TwoRates', description: 'Two event rates (counts per unit of exposure), participants randomised one by one: Wald test on the log rate ratio, Poisson or negative binomial.' });
+
+export const clusterRatesSchema = z
+  .object({
+    kind: z.literal('cluster-rates'),
+    ...rateInputs,
+    /** Coefficient of variation of the true rates between clusters of one arm (Hayes & Bennett's k). */
+    betweenClusterCv: num('betweenClusterCv').min(0, 'betweenClusterCv is at least 0.').max(5, 'betweenClusterCv can be at most 5.'),
+    clusterSize: whole('clusterSize', 1, 1_000_000).optional(),
+    clustersPerArm: whole('clustersPerArm', 2, 1_000_000).optional(),
+    clusterDropout: num('clusterDropout').min(0, 'clusterDropout is at least 0.').max(0.9, 'clusterDropout can be at most 0.9.').default(0),
+    ...common,
+  })
+  .meta({ id: 'ClusterRates', description: 'Two event rates, whole clusters randomised: clusters per arm by Hayes & Bennett (1999).' });
 
 export const designEffectSchema = z
   .object({
@@ -160,10 +228,16 @@ export const calculationSchema = z
       repeatedMeasuresSchema,
       longitudinalSlopesSchema,
       twoProportionsSchema,
+      clusterProportionsSchema,
+      twoRatesSchema,
+      clusterRatesSchema,
       designEffectSchema,
       optimalAllocationSchema,
     ],
-    { error: 'kind must be one of two-group-means, regression, cluster-means, repeated-measures, longitudinal-slopes, two-proportions, design-effect, optimal-allocation.' },
+    {
+      error:
+        'kind must be one of two-group-means, regression, cluster-means, repeated-measures, longitudinal-slopes, two-proportions, cluster-proportions, two-rates, cluster-rates, design-effect, optimal-allocation.',
+    },
   )
   .meta({ id: 'CalculationRequest' });
 
@@ -173,7 +247,8 @@ export const CALCULATION_KINDS = calculationSchema.options.map((o) => o.shape.ki
 
 /**
  * The quantities each kind can solve for: the caller leaves exactly one out (or names it in
- * `solveFor`). The effect of regression is f2 — or slope when sdX and residualSd are given.
+ * `solveFor`). The effect of regression is f2 — or slope when sdX and residualSd are given; the
+ * effect of the proportion kinds is p2, which may also be given as difference, riskRatio or oddsRatio.
  * design-effect solves nothing; optimal-allocation solves what its inputs imply.
  */
 export const SOLVABLE: Record<CalculationKind, readonly string[]> = {
@@ -183,6 +258,9 @@ export const SOLVABLE: Record<CalculationKind, readonly string[]> = {
   'repeated-measures': ['power', 'nPerGroup', 'delta'],
   'longitudinal-slopes': ['power', 'nPerGroup', 'slopeDifference'],
   'two-proportions': ['power', 'nPerGroup', 'p2'],
+  'cluster-proportions': ['power', 'clustersPerArm', 'clusterSize', 'p2'],
+  'two-rates': ['power', 'nPerGroup', 'rateRatio'],
+  'cluster-rates': ['power', 'clustersPerArm', 'clusterSize', 'rateRatio'],
   'design-effect': [],
   'optimal-allocation': [],
 };

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { scenarioKey, simulationSpecSchema, type SimulationSpecInput } from './simulations';
+import { defaultSequences, rowsPerDataset, scenarioKey, simulationSpecSchema, type SimulationSpecInput } from './simulations';
 
 const base: SimulationSpecInput = {
   design: { arms: 2, clustersPerArm: 10, clusterSize: 20 },
@@ -79,6 +79,68 @@ describe('simulationSpecSchema', () => {
     ['too much work', { ...base, design: { arms: 2, clustersPerArm: 100, clusterSize: 200 }, replicates: 100_000 }, 'replicates: replicates × scenarios × rows (4,000,000,000) can be at most 500,000,000'],
     ['alpha above 0.5', { ...base, alpha: 0.6 }, 'alpha: alpha can be at most 0.5.'],
     ['a fractional seed', { ...base, seed: 1.5 }, 'seed: seed must be a whole number.'],
+  ])('refuses %s, saying what to fix', (_case, input, message) => {
+    expect(problems(input).some((p) => p.includes(message)), `${JSON.stringify(problems(input))} should contain "${message}"`).toBe(true);
+  });
+});
+
+describe('design shapes beyond two arms of clusters or units', () => {
+  const crossover: SimulationSpecInput = {
+    design: { arms: 2, unitsPerArm: 12, crossover: { periods: 2 } },
+    truth: { effect: 0.5, sd: 1, occasionCorrelation: 0.6, periodEffects: [0.2] },
+    scenarios: [{ violation: 'none' }, { violation: 'carry-over' }],
+    analyses: ['ols', 'mixed', 'period-difference'],
+  };
+  const binaryClusters: SimulationSpecInput = {
+    design: { arms: 2, clustersPerArm: 10, clusterSize: 20 },
+    truth: { effect: 0.5, family: 'binary', baseline: 0.2, icc: 0.05, iccScale: 'proportion', marginal: true },
+    scenarios: [{ violation: 'none' }],
+    analyses: ['glm', 'glmm', 'cluster-means'],
+  };
+  const countClusters: SimulationSpecInput = {
+    design: { arms: 2, clustersPerArm: 10, clusterSize: 20 },
+    truth: { effect: 0.3, family: 'count', baseline: 2, clusterCv: 0.4, clusterDistribution: 'gamma', overdispersion: 2 },
+    scenarios: [{ violation: 'none' }],
+    analyses: ['glm', 'glm-nb', 'glmm', 'cluster-means'],
+  };
+  const blocked: SimulationSpecInput = {
+    design: { arms: 2, blocks: 6, clustersPerArm: 2, clusterSize: 15 },
+    truth: { effect: 0.3, sd: 1, icc: 0.1, blockIcc: 0.15 },
+    scenarios: [{ violation: 'none' }],
+    analyses: ['ols', 'mixed', 'cluster-robust'],
+  };
+
+  it('accepts an AB/BA cross-over, binary and count clusters, and blocks; fills the new defaults', () => {
+    const parsed = [crossover, binaryClusters, countClusters, blocked].map((s) => simulationSpecSchema.parse(s));
+    expect(parsed[0]!.scenarios[1]).toEqual({ violation: 'carry-over', fraction: 0.5 });
+    expect(parsed[3]!.truth).toMatchObject({ iccScale: 'latent', marginal: false, blockIcc: 0.15, clusterDistribution: 'log-normal' });
+    expect(rowsPerDataset(parsed[0]!.design)).toBe(48);
+    expect(rowsPerDataset(parsed[3]!.design)).toBe(6 * 2 * 2 * 15);
+  });
+
+  it('default sequences: AB/BA, ABB/BAA, ABBA/BAAB, ABBAA/BAABB', () => {
+    expect([2, 3, 4, 5].map(defaultSequences)).toEqual([['AB', 'BA'], ['ABB', 'BAA'], ['ABBA', 'BAAB'], ['ABBAA', 'BAABB']]);
+  });
+
+  it.each<[string, unknown, string]>([
+    ['a cross-over of clusters', { ...crossover, design: { arms: 2, clustersPerArm: 5, clusterSize: 4, crossover: { periods: 2 } } }, 'design.crossover: A cross-over needs unitsPerArm'],
+    ['a cross-over with occasions', { ...crossover, design: { ...crossover.design, occasions: 2 } }, 'design.occasions: In a cross-over the periods are the occasions'],
+    ['a sequence of the wrong length', { ...crossover, design: { ...crossover.design, crossover: { periods: 2, sequences: ['ABA', 'BA'] } } }, 'design.crossover.sequences.0: Each sequence is 2 letters A or B'],
+    ['two equal sequences', { ...crossover, design: { ...crossover.design, crossover: { periods: 2, sequences: ['AB', 'AB'] } } }, 'design.crossover.sequences: Give two different sequences'],
+    ['period effects of the wrong length', { ...crossover, truth: { ...crossover.truth, periodEffects: [0.1, 0.2] } }, 'truth.periodEffects: periodEffects needs one number per period after the first (1).'],
+    ['period effects without a cross-over', { ...blocked, truth: { ...blocked.truth, periodEffects: [0.1] } }, 'truth.periodEffects: periodEffects needs a cross-over.'],
+    ['carry-over without a cross-over', { ...blocked, scenarios: [{ violation: 'carry-over' }] }, 'scenarios.0.violation: carry-over needs a cross-over design.'],
+    ['period-difference with three periods', { ...crossover, design: { ...crossover.design, crossover: { periods: 3 } }, truth: { effect: 0.5, sd: 1 } }, 'analyses: period-difference needs a two-period cross-over'],
+    ['blockIcc without blocks', { ...binaryClusters, truth: { effect: 0.5, sd: 1, icc: 0.1, blockIcc: 0.1 }, analyses: ['ols'] }, 'truth.blockIcc: blockIcc needs blocks'],
+    ['icc and blockIcc adding to 1', { ...blocked, truth: { ...blocked.truth, icc: 0.5, blockIcc: 0.5 } }, 'truth.blockIcc: icc and blockIcc together must stay below 1.'],
+    ['a proportion-scale ICC for counts', { ...countClusters, truth: { effect: 0.3, family: 'count', icc: 0.1, iccScale: 'proportion' } }, 'truth.iccScale: iccScale proportion applies to binary outcomes.'],
+    ['a proportion-scale ICC with a second level', { ...binaryClusters, design: { ...binaryClusters.design, occasions: 3 }, truth: { ...binaryClusters.truth, occasionCorrelation: 0.3 } }, 'truth.iccScale: iccScale proportion takes one level of clusters'],
+    ['clusterCv for a binary outcome', { ...binaryClusters, truth: { effect: 0.5, family: 'binary', clusterCv: 0.3 } }, 'truth.clusterCv: clusterCv applies to count outcomes.'],
+    ['clusterCv and icc', { ...countClusters, truth: { ...countClusters.truth, icc: 0.1 } }, 'truth.clusterCv: Give either icc or clusterCv'],
+    ['a marginal gaussian truth', { ...blocked, truth: { ...blocked.truth, marginal: true } }, 'truth.marginal: marginal applies to binary and count outcomes.'],
+    ['glmm on a gaussian outcome', { ...blocked, analyses: ['glmm'] }, 'analyses: glmm needs a binary or count outcome'],
+    ['glmm without anything to group', { ...binaryClusters, design: { arms: 2, unitsPerArm: 50 }, truth: { effect: 0.5, family: 'binary' } }, 'analyses: glmm needs clusters, occasions, blocks or a cross-over'],
+    ['glm-nb on a binary outcome', { ...binaryClusters, analyses: ['glm-nb'] }, 'analyses: glm-nb needs a count outcome'],
   ])('refuses %s, saying what to fix', (_case, input, message) => {
     expect(problems(input).some((p) => p.includes(message)), `${JSON.stringify(problems(input))} should contain "${message}"`).toBe(true);
   });

@@ -7,7 +7,14 @@
  * and replicates × scenarios × rows ≤ 500 million generated observations per hypothesis. Scenario
  * parameters have defaults (heavy-tailed ν = 3; outliers fraction 0.05, scale 5; unequal variance
  * by arm with sdRatio 2; nonlinear quadratic of strength 1; serial AR(1) 0.5; skewed: standardised
- * log-normal with σ_log 0.8). Messages say what to fix.
+ * log-normal with σ_log 0.8; carry-over half the effect). Messages say what to fix.
+ *
+ * Design shapes: independent units (`unitsPerArm`) or clusters (`clustersPerArm`,
+ * `clusterSize`), optionally measured at `occasions` (repeated measures, or sub-samples such as
+ * pupils in classes when the units are classes: two levels of clustering with the treatment at
+ * the top); `blocks` that each hold both arms (the treatment assigned within schools, sites or
+ * trays, to clusters or units); and `crossover`, where each unit receives both arms in turn
+ * over periods (AB/BA, multi-period, or a within-subject design with several occasions).
  */
 import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
@@ -49,6 +56,32 @@ export const simulationDesignSchema = z
     times: z.array(num('times[]'), { error: 'times is a list of numbers.' }).optional(),
     /** The effect of interest: the difference between arms, or (with occasions) the difference in slopes over time. */
     target: z.enum(['treat', 'treat:time'], { error: 'target is treat or treat:time.' }).default('treat'),
+    /**
+     * Blocks (schools, sites, trays) that each hold both arms: the treatment is assigned within
+     * every block, to its clusters (then clustersPerArm counts the clusters of one arm in one
+     * block) or to its units (unitsPerArm per arm in one block).
+     */
+    blocks: whole('blocks', 2, 10_000).optional(),
+    /**
+     * Each unit receives both arms in turn, one per period, in the order of its sequence (a
+     * cross-over, or a within-subject design with several occasions): unitsPerArm counts the
+     * units of each of the two sequences. The periods are the occasions (leave occasions out).
+     */
+    crossover: z
+      .object({
+        periods: whole('crossover.periods', 2, 20),
+        /**
+         * The two sequences, as letters A (arm 1) and B (arm 2), one per period, e.g.
+         * ["AB", "BA"] or ["ABBA", "BAAB"]. Default: ABBA… repeated to the number of periods and
+         * its mirror image (AB/BA, ABB/BAA, ABBA/BAAB, …).
+         */
+        sequences: z
+          .tuple([rawText('crossover.sequences[0]'), rawText('crossover.sequences[1]')], {
+            error: 'crossover.sequences is a pair of sequences such as ["AB", "BA"].',
+          })
+          .optional(),
+      })
+      .optional(),
   })
   .superRefine((d, ctx) => {
     const clustered = d.clustersPerArm !== undefined;
@@ -76,6 +109,31 @@ export const simulationDesignSchema = z
     }
     if (d.target === 'treat:time' && d.occasions === undefined) {
       ctx.addIssue({ code: 'custom', path: ['target'], message: 'A difference in slopes (treat:time) needs occasions.' });
+    }
+    if (d.crossover) {
+      const { periods, sequences } = d.crossover;
+      if (clustered || d.unitsPerArm === undefined) {
+        ctx.addIssue({ code: 'custom', path: ['crossover'], message: 'A cross-over needs unitsPerArm (units per sequence); clusters that cross over are not simulated yet.' });
+      }
+      if (d.blocks !== undefined) ctx.addIssue({ code: 'custom', path: ['blocks'], message: 'blocks and a cross-over cannot be combined yet: leave blocks out.' });
+      if (d.occasions !== undefined || d.times !== undefined) {
+        ctx.addIssue({ code: 'custom', path: ['occasions'], message: 'In a cross-over the periods are the occasions: leave occasions and times out.' });
+      }
+      if (d.target !== 'treat') ctx.addIssue({ code: 'custom', path: ['target'], message: 'A cross-over takes target treat (the difference between the arms).' });
+      if (sequences) {
+        sequences.forEach((q, i) => {
+          if (q.length !== periods || !/^[AB]+$/.test(q)) {
+            ctx.addIssue({ code: 'custom', path: ['crossover', 'sequences', i], message: `Each sequence is ${periods} letters A or B, one per period (e.g. ${defaultSequences(periods)[i]}).` });
+          }
+        });
+        const [s0, s1] = sequences;
+        if (s0 === s1 || !(s0 + s1).includes('A') || !(s0 + s1).includes('B')) {
+          ctx.addIssue({ code: 'custom', path: ['crossover', 'sequences'], message: 'Give two different sequences that together use both arms (A and B).' });
+        }
+      }
+    }
+    if (d.blocks !== undefined && d.target !== 'treat') {
+      ctx.addIssue({ code: 'custom', path: ['target'], message: 'A design with blocks takes target treat (the difference between the arms).' });
     }
     if (clustered && d.clusterSize !== undefined && d.clusterSizeCv > 0) {
       try {
@@ -106,6 +164,34 @@ export const simulationTruthSchema = z.object({
   baseline: between('baseline', -1e6, 1e6).optional(),
   /** Count: the negative-binomial shape k (variance μ + μ²/k); leave out for Poisson counts. */
   overdispersion: num('overdispersion').gt(0, 'overdispersion must be above 0.').max(1e6, 'overdispersion can be at most 1,000,000.').optional(),
+  /**
+   * The scale of `icc`. `latent` (default): the share of the link-scale variance between clusters,
+   * with the family's level-one variance (π²/3 for binary). `proportion` (binary only): the
+   * correlation of two outcomes in one cluster, Var(P_c)/(p̄(1 − p̄)) in the first arm (Donner &
+   * Klar 2000) — the ICC of a design with clusters of individuals and no other random effect.
+   */
+  iccScale: z.enum(['latent', 'proportion'], { error: 'iccScale is latent or proportion.' }).default('latent'),
+  /**
+   * Count: the coefficient of variation of the clusters' true mean counts (SD/mean between
+   * clusters; Hayes & Bennett 1999's k), instead of icc.
+   */
+  clusterCv: num('clusterCv').gt(0, 'clusterCv must be above 0.').max(5, 'clusterCv can be at most 5.').optional(),
+  /** Count with clusterCv: the clusters' rate multipliers are log-normal (default) or gamma with mean 1 (negative binomial cluster totals). */
+  clusterDistribution: z.enum(['log-normal', 'gamma'], { error: 'clusterDistribution is log-normal or gamma.' }).default('log-normal'),
+  /**
+   * Binary and count: false (default) — `baseline` and `effect` describe a cluster and unit with
+   * zero random effects (for binary, the conditional odds ratio a GLMM estimates); true — they are
+   * population averages: the first arm's proportion or mean count over all clusters, and the
+   * marginal odds ratio (the rate ratio is the same either way). Binary without random slopes.
+   */
+  marginal: z.boolean({ error: 'marginal is true or false.' }).default(false),
+  /** Share of the variance between blocks (link scale for binary and count), with design.blocks. */
+  blockIcc: num('blockIcc').min(0, 'blockIcc is at least 0.').lt(1, 'blockIcc must be below 1.').default(0),
+  /**
+   * Cross-over: the mean of periods 2, 3, … minus period 1's, one number per later period (on the
+   * outcome's scale for gaussian, the link scale for binary and count). Default 0.
+   */
+  periodEffects: z.array(between('periodEffects[]', -1e6, 1e6), { error: 'periodEffects is a list of numbers.' }).optional(),
 });
 
 const scenarioName = rawText('name')
@@ -146,8 +232,17 @@ export const scenarioSchema = z.discriminatedUnion(
     scenario('serial', {
       ar: num('ar').min(-0.99, 'ar is at least −0.99.').max(0.99, 'ar can be at most 0.99.').default(0.5),
     }),
+    scenario('carry-over', {
+      /**
+       * In a cross-over, arm 2's treatment in the previous period adds to the outcome: `fraction`
+       * of the run's effect (default 0.5, so none when there is no effect), or, when given, a fixed
+       * `size` (outcome scale for gaussian, link scale otherwise) in both runs.
+       */
+      fraction: between('fraction', -10, 10).default(0.5),
+      size: between('size', -1e6, 1e6).optional(),
+    }),
   ],
-  { error: 'violation is one of none, skewed, heavy-tailed, outliers, unequal-variance, nonlinear, serial.' },
+  { error: 'violation is one of none, skewed, heavy-tailed, outliers, unequal-variance, nonlinear, serial, carry-over.' },
 );
 
 export const simulationSpecSchema = z
@@ -185,10 +280,37 @@ export const simulationSpecSchema = z
       ctx.addIssue({ code: 'custom', path: ['truth', 'overdispersion'], message: 'overdispersion applies to count outcomes only.' });
     }
     if (truth.icc > 0 && !clustered) ctx.addIssue({ code: 'custom', path: ['truth', 'icc'], message: 'icc needs clusters: give clustersPerArm and clusterSize, or set icc to 0.' });
-    if (truth.occasionCorrelation > 0 && !hasOccasions) {
+    if (truth.occasionCorrelation > 0 && !hasOccasions && design.crossover === undefined) {
       ctx.addIssue({ code: 'custom', path: ['truth', 'occasionCorrelation'], message: 'occasionCorrelation needs occasions.' });
     }
     if (truth.randomSlopeSd > 0 && !hasOccasions) ctx.addIssue({ code: 'custom', path: ['truth', 'randomSlopeSd'], message: 'randomSlopeSd needs occasions.' });
+    const crossover = design.crossover;
+    const withinUnits = crossover !== undefined;
+    if (withinUnits && truth.randomSlopeSd > 0) ctx.addIssue({ code: 'custom', path: ['truth', 'randomSlopeSd'], message: 'randomSlopeSd needs occasions; a cross-over has periods.' });
+    if (truth.periodEffects !== undefined && (!crossover || truth.periodEffects.length !== crossover.periods - 1)) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['truth', 'periodEffects'],
+        message: crossover ? `periodEffects needs one number per period after the first (${crossover.periods - 1}).` : 'periodEffects needs a cross-over.',
+      });
+    }
+    if (truth.blockIcc > 0 && design.blocks === undefined) ctx.addIssue({ code: 'custom', path: ['truth', 'blockIcc'], message: 'blockIcc needs blocks, or set it to 0.' });
+    if (truth.blockIcc + truth.icc >= 1) ctx.addIssue({ code: 'custom', path: ['truth', 'blockIcc'], message: 'icc and blockIcc together must stay below 1.' });
+    if (truth.iccScale === 'proportion') {
+      if (truth.family !== 'binary') ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'iccScale proportion applies to binary outcomes.' });
+      else if (truth.blockIcc > 0 || truth.occasionCorrelation > 0 || truth.randomSlopeSd > 0) {
+        ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'iccScale proportion takes one level of clusters and no other random effect (blockIcc, occasionCorrelation and randomSlopeSd 0).' });
+      }
+    }
+    if (truth.clusterCv !== undefined) {
+      if (truth.family !== 'count') ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'clusterCv applies to count outcomes.' });
+      if (!clustered) ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'clusterCv needs clusters: give clustersPerArm and clusterSize.' });
+      if (truth.icc > 0) ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'Give either icc or clusterCv for the clusters, not both.' });
+    }
+    if (truth.marginal && gaussian) ctx.addIssue({ code: 'custom', path: ['truth', 'marginal'], message: 'marginal applies to binary and count outcomes.' });
+    if (truth.marginal && truth.family === 'binary' && truth.randomSlopeSd > 0) {
+      ctx.addIssue({ code: 'custom', path: ['truth', 'marginal'], message: 'A marginal binary truth takes no random slopes (randomSlopeSd 0).' });
+    }
 
     const names = new Set<string>();
     spec.scenarios.forEach((s, i) => {
@@ -197,9 +319,11 @@ export const simulationSpecSchema = z
         ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'name'], message: `Two scenarios are called "${name}": give each a different name.` });
       }
       names.add(name);
-      if (!gaussian && s.violation !== 'none') {
-        ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: `${s.violation} applies to gaussian outcomes; binary and count outcomes take violation none.` });
+      if (!gaussian && s.violation !== 'none' && s.violation !== 'carry-over') {
+        ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: `${s.violation} applies to gaussian outcomes; binary and count outcomes take violation none or carry-over.` });
       }
+      if (s.violation === 'carry-over' && !design.crossover) ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'carry-over needs a cross-over design.' });
+      if (s.violation === 'serial' && design.crossover) ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'serial correlation is not simulated in a cross-over yet.' });
       if (s.violation === 'serial' && !hasOccasions) ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'serial correlation needs occasions.' });
       if (s.violation === 'nonlinear' && s.on === 'time' && !hasOccasions) {
         ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'on'], message: 'A curved relation with time needs occasions; use on: covariate.' });
@@ -208,6 +332,18 @@ export const simulationSpecSchema = z
     if (new Set(spec.analyses).size !== spec.analyses.length) ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'Name each analysis once.' });
     if (spec.analyses.includes('glm') && gaussian) {
       ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'glm needs a binary or count outcome (family).' });
+    }
+    if (spec.analyses.includes('glmm') && gaussian) {
+      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'glmm needs a binary or count outcome (family); use mixed for a gaussian one.' });
+    }
+    if (spec.analyses.includes('glmm') && !clustered && !hasOccasions && !design.crossover && design.blocks === undefined) {
+      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'glmm needs clusters, occasions, blocks or a cross-over to give a random intercept.' });
+    }
+    if (spec.analyses.includes('glm-nb') && truth.family !== 'count') {
+      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'glm-nb needs a count outcome (family count).' });
+    }
+    if (spec.analyses.includes('period-difference') && design.crossover?.periods !== 2) {
+      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'period-difference needs a two-period cross-over (crossover with periods 2).' });
     }
 
     const rows = rowsPerDataset(design);
@@ -237,16 +373,29 @@ export function scenarioKey(scenario: Scenario): string {
 
 /** Rows of one data set, or undefined when the design is incomplete (the refinements report that). */
 export function rowsPerDataset(design: SimulationDesign): number | undefined {
-  const occasions = design.occasions ?? 1;
+  const occasions = design.crossover?.periods ?? design.occasions ?? 1;
+  const blocks = design.blocks ?? 1;
   if (design.clustersPerArm !== undefined && design.clusterSize !== undefined) {
     try {
       const sizes = clusterSizes(design.clustersPerArm, design.clusterSize, design.clusterSizeCv);
-      return 2 * sizes.reduce((s, m) => s + m, 0) * occasions;
+      return 2 * sizes.reduce((s, m) => s + m, 0) * occasions * blocks;
     } catch {
       return undefined;
     }
   }
   if (design.unitsPerArm === undefined) return undefined;
   const [n1, n2] = typeof design.unitsPerArm === 'number' ? [design.unitsPerArm, design.unitsPerArm] : design.unitsPerArm;
-  return (n1 + n2) * occasions;
+  return (n1 + n2) * occasions * blocks;
+}
+
+/**
+ * The default cross-over sequences for `periods` periods: ABBA… repeated to that length and its
+ * mirror image (AB/BA, ABB/BAA, ABBA/BAAB — the designs Jones & Kenward recommend for two
+ * treatments in two to four periods, Design and Analysis of Cross-Over Trials, 3rd ed., ch. 3–4,
+ * from memory).
+ */
+export function defaultSequences(periods: number): [string, string] {
+  const first = Array.from({ length: periods }, (_, t) => ('ABBA'[t % 4] as string)).join('');
+  const second = first.replace(/A/g, 'x').replace(/B/g, 'A').replace(/x/g, 'B');
+  return [first, second];
 }

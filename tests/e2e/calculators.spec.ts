@@ -1,7 +1,8 @@
 /**
  * The public calculators, signed out: the two-group answer matches R's power.t.test
  * (delta 3, sd 10, power 0.8 → n = 175.38, so 176 per group; R 4.2.2, strict = TRUE), the answer
- * follows the inputs live, the cluster calculator gives clusters per arm, and the pages pass axe.
+ * follows the inputs live, the cluster calculators give clusters per arm (for event rates by Hayes &
+ * Bennett's formula, checked by hand), and the pages pass axe.
  */
 import { expect, test } from '@playwright/test';
 import { CalculatorPage } from './pages/calculator-page';
@@ -14,7 +15,7 @@ test.describe('calculators, signed out', () => {
   test('the index lists every kind and passes axe', async ({ page }) => {
     const calc = new CalculatorPage(page);
     await calc.gotoIndex();
-    for (const title of ['Two group means', 'Linear regression', 'Cluster-randomised means', 'Baseline and follow-up measures', 'Rates of change', 'Two proportions', 'Design effect', 'Cluster size under a budget']) {
+    for (const title of ['Two group means', 'Linear regression', 'Cluster-randomised means', 'Baseline and follow-up measures', 'Rates of change', 'Two proportions', 'Cluster-randomised proportions', 'Two event rates', 'Cluster-randomised event rates', 'Design effect', 'Cluster size under a budget']) {
       await expect(page.getByRole('link', { name: title, exact: true })).toBeVisible();
     }
     await expect(calc.caution()).toBeVisible();
@@ -64,6 +65,23 @@ test.describe('calculators, signed out', () => {
     await expect(calc.answer('Clusters per arm')).toHaveText('29');
     await expect(calc.result).toContainText('Design effect');
     await expectNoSeriousA11yViolations(page, 'Cluster-randomised means calculator');
+  });
+
+  test('cluster-randomised event rates: clusters per arm by Hayes & Bennett, inputs in plain words', async ({ page }) => {
+    const calc = new CalculatorPage(page);
+    await calc.goto('cluster-rates', 'Cluster-randomised event rates');
+    await calc.solveFor('clusters per arm');
+    await calc.set('Baseline rate (events per unit of follow-up time)', '0.5');
+    await calc.set('Rate ratio', '0.75');
+    await calc.set('Participants per cluster', '25');
+    await calc.set('Follow-up time per participant', '6');
+    await calc.set('Between-cluster coefficient of variation of the rate', '0.25');
+    await calc.set('Power', '0.8');
+    // Hayes & Bennett 1999 by hand: c = 1 + 7.8489 × (0.875/150 + 0.0625 × 0.390625)/0.125² = 16.19 → 17.
+    await expect(calc.answer('Clusters per arm')).toHaveText('17');
+    await expect(calc.inputs.getByRole('group', { name: 'Clusters and follow-up' })).toBeVisible();
+    await expect(calc.result).toContainText('Hayes & Bennett');
+    await expectNoSeriousA11yViolations(page, 'Cluster-randomised event rates calculator');
   });
 
   test('an unknown kind is a 404', async ({ page }) => {

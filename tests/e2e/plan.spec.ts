@@ -60,3 +60,37 @@ test('classroom design: clusters per arm, live ICC change, saved with its revisi
     await expect(plan.saved.getByRole('row').filter({ hasText: `Clusters per arm ${after}` })).toBeVisible();
   });
 });
+
+test('a count outcome: the Plan asks for the rate-ratio inputs and sizes the classrooms by Hayes & Bennett', async ({ page }) => {
+  test.slow();
+  await registerAndSignIn(page, { name: 'Rita Rates', email: uniqueEmail('plan-rates'), password: STRONG_PASSWORD });
+  const studyId = await new WorkspacePage(page).createStudyNamed('Absences, randomised by classroom', 'Plan test');
+  const source = { kind: 'expert', certainty: 'medium' } as const;
+  const design = {
+    ...CLASSROOM_DESIGN,
+    outcome: { ...CLASSROOM_DESIGN.outcome, name: 'Days absent', unit: 'days', type: 'count' as const },
+    assumptions: {
+      ...CLASSROOM_DESIGN.assumptions,
+      baselineRate: { value: 0.5, source },
+      rateRatio: { value: 0.75, source },
+      followUpTime: { value: 6, source },
+      dispersion: { value: 0, source },
+      betweenClusterCv: { value: 0.25, source: { kind: 'published', citation: 'Invented absence study, classroom rates', certainty: 'low' } as const },
+    },
+  };
+  const put = await page.request.put(`/api/v1/studies/${studyId}/design`, { data: { baseRevision: 1, design } });
+  expect(put.status(), await put.text()).toBe(200);
+  const revision = ((await put.json()) as { revision: number }).revision;
+
+  const plan = new PlanPage(page);
+  await plan.goto(studyId);
+  await expect(plan.heading).toHaveText(`Cluster-randomised event rates, for revision ${revision}`);
+  await expect(plan.assumptions).toContainText('Invented absence study, classroom rates');
+  await expect(plan.input('Rate ratio')).toHaveValue('0.75');
+  await expect(plan.input('Between-cluster coefficient of variation of the rate')).toHaveValue('0.25');
+  // Hayes & Bennett by hand, 23 pupils analysed for 6 months: c = 1 + 7.8489 × (0.875/138 + 0.0625 × 0.390625)/0.125² = 16.47 → 17.
+  await expect(plan.headline('clustersPerArm')).toHaveText('17');
+  await plan.input('Rate ratio').fill('0.6');
+  await expect.poll(async () => Number(await plan.headline('clustersPerArm').textContent())).toBeLessThan(17);
+  await checkA11y(page, 'plan tab for counts');
+});

@@ -7,7 +7,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { findSimulation, listChunks } from '@/db/repositories/simulations';
-import { CLASSROOM_DESIGN } from '@/db/demo/designs';
+import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
 import { db } from '@/lib/db';
 import { createSimulation } from '@/lib/data/simulations';
 import { CHUNK_QUEUE, getBoss, stopBoss, type ChunkJobData } from '@/lib/jobs/boss';
@@ -356,6 +356,28 @@ describe('runs on a study', () => {
     const body = await derived.json();
     expect(body).toMatchObject({ revision: 1, spec: null });
     expect(body.missing.join('; ')).toMatch(/levels of the structure/);
+  });
+
+  it('derives the demo designs: a complete specification where the stress test simulates the shape, one sentence where it does not yet', async () => {
+    const w = await makeWorld();
+    const derive = async (d: typeof CLASSROOM_DESIGN, baseRevision: number) => {
+      const saved = await design.PUT(request('PUT', `/api/v1/studies/${w.studyId}/design`, { user: w.byRole.owner, body: { baseRevision, design: d } }), ctx({ studyId: w.studyId }));
+      expect(saved.status).toBe(200);
+      const res = await studySpec.GET(request('GET', `/api/v1/studies/${w.studyId}/simulations/spec`, { user: w.byRole.viewer }), ctx({ studyId: w.studyId }));
+      expect(res.status).toBe(200);
+      return res.json();
+    };
+    const greenhouse = await derive(GREENHOUSE_DESIGN, 1);
+    expect(greenhouse).toMatchObject({ revision: 2, missing: [], unsupported: [], spec: { design: { clustersPerArm: 6, clusterSize: 6, occasions: 4 } } });
+    // The outcome is right-skewed, but the simulated one is normal and can be ≤ 0: no log-ols.
+    expect(greenhouse.spec.analyses).toEqual(['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed']);
+
+    const sleep = await derive(SLEEP_DESIGN, 2);
+    expect(sleep).toMatchObject({ revision: 3, spec: null, missing: [] });
+    expect(sleep.unsupported).toEqual([expect.stringMatching(/^Each volunteer receives both arms in turn \(a 2-period cross-over\): the stress test does not yet simulate/)]);
+    const r = await post(w.byRole.owner, { studyId: w.studyId });
+    expect(r.status).toBe(400);
+    expect(r.body.error.message).toBe(sleep.unsupported[0]);
   });
 });
 

@@ -4,7 +4,8 @@ import { useMemo } from 'react';
 import type { UseFormRegister } from 'react-hook-form';
 import { z } from 'zod';
 import { SelectField, TextField } from '@/components/ui/field';
-import { iccLevels } from '@/lib/design/progress';
+import { designFacts } from '@/lib/design/facts';
+import { clusterRandomised, iccLevels } from '@/lib/design/progress';
 import { assumptionsSchema, type Assumptions, type Design } from '@/lib/design/schema';
 import { asNumber, errorAt, useStepForm } from '../step-form';
 import type { StepProps } from './types';
@@ -20,11 +21,21 @@ function clean(raw: unknown): unknown {
     outcomeSd: keep(v.outcomeSd),
     effect: keep(v.effect),
     occasionCorrelation: keep(v.occasionCorrelation),
+    controlProportion: keep(v.controlProportion),
+    proportionEffect: keep(v.proportionEffect),
+    baselineRate: keep(v.baselineRate),
+    rateRatio: keep(v.rateRatio),
+    followUpTime: keep(v.followUpTime),
+    dispersion: keep(v.dispersion),
+    betweenClusterCv: keep(v.betweenClusterCv),
     iccs: Array.isArray(v.iccs) ? v.iccs.filter((c) => keep(c)) : [],
   };
 }
 
 const formSchema = z.preprocess(clean, assumptionsSchema);
+
+/** The outcome numbers entered as a value with a source. */
+type OutcomeNumber = 'controlProportion' | 'baselineRate' | 'rateRatio' | 'followUpTime' | 'dispersion' | 'betweenClusterCv';
 
 function SourceFields({ path, register, e }: { path: string; register: UseFormRegister<Assumptions>; e: Record<string, unknown> }) {
   return (
@@ -49,7 +60,9 @@ function withAllIccs(value: Assumptions, design: Design): Assumptions {
   const iccs = iccLevels(design).map(
     (l) => value.iccs.find((c) => c.levelId === l.id) ?? ({ levelId: l.id, value: undefined, source: { kind: 'none', certainty: 'low' } } as unknown as Assumptions['iccs'][number]),
   );
-  return { ...value, iccs };
+  // The effect's form starts as the second proportion until the team picks another.
+  const proportionEffect = value.proportionEffect ?? ({ measure: 'p2', source: { kind: 'none', certainty: 'low' } } as unknown as Assumptions['proportionEffect']);
+  return { ...value, iccs, proportionEffect };
 }
 
 export function AssumptionsStep({ value, design, onValid, onDraft, disabled }: StepProps<'assumptions'>) {
@@ -59,28 +72,87 @@ export function AssumptionsStep({ value, design, onValid, onDraft, disabled }: S
   const e = formState.errors as Record<string, unknown>;
   const unit = design.outcome.unit ? ` (${design.outcome.unit})` : '';
   const levels = iccLevels(design);
-  const repeated = design.occasions.list.length > 1 || design.structure.levels.some((l) => l.kind === 'repeated');
+  const repeated = designFacts(design).measuredOverTime;
+  const type = design.outcome.type;
+  /** One number with its source. */
+  const sourced = (path: OutcomeNumber, label: string, help: string, bounds: { min?: number; max?: number } = {}) => (
+    <section key={path} className="space-y-2 rounded-md border border-line bg-white p-3">
+      <TextField label={label} help={help} type="number" step="any" {...bounds} {...register(`${path}.value`, asNumber)} error={errorAt(e, `${path}.value`)} />
+      <SourceFields path={path} register={register} e={e} />
+    </section>
+  );
 
   return (
     <fieldset disabled={disabled} className="space-y-5">
       <legend className="sr-only">Assumptions</legend>
       <p className="text-sm text-muted">Each number needs a source: a published study, pilot data or expert judgement. The checks flag numbers without one, and the Plan will show how much the answer depends on them.</p>
-      <section className="space-y-2 rounded-md border border-line bg-white p-3">
-        <TextField label={`Standard deviation of the outcome${unit}`} type="number" step="any" min={0} {...register('outcomeSd.value', asNumber)} error={errorAt(e, 'outcomeSd.value')} />
-        <SourceFields path="outcomeSd" register={register} e={e} />
-      </section>
-      <section className="space-y-2 rounded-md border border-line bg-white p-3">
-        <TextField
-          label={`Smallest important difference${unit}`}
-          help="The smallest difference between arms that would matter in practice; the study is sized to detect it."
-          type="number"
-          step="any"
-          min={0}
-          {...register('effect.value', asNumber)}
-          error={errorAt(e, 'effect.value')}
-        />
-        <SourceFields path="effect" register={register} e={e} />
-      </section>
+      {type === 'binary' ? (
+        <>
+          {sourced('controlProportion', 'Proportion expected without the intervention', 'The share with the outcome in the comparison arm, as a fraction (0.55 = 55%).', { min: 0, max: 1 })}
+          <section className="space-y-2 rounded-md border border-line bg-white p-3">
+            <div className="grid gap-2 sm:grid-cols-2">
+              <SelectField label="State the effect worth detecting as" {...register('proportionEffect.measure')}>
+                <option value="p2">The proportion expected with the intervention</option>
+                <option value="difference">A difference in proportions</option>
+                <option value="riskRatio">A risk ratio</option>
+                <option value="oddsRatio">An odds ratio</option>
+              </SelectField>
+              <TextField
+                label="Effect worth detecting"
+                help="The smallest effect that would matter in practice, in the form chosen: e.g. 0.7, a difference of 0.15, a risk ratio of 1.25 or an odds ratio of 1.9."
+                type="number"
+                step="any"
+                {...register('proportionEffect.value', asNumber)}
+                error={errorAt(e, 'proportionEffect.value')}
+              />
+            </div>
+            <SourceFields path="proportionEffect" register={register} e={e} />
+          </section>
+        </>
+      ) : type === 'count' ? (
+        <>
+          {sourced(
+            'baselineRate',
+            'Baseline rate (events per unit of follow-up time)',
+            'Events expected per unit without the intervention, per unit of the time the follow-up is given in: e.g. 0.3 infections a person-year with follow-up in years.',
+            { min: 0 },
+          )}
+          {sourced('rateRatio', 'Rate ratio worth detecting', 'The rate with the intervention divided by the baseline rate: 0.8 is a 20% reduction, 1.25 a 25% increase.', { min: 0 })}
+          {sourced('followUpTime', 'Follow-up time per unit', 'How long each unit is followed, in the same time unit as the rate.', { min: 0 })}
+          {sourced(
+            'dispersion',
+            'Overdispersion between units',
+            'How much more units differ than chance alone makes them: 0 for plain (Poisson) counts; the variance of a count is its mean + dispersion × mean² (1 / k for a negative binomial k).',
+            { min: 0 },
+          )}
+          {clusterRandomised(design) &&
+            sourced(
+              'betweenClusterCv',
+              'Between-cluster coefficient of variation of the rate',
+              'How much the true rates of the randomised clusters differ within an arm: the SD of the cluster rates divided by their mean (Hayes & Bennett 1999).',
+              { min: 0 },
+            )}
+        </>
+      ) : (
+        <>
+          <section className="space-y-2 rounded-md border border-line bg-white p-3">
+            <TextField label={`Standard deviation of the outcome${unit}`} type="number" step="any" min={0} {...register('outcomeSd.value', asNumber)} error={errorAt(e, 'outcomeSd.value')} />
+            <SourceFields path="outcomeSd" register={register} e={e} />
+          </section>
+          <section className="space-y-2 rounded-md border border-line bg-white p-3">
+            <TextField
+              label={`Smallest important difference${unit}`}
+              help="The smallest difference between arms that would matter in practice; the study is sized to detect it."
+              type="number"
+              step="any"
+              min={0}
+              {...register('effect.value', asNumber)}
+              error={errorAt(e, 'effect.value')}
+            />
+            <SourceFields path="effect" register={register} e={e} />
+          </section>
+        </>
+      )}
       {levels.map((l, i) => (
         <section key={l.id} className="space-y-2 rounded-md border border-line bg-white p-3">
           <input type="hidden" {...register(`iccs.${i}.levelId`)} />

@@ -17,16 +17,15 @@
 import { COHEN_1988, DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/rules/citations';
 import { designEffect } from '@/lib/stats/design-effect';
 import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
-import { adjustAlpha, dropoutWarning, formatNumber, toRecruit } from './adjust';
-import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
+import { adjustAlpha } from './adjust';
+import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
+import { clusterRecruitment, effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
 import { tTestPower, zSum, type Sides } from './power';
 import { findUnknown, presence, requireTargetPower, solveEffect, solveSize } from './solve';
 import type { CalculationOutput, Feasibility } from './types';
 
 export type ClusterMeansRequest = Extract<CalculationRequest, { kind: 'cluster-means' }>;
 
-export const MAX_CLUSTERS_PER_ARM = 1_000_000;
-export const MAX_CLUSTER_SIZE = 1_000_000;
 
 export interface ClusterMeansPowerInput {
   delta: number;
@@ -85,25 +84,18 @@ export function clusterMeans(request: ClusterMeansRequest): CalculationOutput {
     ({ size: k, power, feasibility } = s);
     warnings.push(...sizeFeasibilityWarning(feasibility, 'clusters per arm', s.size, s.power, target));
   } else if (solvedFor === 'clusterSize') {
-    const at = (size: number) => clusterMeansPower({ ...base, delta: delta!, clusterSize: size, clustersPerArm: k! });
-    const plateauPower = at(Infinity);
-    extra.plateauPower = plateauPower;
-    const s =
-      plateauPower < target
-        ? { size: MAX_CLUSTER_SIZE, power: at(MAX_CLUSTER_SIZE), feasibility: 'unreachable' as const }
-        : solveSize(at, target, 1, MAX_CLUSTER_SIZE);
+    const s = solveClusterSize({
+      powerAt: (size) => clusterMeansPower({ ...base, delta: delta!, clusterSize: size, clustersPerArm: k! }),
+      plateauAt: (clusters) => clusterMeansPower({ ...base, delta: delta!, clusterSize: Infinity, clustersPerArm: clusters }),
+      clustersPerArm: k!,
+      target,
+      why: `the variance between clusters remains (ICC ${icc})`,
+      members: 'units per cluster',
+    });
     ({ size: m, power, feasibility } = s);
-    if (feasibility === 'unreachable') {
-      const needed = icc > 0 ? solveClustersPerArm({ ...base, delta: delta!, clusterSize: Infinity }, target) : null;
-      extra.clustersPerArmNeeded = needed && needed.feasibility !== 'unreachable' ? needed.size : null;
-      warnings.push(
-        `With ${k} clusters per arm no cluster size reaches power ${formatNumber(target)}: as clusters grow, power levels off at ` +
-          `${formatNumber(plateauPower)} because the variance between clusters remains (ICC ${icc}).` +
-          (extra.clustersPerArmNeeded !== null ? ` At least ${extra.clustersPerArmNeeded} clusters per arm are needed, with large clusters.` : ''),
-      );
-    } else {
-      warnings.push(...sizeFeasibilityWarning(feasibility, 'units per cluster', s.size, s.power, target));
-    }
+    extra.plateauPower = s.plateauPower;
+    if (s.clustersPerArmNeeded !== undefined) extra.clustersPerArmNeeded = s.clustersPerArmNeeded;
+    warnings.push(...s.warnings);
   } else {
     const factor = clusterMeanVarianceFactor(icc, m!, cv);
     const guess = sd * Math.sqrt((2 * factor) / k!) * zSum(a, sides, target);
@@ -113,18 +105,14 @@ export function clusterMeans(request: ClusterMeansRequest): CalculationOutput {
   }
 
   const de = designEffect({ clusterSize: m!, icc, cv });
-  const kRecruit = toRecruit(k!, clusterDropout);
-  const mRecruit = toRecruit(m!, dropout);
+  const recruitment = clusterRecruitment(k!, m!, dropout, clusterDropout, 'units');
   if (cv > 0) {
     warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (Eldridge et al. 2006); clusterSize is the mean size.`);
   }
   if (k! < 10) {
     warnings.push(`With ${k} clusters per arm the estimate of the variance between clusters is imprecise; analyses with few clusters need small-sample corrections.`);
   }
-  warnings.push(...dropoutWarning(dropout, 'units within each cluster'));
-  if (clusterDropout > 0) {
-    warnings.push(`Clusters to recruit are inflated by 1/(1 − ${clusterDropout}) for whole clusters expected to drop out, rounded up.`);
-  }
+  warnings.push(...recruitment.warnings);
   return {
     kind: 'cluster-means',
     solvedFor,
@@ -141,12 +129,7 @@ export function clusterMeans(request: ClusterMeansRequest): CalculationOutput {
       designEffect: de,
       degreesOfFreedom: 2 * k! - 2,
       ...extra,
-      dropout,
-      clusterDropout,
-      clusterSizeToRecruit: mRecruit,
-      clustersPerArmToRecruit: kRecruit,
-      totalAnalysed: 2 * k! * m!,
-      totalToRecruit: 2 * kRecruit * mRecruit,
+      ...recruitment.result,
     },
     feasibility,
     method: `Power of the ${TWO_SIDED(sides)} t test on cluster means (noncentral t, df = 2k − 2), variance of a cluster mean sd² × DE / m, DE = 1 + ((cv² + 1) × m − 1) × ICC.`,

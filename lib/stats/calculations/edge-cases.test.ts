@@ -1,28 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { calculationSchema } from '@/lib/validation/calculations';
 import { clusterMeansPower } from './cluster-means';
-import { CalculationInputError } from './errors';
-import { calculate } from './index';
-import { expectRelativelyClose } from './testing';
+import { expectInputError, expectRelativelyClose, run } from './testing';
 import { twoGroupMeansPower } from './two-group-means';
-
-function run(input: Record<string, unknown>) {
-  return calculate(calculationSchema.parse(input));
-}
-
-/** Runs and expects a CalculationInputError whose fields include `field` and whose message matches. */
-function expectInputError(input: Record<string, unknown>, field: string, message: RegExp): void {
-  let caught: unknown;
-  try {
-    run(input);
-  } catch (error) {
-    caught = error;
-  }
-  expect(caught, `${JSON.stringify(input)} should throw`).toBeInstanceOf(CalculationInputError);
-  const error = caught as CalculationInputError;
-  expect(error.message).toMatch(message);
-  expect(Object.keys(error.fields)).toContain(field);
-}
 
 const cluster = { kind: 'cluster-means', delta: 0.3, sd: 1 };
 

@@ -6,6 +6,8 @@
  */
 import type { CalculationRequest } from '@/lib/validation/calculations';
 import { clusterMeans } from './cluster-means';
+import { clusterProportions } from './cluster-proportions';
+import { clusterRates } from './cluster-rates';
 import { designEffectCalculation } from './design-effect';
 import { longitudinalSlopes } from './longitudinal-slopes';
 import { optimalAllocation } from './optimal-allocation';
@@ -13,6 +15,7 @@ import { regression } from './regression';
 import { repeatedMeasures } from './repeated-measures';
 import { twoGroupMeans } from './two-group-means';
 import { twoProportions } from './two-proportions';
+import { twoRates } from './two-rates';
 import type { CalculationOutput } from './types';
 
 export { CalculationInputError } from './errors';
@@ -32,6 +35,12 @@ export function calculate(request: CalculationRequest): CalculationOutput {
       return longitudinalSlopes(request);
     case 'two-proportions':
       return twoProportions(request);
+    case 'cluster-proportions':
+      return clusterProportions(request);
+    case 'two-rates':
+      return twoRates(request);
+    case 'cluster-rates':
+      return clusterRates(request);
     case 'design-effect':
       return designEffectCalculation(request);
     case 'optimal-allocation':

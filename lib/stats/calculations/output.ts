@@ -4,7 +4,7 @@
  */
 import { uniqueCitations } from '@/lib/rules/citations';
 import type { Citation } from '@/lib/rules/types';
-import { formatNumber } from './adjust';
+import { dropoutWarning, formatNumber, toRecruit } from './adjust';
 import type { Feasibility } from './types';
 
 export function fullReferences(list: readonly Citation[]): string[] {
@@ -57,4 +57,34 @@ export interface TestSettings {
 export function testSettings(settings: TestSettings): Record<string, number | string | null> {
   const { alpha, alphaAdjusted, outcomes, multiplicity, power, targetPower } = settings;
   return { alpha, alphaAdjusted, outcomes, multiplicity, power, targetPower };
+}
+
+export interface ClusterRecruitment {
+  /** The attrition part of a cluster kind's `result`, under the API's names. */
+  result: Record<string, number>;
+  warnings: string[];
+}
+
+/**
+ * Numbers to recruit for k clusters per arm of m members: m inflated for members lost within
+ * clusters (`dropout`), k for whole clusters lost (`clusterDropout`), each rounded up; and the
+ * sentences that say so. `members` names them ('units', 'participants').
+ */
+export function clusterRecruitment(clustersPerArm: number, clusterSize: number, dropout: number, clusterDropout: number, members: string): ClusterRecruitment {
+  const kRecruit = toRecruit(clustersPerArm, clusterDropout);
+  const mRecruit = toRecruit(clusterSize, dropout);
+  return {
+    result: {
+      dropout,
+      clusterDropout,
+      clusterSizeToRecruit: mRecruit,
+      clustersPerArmToRecruit: kRecruit,
+      totalAnalysed: 2 * clustersPerArm * clusterSize,
+      totalToRecruit: 2 * kRecruit * mRecruit,
+    },
+    warnings: [
+      ...dropoutWarning(dropout, `${members} within each cluster`),
+      ...(clusterDropout > 0 ? [`Clusters to recruit are inflated by 1/(1 − ${clusterDropout}) for whole clusters expected to drop out, rounded up.`] : []),
+    ],
+  };
 }

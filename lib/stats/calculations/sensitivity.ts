@@ -14,6 +14,10 @@ import { repeatedMeasuresDesign } from './repeated-measures';
 import { summaryPower } from './summary-measure';
 import { smallestGroupOne, twoGroupMeansPower } from './two-group-means';
 import { twoProportionsPower } from './two-proportions';
+import { clusterProportionsPower } from './cluster-proportions';
+import { clusterRatesPower } from './cluster-rates';
+import { p2FromEffect } from './proportion-effect';
+import { twoRatesPower } from './two-rates';
 import { designEffect } from '@/lib/stats/design-effect';
 import { calculate } from './index';
 import { optimalWholeClusterSize } from './optimal-allocation';
@@ -31,6 +35,9 @@ export const CURVE_SIZE: Record<CalculationRequest['kind'], string | null> = {
   'repeated-measures': 'nPerGroup',
   'longitudinal-slopes': 'nPerGroup',
   'two-proportions': 'nPerGroup',
+  'cluster-proportions': 'clustersPerArm',
+  'two-rates': 'nPerGroup',
+  'cluster-rates': 'clustersPerArm',
   'design-effect': null,
   'optimal-allocation': 'clustersPerArm',
 };
@@ -83,10 +90,28 @@ export function powerCurve(request: CalculationRequest, sizes: readonly number[]
       break;
     }
     case 'two-proportions': {
-      const p2 = effect('p2', request.p2);
+      const p2 = effect('p2', p2FromEffect(request));
       const clustered = request.icc !== undefined && request.clusterSize !== undefined;
       const de = clustered ? designEffect({ clusterSize: request.clusterSize!, icc: request.icc!, cv: request.cv }) : 1;
       at = (n) => twoProportionsPower({ p1: request.p1, p2, n: n / de, alpha, sides: request.sides, continuityCorrection: request.continuityCorrection });
+      break;
+    }
+    case 'cluster-proportions': {
+      const p2 = effect('p2', p2FromEffect(request));
+      const clusterSize = request.clusterSize ?? (calculate(request).result.clusterSize as number);
+      at = (k) => clusterProportionsPower({ p1: request.p1, p2, icc: request.icc, clusterSize, cv: request.cv, clustersPerArm: k, alpha, sides: request.sides });
+      break;
+    }
+    case 'two-rates': {
+      const rateRatio = effect('rateRatio', request.rateRatio);
+      minSize = smallestGroupOne(request.ratio);
+      at = (n) => twoRatesPower({ ...request, rateRatio, nPerGroup: n, alpha });
+      break;
+    }
+    case 'cluster-rates': {
+      const rateRatio = effect('rateRatio', request.rateRatio);
+      const clusterSize = request.clusterSize ?? (calculate(request).result.clusterSize as number);
+      at = (k) => clusterRatesPower({ ...request, rateRatio, clusterSize, clustersPerArm: k, alpha });
       break;
     }
     case 'optimal-allocation': {

@@ -6,6 +6,7 @@ import { brentRoot } from '@/lib/stats/root';
 import type { Feasibility } from './types';
 import { inputError } from './errors';
 import { formatNumber } from './adjust';
+import { givenEffects, type ProportionEffectInput } from './proportion-effect';
 
 /**
  * The quantity to solve for: the one of `solvable` that is missing (`present[name]` false), or
@@ -170,5 +171,10 @@ export function solveEffect(powerAt: (e: number) => number, target: number, gues
 export function presence(request: object, names: readonly string[]): Record<string, boolean> {
   const record = request as Record<string, unknown>;
   return Object.fromEntries(names.map((name) => [name, record[name] !== undefined]));
+}
+
+/** As `presence`, with p2 present when the effect is given in any of its forms (p2, difference, riskRatio, oddsRatio). */
+export function effectPresence(request: ProportionEffectInput, names: readonly string[]): Record<string, boolean> {
+  return { ...presence(request, names), p2: givenEffects(request).length > 0 };
 }
 

@@ -1,6 +1,6 @@
 /**
- * Two independent proportions p1 and p2, by the normal approximation of Fleiss, Levin & Paik
- * (2003):
+ * Two independent proportions p1 and p2 (p2 may be given as a difference, risk ratio or odds
+ * ratio: proportion-effect.ts), by the normal approximation of Fleiss, Levin & Paik (2003):
  *   n = [z₁₋α/sides·√(2p̄q̄) + z₁₋β·√(p1q1 + p2q2)]² / (p1 − p2)²,  p̄ = (p1 + p2)/2, q = 1 − p,
  * and so power Φ((|p1 − p2|·√n − z₁₋α/sides·√(2p̄q̄)) / √(p1q1 + p2q2)) (one rejection tail, as
  * published). With the continuity correction the size is n/4·(1 + √(1 + 4/(n·|p1 − p2|)))²;
@@ -22,7 +22,8 @@ import { adjustAlpha, dropoutWarning, formatNumber, roundUp, toRecruit } from '.
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
 import { zCritical, type Sides } from './power';
-import { findUnknown, presence, requireTargetPower, solveEffect, solveSize } from './solve';
+import { effectMeasures, p2FromEffect } from './proportion-effect';
+import { effectPresence, findUnknown, requireTargetPower, solveEffect, solveSize } from './solve';
 import type { CalculationOutput, Feasibility } from './types';
 
 export type TwoProportionsRequest = Extract<CalculationRequest, { kind: 'two-proportions' }>;
@@ -70,15 +71,15 @@ export function twoProportions(request: TwoProportionsRequest): CalculationOutpu
   const de = clustered ? designEffect({ clusterSize: request.clusterSize!, icc: request.icc!, cv }) : 1;
   const adjusted = adjustAlpha(alpha, outcomes, multiplicity);
   const a = adjusted.alphaAdjusted;
-  const solvedFor = findUnknown(SOLVABLE['two-proportions'], presence(request, SOLVABLE['two-proportions']), request.solveFor);
-  if (solvedFor === 'nPerGroup' && request.p2 === p1) {
+  const solvedFor = findUnknown(SOLVABLE['two-proportions'], effectPresence(request, SOLVABLE['two-proportions']), request.solveFor);
+  let p2 = solvedFor === 'p2' ? undefined : p2FromEffect(request);
+  if (solvedFor === 'nPerGroup' && p2 === p1) {
     throw inputError('p2 equals p1: no sample size detects a difference of zero. Give a p2 different from p1.', ['p2']);
   }
   if (solvedFor !== 'power') requireTargetPower(request.power!, a);
   const target = request.power!;
 
   const warnings = [...adjusted.warnings];
-  let p2 = request.p2;
   let n = request.nPerGroup;
   let power: number;
   let feasibility: Feasibility = 'ok';
@@ -121,7 +122,7 @@ export function twoProportions(request: TwoProportionsRequest): CalculationOutpu
     result: {
       p1,
       p2: p2!,
-      difference: p2! - p1,
+      ...effectMeasures(p1, p2!),
       nPerGroup: n!,
       sides,
       continuityCorrection,

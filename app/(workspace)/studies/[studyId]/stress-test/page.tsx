@@ -8,24 +8,16 @@ import { Alert } from '@/components/ui/alert';
 import { canStudy } from '@/lib/auth/permissions';
 import { currentActor, type Actor } from '@/lib/auth/session';
 import { getDesign } from '@/lib/data/designs';
+import { designFacts } from '@/lib/design/facts';
 import { defaultSimulationSpec, getSimulation, listStudySimulations } from '@/lib/data/simulations';
 import { getStudy } from '@/lib/data/studies';
 import { AppError } from '@/lib/errors';
 import type { SimulationDto } from '@/lib/jobs/dto';
-import type { AnalysisName } from '@/lib/models/types';
 import { load } from '@/lib/page-guard';
+import { offeredAnalyses } from '@/lib/sim/analyses';
 import type { SimulationSpec } from '@/lib/validation/simulations';
 
 export const metadata: Metadata = { title: 'Stress test' };
-
-/** The analyses the form offers: those that use clusters only where the design has clusters or occasions; log-ols where the design calls for it. */
-function analysesFor(spec: SimulationSpec | null): AnalysisName[] {
-  if (!spec) return [];
-  const grouped = spec.design.clustersPerArm !== undefined || spec.design.occasions !== undefined;
-  const offered: AnalysisName[] = grouped ? ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'huber'] : ['ols', 'ols-hc3', 'huber'];
-  if (spec.analyses.includes('log-ols')) offered.push('log-ols');
-  return offered;
-}
 
 /** "classroom" → "classrooms"; names that already end in s stay. */
 function plural(name: string): string {
@@ -67,9 +59,9 @@ export default async function StressTestPage({ params, searchParams }: { params:
   const shown = await shownRun(actor, typeof runParam === 'string' ? runParam : undefined, runs, defaults.spec);
   const initialRun = shown && shown.studyId === studyId ? (shown as typeof shown & { spec: SimulationSpec }) : null;
   const canRun = canStudy(study.role, 'simulation.run') && study.status !== 'archived';
-  const top = state.design.structure.levels[0];
+  const top = designFacts(state.design).assignment;
   const clustered = defaults.spec?.design.clustersPerArm !== undefined;
-  const clusterName = clustered && top ? plural(top.name.toLowerCase()) : 'clusters';
+  const clusterName = clustered && top ? plural(top.level.name.toLowerCase()) : 'clusters';
   const sizeLabel = clustered ? `${clusterName} per arm` : 'units per arm';
 
   return (
@@ -102,6 +94,14 @@ export default async function StressTestPage({ params, searchParams }: { params:
         </aside>
       </div>
 
+      {defaults.unsupported.length > 0 && (
+        <Alert tone="caution" title="Not simulated from this design yet">
+          {defaults.unsupported.map((m) => (
+            <p key={m}>{m}</p>
+          ))}
+        </Alert>
+      )}
+
       {defaults.missing.length > 0 && (
         <Alert tone="caution" title="Needed before the design can be simulated">
           <ul className="list-disc space-y-1 pl-5">
@@ -122,7 +122,7 @@ export default async function StressTestPage({ params, searchParams }: { params:
           studyId={studyId}
           revision={defaults.revision}
           base={defaults.spec}
-          analyses={analysesFor(defaults.spec)}
+          analyses={defaults.spec ? offeredAnalyses(defaults.spec) : []}
           canRun={canRun}
           initialRun={initialRun}
           runs={runs}
