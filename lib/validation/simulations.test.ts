@@ -145,3 +145,17 @@ describe('design shapes beyond two arms of clusters or units', () => {
     expect(problems(input).some((p) => p.includes(message)), `${JSON.stringify(problems(input))} should contain "${message}"`).toBe(true);
   });
 });
+
+describe('truths the generator could not build are refused up front', () => {
+  const binary = { design: { arms: 2, clustersPerArm: 10, clusterSize: 20 }, scenarios: [{ violation: 'none' }], analyses: ['glm'] };
+  it('a marginal log odds ratio that pushes the second arm to 0 or 1', () => {
+    expect(problems({ ...binary, truth: { effect: 40, family: 'binary', baseline: 0.3, marginal: true } })).toContain(
+      'truth.effect: With a marginal truth the second arm’s proportion must stay between 0 and 1: give a log odds ratio that keeps logit(baseline) + effect within ±30.',
+    );
+  });
+
+  it('a proportion-scale ICC that no logit-normal spread reaches at this baseline', () => {
+    const p = problems({ ...binary, truth: { effect: 0.5, family: 'binary', baseline: 1e-300, icc: 0.99, iccScale: 'proportion' } });
+    expect(p.some((m) => m.startsWith('truth.icc: An ICC of 0.99 on the proportion scale cannot be reached')), JSON.stringify(p)).toBe(true);
+  });
+});

@@ -19,6 +19,7 @@
 import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
 import { clusterSizes } from '@/lib/sim/cluster-sizes';
+import { sigmaForIcc } from '@/lib/sim/logit-normal';
 import { rawText } from './common';
 
 export const MAX_REPLICATES = 100_000;
@@ -296,11 +297,21 @@ export const simulationSpecSchema = z
     }
     if (truth.blockIcc > 0 && design.blocks === undefined) ctx.addIssue({ code: 'custom', path: ['truth', 'blockIcc'], message: 'blockIcc needs blocks, or set it to 0.' });
     if (truth.blockIcc + truth.icc >= 1) ctx.addIssue({ code: 'custom', path: ['truth', 'blockIcc'], message: 'icc and blockIcc together must stay below 1.' });
+    const binaryBaseline = truth.family === 'binary' && truth.baseline !== undefined && truth.baseline > 0 && truth.baseline < 1 ? truth.baseline : 0.3;
     if (truth.iccScale === 'proportion') {
       if (truth.family !== 'binary') ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'iccScale proportion applies to binary outcomes.' });
       else if (truth.blockIcc > 0 || truth.occasionCorrelation > 0 || truth.randomSlopeSd > 0) {
         ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'iccScale proportion takes one level of clusters and no other random effect (blockIcc, occasionCorrelation and randomSlopeSd 0).' });
+      } else {
+        try {
+          sigmaForIcc(truth.icc, truth.marginal ? { marginal: binaryBaseline } : { eta: Math.log(binaryBaseline / (1 - binaryBaseline)) });
+        } catch (e) {
+          ctx.addIssue({ code: 'custom', path: ['truth', 'icc'], message: `${(e as Error).message.replace(/^an ICC/, 'An ICC')}.` });
+        }
       }
+    }
+    if (truth.marginal && truth.family === 'binary' && Math.abs(Math.log(binaryBaseline / (1 - binaryBaseline)) + truth.effect) > 30) {
+      ctx.addIssue({ code: 'custom', path: ['truth', 'effect'], message: 'With a marginal truth the second arm’s proportion must stay between 0 and 1: give a log odds ratio that keeps logit(baseline) + effect within ±30.' });
     }
     if (truth.clusterCv !== undefined) {
       if (truth.family !== 'count') ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'clusterCv applies to count outcomes.' });
