@@ -265,7 +265,7 @@ describe('blocks holding both arms', () => {
     expect(dataset.groups.map((g) => [g.name, g.count])).toEqual([['block', 3], ['cluster', 12]]);
     expect(Array.from(dataset.treat.subarray(0, 16))).toEqual([...new Array(8).fill(0), ...new Array(8).fill(1)]);
     expect(Array.from(dataset.groups[1]!.id.subarray(16, 20))).toEqual([4, 4, 4, 4]);
-    expect(sim.analysisOptions.glmm).toEqual({ level: 1 });
+    expect(sim.analysisOptions).toEqual({ glmm: { level: 1 }, 'cluster-means': { level: 1 } });
   });
 
   it('gaussian: two units of one cluster covary (blockIcc + icc)·sd², of one block in different clusters blockIcc·sd², of different blocks 0', () => {

@@ -194,22 +194,28 @@ export function createSimulation(spec: SimulationSpec, scenarioIndex: number): S
     sd,
     link,
     occasionShift,
-    analysisOptions: { glmm: { level: glmmLevel(dataset.groups.map((g) => g.name)) } },
+    analysisOptions: analysisOptionsFor(dataset.groups.map((g) => g.name)),
     scratch,
     conditional: new Map(),
   };
 }
 
 /**
- * The grouping level of the glmm's random intercept: the clusters when the design has them (the
- * level the treatment is assigned at), else the units measured repeatedly (cross-over, occasions),
- * else the blocks.
+ * The options the design's data need (`names`: its grouping levels, outermost first):
+ * - glmm: its random intercept at the clusters when the design has them (the level the
+ *   treatment is assigned at), else at the units measured repeatedly (cross-over, occasions),
+ *   else at the blocks;
+ * - cluster-means: with blocks, the means of the clusters (the blocks hold both arms, so their
+ *   means carry no contrast).
+ * The other analyses take their defaults (cluster-robust clusters on the outermost level, which
+ * with blocks is the blocks: coarser than the clusters, and valid).
  */
-function glmmLevel(names: string[]): number {
+function analysisOptionsFor(names: string[]): Simulation['analysisOptions'] {
   const cluster = names.indexOf('cluster');
-  if (cluster >= 0) return cluster;
   const unit = names.indexOf('unit');
-  return unit >= 0 ? unit : 0;
+  const options: Simulation['analysisOptions'] = { glmm: { level: cluster >= 0 ? cluster : unit >= 0 ? unit : 0 } };
+  if (names[0] === 'block' && cluster >= 0) options['cluster-means'] = { level: cluster };
+  return options;
 }
 
 /**

@@ -123,13 +123,18 @@ describe('within-subject design with 8 occasions (ABBA ABBA, 10 units per sequen
 });
 
 describe('two levels of clustering with the treatment at the lower one (8 schools × 2 classes per arm × 10 pupils)', () => {
-  it('the mixed model with school and class intercepts holds 5% and 95%; ols does not', () => {
+  it('the mixed model with school and class intercepts hold 5% and 95%, the analysis of class means is conservative; ols does not hold 5%', () => {
     const { spec, results } = run({
       design: { arms: 2, blocks: 8, clustersPerArm: 2, clusterSize: 10 },
       truth: { effect: 0.3, sd: 1, icc: 0.1, blockIcc: 0.1 },
-      analyses: ['ols', 'mixed'],
+      analyses: ['ols', 'mixed', 'cluster-means'],
     });
     expectValid('mixed', results.none!.mixed!, spec.replicates);
+    // The means of the classes (not of the schools, which hold both arms) ignoring the schools:
+    // conservative, as the school effects cancel in the balanced contrast but not in its SE.
+    const nominal = Math.sqrt((0.05 * 0.95) / spec.replicates);
+    expect(results.none!['cluster-means']!.typeIError.value).toBeLessThan(0.05 + 3 * nominal);
+    expect(results.none!['cluster-means']!.coverage.value).toBeGreaterThan(0.95 - 3 * nominal);
     expect(results.none!.ols!.typeIError.value).toBeGreaterThan(0.1);
   }, SLOW);
 });
