@@ -139,6 +139,20 @@ describe('two levels of clustering with the treatment at the lower one (8 school
   }, SLOW);
 });
 
+describe('two levels of clustering with the treatment at the top (10 schools per arm × 3 classes × 8 pupils)', () => {
+  it('the mixed model with school and class intercepts, and the analysis of school means, hold 5% and 95%', () => {
+    // Schools are the clusters, classes the units and pupils their sub-samples (occasions).
+    const { spec, results } = run({
+      design: { arms: 2, clustersPerArm: 10, clusterSize: 3, occasions: 8 },
+      truth: { effect: 0.3, sd: 1, icc: 0.08, occasionCorrelation: 0.1 },
+      analyses: ['ols', 'mixed', 'cluster-means'],
+    });
+    expectValid('mixed', results.none!.mixed!, spec.replicates);
+    expectValid('cluster-means', results.none!['cluster-means']!, spec.replicates);
+    expect(results.none!.ols!.typeIError.value).toBeGreaterThan(0.1);
+  }, SLOW);
+});
+
 describe('longitudinal design with random slopes (20 units per arm × 6 occasions, slope SD 0.15)', () => {
   it('the mixed model with a random slope, and the summary-measures analysis of slopes, hold 5% and 95% for the difference in slopes', () => {
     const { spec, results } = run({
