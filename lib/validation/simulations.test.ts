@@ -141,6 +141,7 @@ describe('design shapes beyond two arms of clusters or units', () => {
     ['glmm on a gaussian outcome', { ...blocked, analyses: ['glmm'] }, 'analyses: glmm needs a binary or count outcome'],
     ['glmm without anything to group', { ...binaryClusters, design: { arms: 2, unitsPerArm: 50 }, truth: { effect: 0.5, family: 'binary' } }, 'analyses: glmm needs clusters, occasions, blocks or a cross-over'],
     ['glm-nb on a binary outcome', { ...binaryClusters, analyses: ['glm-nb'] }, 'analyses: glm-nb needs a count outcome'],
+    ['cluster slopes without occasions', { ...blocked, truth: { ...blocked.truth, clusterSlopeSd: 0.1 } }, 'truth.clusterSlopeSd: clusterSlopeSd needs clusters measured at occasions'],
   ])('refuses %s, saying what to fix', (_case, input, message) => {
     expect(problems(input).some((p) => p.includes(message)), `${JSON.stringify(problems(input))} should contain "${message}"`).toBe(true);
   });
