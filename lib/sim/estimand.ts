@@ -85,8 +85,8 @@ export function trueEffect(sim: Simulation, analysis: AnalysisName): number {
 
 /** σ²(t) of the summed normal random effects on the link scale at each occasion's time. */
 function randomEffectVariances(sim: Simulation): number[] {
-  const { block, cluster, unitIntercept, unitSlope } = sim.sd;
-  return Array.from(sim.layout.times, (t) => block * block + cluster * cluster + unitIntercept * unitIntercept + (unitSlope * t) ** 2);
+  const { block, cluster, clusterSlope, unitIntercept, unitSlope } = sim.sd;
+  return Array.from(sim.layout.times, (t) => block * block + cluster * cluster + unitIntercept * unitIntercept + (unitSlope * t) ** 2 + (clusterSlope * t) ** 2);
 }
 
 /** The variance of the random effect the glmm fits (at its grouping level). */

@@ -265,7 +265,7 @@ describe('blocks holding both arms', () => {
     expect(dataset.groups.map((g) => [g.name, g.count])).toEqual([['block', 3], ['cluster', 12]]);
     expect(Array.from(dataset.treat.subarray(0, 16))).toEqual([...new Array(8).fill(0), ...new Array(8).fill(1)]);
     expect(Array.from(dataset.groups[1]!.id.subarray(16, 20))).toEqual([4, 4, 4, 4]);
-    expect(sim.analysisOptions.glmm).toEqual({ level: 1 });
+    expect(sim.analysisOptions).toEqual({ glmm: { level: 1 }, 'cluster-means': { level: 1 } });
   });
 
   it('gaussian: two units of one cluster covary (blockIcc + icc)·sd², of one block in different clusters blockIcc·sd², of different blocks 0', () => {
@@ -297,5 +297,36 @@ describe('blocks holding both arms', () => {
     expectWithinMcse('covariance within a cluster', a.mean, 0.5 * sd * sd, a.mcse);
     expectWithinMcse('covariance within a block', b.mean, 0.3 * sd * sd, b.mcse);
     expectWithinMcse('covariance between blocks', c.mean, 0, c.mcse);
+  });
+});
+
+describe('clusters measured over time with their own trends (clusterSlopeSd)', () => {
+  it('two units of one cluster covary icc·sd² + t²·clusterSlopeSd² at time t, and the units of different clusters not at all', () => {
+    const sd = 1;
+    const slope = 0.3;
+    const sim = simulation({
+      design: { arms: 2, clustersPerArm: 20, clusterSize: 2, occasions: 4, target: 'treat:time' },
+      truth: { effect: 0, sd, icc: 0.2, occasionCorrelation: 0.3, clusterSlopeSd: slope },
+    });
+    const at: number[][] = [[], [], [], []];
+    const apart: number[] = [];
+    eachReplicate(sim, 400, 0, () => {
+      const { y } = sim.dataset;
+      // Rows: cluster c, unit k (0, 1), occasion t at ((2c + k)·4 + t).
+      for (let t = 0; t < 4; t++) {
+        let s = 0;
+        for (let c = 0; c < 40; c++) s += y[8 * c + t]! * y[8 * c + 4 + t]!;
+        at[t]!.push(s / 40);
+      }
+      let s = 0;
+      for (let c = 0; c < 39; c++) s += y[8 * c + 3]! * y[8 * (c + 1) + 3]!;
+      apart.push(s / 39);
+    });
+    at.forEach((values, t) => {
+      const m = meanWithMcse(values);
+      expectWithinMcse(`covariance of two units of a cluster at time ${t}`, m.mean, 0.2 * sd * sd + t * t * slope * slope, m.mcse);
+    });
+    const a = meanWithMcse(apart);
+    expectWithinMcse('covariance of units of different clusters at time 3', a.mean, 0, a.mcse);
   });
 });

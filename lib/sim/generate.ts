@@ -9,6 +9,7 @@
  *   a_c ~ N(0, icc·sd²),                         the cluster's random intercept,
  *   b_u ~ N(0, ρ·(1 − icc)·sd²),                 the unit's random intercept (with occasions),
  *   s_u ~ N(0, randomSlopeSd²),                  the unit's random slope on time,
+ *   (+ c_c·tₜ, c_c ~ N(0, clusterSlopeSd²),      the cluster's random slope, when given)
  *   e   with variance σ²_e = (1 − ρ)(1 − icc)·sd², the residual,
  *
  * where ρ = occasionCorrelation (0 without occasions) and baseline the first arm's mean (default
@@ -65,7 +66,8 @@
  *
  * Order of draws from the replicate's stream (fixed by the specification, so data are
  * reproducible): the blocks' intercepts in block order (with blocks); the clusters' intercepts
- * (or gamma multipliers) in cluster order; then per unit in unit order its
+ * (or gamma multipliers) in cluster order; the clusters' slopes in cluster order (when
+ * clusterSlopeSd > 0); then per unit in unit order its
  * intercept and its slope (each only when its SD is above 0) and its covariate x (when the
  * scenario uses one); then per row in row order the residual (for outliers: the uniform, then
  * the normal; for counts: the gamma factor, then the Poisson draw).
@@ -93,7 +95,7 @@ export interface Simulation {
   /** The fixed part every analysis fits for this design and scenario. */
   fixed: FixedEffects;
   /** SDs of the components on the outcome's scale (gaussian) or the link scale. */
-  sd: { block: number; cluster: number; unitIntercept: number; unitSlope: number; residual: number; total: number };
+  sd: { block: number; cluster: number; clusterSlope: number; unitIntercept: number; unitSlope: number; residual: number; total: number };
   /**
    * Binary and count: the linear predictor of the first arm at zero random effects (period 1),
    * and the shape 1/cv² of gamma cluster multipliers (0 when the cluster effects are normal).
@@ -104,7 +106,7 @@ export interface Simulation {
   /** Options each analysis is fitted with for this design (e.g. the glmm's grouping level). */
   analysisOptions: Partial<Record<AnalysisName, AnalysisOptions>>;
   /** Per-unit scratch space: intercepts, slopes and the covariate. */
-  scratch: { blockEffect: Float64Array; clusterEffect: Float64Array; unitIntercept: Float64Array; unitSlope: Float64Array; covariate: Float64Array };
+  scratch: { blockEffect: Float64Array; clusterEffect: Float64Array; clusterSlope: Float64Array; unitIntercept: Float64Array; unitSlope: Float64Array; covariate: Float64Array };
   /** Conditional effects already solved for (marginal binary truths). */
   conditional: Map<number, number>;
 }
@@ -154,6 +156,7 @@ export function createSimulation(spec: SimulationSpec, scenarioIndex: number): S
   const sd = {
     block: total * Math.sqrt(truth.blockIcc),
     cluster: total * Math.sqrt(truth.icc),
+    clusterSlope: truth.clusterSlopeSd,
     unitIntercept: total * Math.sqrt(rho * rest),
     unitSlope: truth.randomSlopeSd,
     residual: total * Math.sqrt((1 - rho) * rest),
@@ -180,6 +183,7 @@ export function createSimulation(spec: SimulationSpec, scenarioIndex: number): S
   const scratch = {
     blockEffect: new Float64Array(layout.blockCount),
     clusterEffect: new Float64Array(layout.clusterCount),
+    clusterSlope: new Float64Array(layout.clusterCount),
     unitIntercept: new Float64Array(layout.unitCount),
     unitSlope: new Float64Array(layout.unitCount),
     covariate: new Float64Array(layout.unitCount),
@@ -194,22 +198,28 @@ export function createSimulation(spec: SimulationSpec, scenarioIndex: number): S
     sd,
     link,
     occasionShift,
-    analysisOptions: { glmm: { level: glmmLevel(dataset.groups.map((g) => g.name)) } },
+    analysisOptions: analysisOptionsFor(dataset.groups.map((g) => g.name)),
     scratch,
     conditional: new Map(),
   };
 }
 
 /**
- * The grouping level of the glmm's random intercept: the clusters when the design has them (the
- * level the treatment is assigned at), else the units measured repeatedly (cross-over, occasions),
- * else the blocks.
+ * The options the design's data need (`names`: its grouping levels, outermost first):
+ * - glmm: its random intercept at the clusters when the design has them (the level the
+ *   treatment is assigned at), else at the units measured repeatedly (cross-over, occasions),
+ *   else at the blocks;
+ * - cluster-means: with blocks, the means of the clusters (the blocks hold both arms, so their
+ *   means carry no contrast).
+ * The other analyses take their defaults (cluster-robust clusters on the outermost level, which
+ * with blocks is the blocks: coarser than the clusters, and valid).
  */
-function glmmLevel(names: string[]): number {
+function analysisOptionsFor(names: string[]): Simulation['analysisOptions'] {
   const cluster = names.indexOf('cluster');
-  if (cluster >= 0) return cluster;
   const unit = names.indexOf('unit');
-  return unit >= 0 ? unit : 0;
+  const options: Simulation['analysisOptions'] = { glmm: { level: cluster >= 0 ? cluster : unit >= 0 ? unit : 0 } };
+  if (names[0] === 'block' && cluster >= 0) options['cluster-means'] = { level: cluster };
+  return options;
 }
 
 /**
@@ -249,7 +259,7 @@ export function baselineOf(spec: SimulationSpec): number {
  */
 export function generate(sim: Simulation, rng: Rng, effect: number): Dataset {
   const { layout, dataset, sd, scratch, scenario, spec } = sim;
-  const { blockEffect, clusterEffect, unitIntercept, unitSlope, covariate } = scratch;
+  const { blockEffect, clusterEffect, clusterSlope, unitIntercept, unitSlope, covariate } = scratch;
   const { unitCount, occasions, times, clusterOfUnit, blockOfUnit, treatOfRow, carriedOfRow } = layout;
 
   for (let b = 0; b < layout.blockCount; b++) blockEffect[b] = sd.block > 0 ? sd.block * rng.normal() : 0;
@@ -258,6 +268,7 @@ export function generate(sim: Simulation, rng: Rng, effect: number): Dataset {
     if (shape > 0) clusterEffect[c] = Math.log(gamma(rng, shape) / shape);
     else clusterEffect[c] = sd.cluster > 0 ? sd.cluster * rng.normal() : 0;
   }
+  if (sd.clusterSlope > 0) for (let c = 0; c < layout.clusterCount; c++) clusterSlope[c] = sd.clusterSlope * rng.normal();
   const needsX = sim.fixed.covariates.includes(COVARIATE);
   for (let u = 0; u < unitCount; u++) {
     unitIntercept[u] = sd.unitIntercept > 0 ? sd.unitIntercept * rng.normal() : 0;
@@ -280,9 +291,10 @@ export function generate(sim: Simulation, rng: Rng, effect: number): Dataset {
     const c = clusterOfUnit[u]!;
     const b = blockOfUnit[u]!;
     const base = (b >= 0 ? blockEffect[b]! : 0) + (c >= 0 ? clusterEffect[c]! : 0) + unitIntercept[u]!;
+    const slope = unitSlope[u]! + (c >= 0 ? clusterSlope[c]! : 0);
     for (let t = 0; t < occasions; t++, row++) {
       const time = times[t]!;
-      let mean = base + unitSlope[u]! * time + shift[t]! + (treatOfRow[row] === 1 ? linkEffect * (slopeTarget ? time : 1) : 0);
+      let mean = base + slope * time + shift[t]! + (treatOfRow[row] === 1 ? linkEffect * (slopeTarget ? time : 1) : 0);
       if (carriedOfRow[row] === 1) mean += carry;
       if (curve) mean += curve(u, t);
       y[row] = mean;

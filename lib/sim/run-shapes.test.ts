@@ -123,13 +123,32 @@ describe('within-subject design with 8 occasions (ABBA ABBA, 10 units per sequen
 });
 
 describe('two levels of clustering with the treatment at the lower one (8 schools × 2 classes per arm × 10 pupils)', () => {
-  it('the mixed model with school and class intercepts holds 5% and 95%; ols does not', () => {
+  it('the mixed model with school and class intercepts hold 5% and 95%, the analysis of class means is conservative; ols does not hold 5%', () => {
     const { spec, results } = run({
       design: { arms: 2, blocks: 8, clustersPerArm: 2, clusterSize: 10 },
       truth: { effect: 0.3, sd: 1, icc: 0.1, blockIcc: 0.1 },
-      analyses: ['ols', 'mixed'],
+      analyses: ['ols', 'mixed', 'cluster-means'],
     });
     expectValid('mixed', results.none!.mixed!, spec.replicates);
+    // The means of the classes (not of the schools, which hold both arms) ignoring the schools:
+    // conservative, as the school effects cancel in the balanced contrast but not in its SE.
+    const nominal = Math.sqrt((0.05 * 0.95) / spec.replicates);
+    expect(results.none!['cluster-means']!.typeIError.value).toBeLessThan(0.05 + 3 * nominal);
+    expect(results.none!['cluster-means']!.coverage.value).toBeGreaterThan(0.95 - 3 * nominal);
+    expect(results.none!.ols!.typeIError.value).toBeGreaterThan(0.1);
+  }, SLOW);
+});
+
+describe('two levels of clustering with the treatment at the top (10 schools per arm × 3 classes × 8 pupils)', () => {
+  it('the mixed model with school and class intercepts, and the analysis of school means, hold 5% and 95%', () => {
+    // Schools are the clusters, classes the units and pupils their sub-samples (occasions).
+    const { spec, results } = run({
+      design: { arms: 2, clustersPerArm: 10, clusterSize: 3, occasions: 8 },
+      truth: { effect: 0.3, sd: 1, icc: 0.08, occasionCorrelation: 0.1 },
+      analyses: ['ols', 'mixed', 'cluster-means'],
+    });
+    expectValid('mixed', results.none!.mixed!, spec.replicates);
+    expectValid('cluster-means', results.none!['cluster-means']!, spec.replicates);
     expect(results.none!.ols!.typeIError.value).toBeGreaterThan(0.1);
   }, SLOW);
 });
@@ -146,5 +165,21 @@ describe('longitudinal design with random slopes (20 units per arm × 6 occasion
     });
     expectValid('mixed', results.none!.mixed!, spec.replicates);
     expectValid('cluster-means', results.none!['cluster-means']!, spec.replicates);
+  }, SLOW);
+});
+
+describe('clusters measured over time with their own trends (12 clusters per arm × 4 units × 4 occasions, cluster slope SD 0.15)', () => {
+  const design = { arms: 2, clustersPerArm: 12, clusterSize: 4, occasions: 4, target: 'treat:time' } as const;
+  const truth = { effect: 0.1, sd: 1, icc: 0.1, occasionCorrelation: 0.4, randomSlopeSd: 0.05, clusterSlopeSd: 0.15 };
+
+  it('the analysis of the clusters’ slopes holds 5% and 95% for the difference in slopes', () => {
+    const { spec, results } = run({ design, truth, analyses: ['cluster-means'] });
+    expectValid('cluster-means', results.none!['cluster-means']!, spec.replicates);
+  }, SLOW);
+
+  it('the mixed model with unit slopes only does not hold 5% (300 replicates: its REML fit with nested slopes is the slow one)', () => {
+    const { spec, results } = run({ design, truth, analyses: ['mixed'], replicates: 300 });
+    // More than 3 MC SE above 5%.
+    expect(results.none!.mixed!.typeIError.value).toBeGreaterThan(0.05 + 3 * Math.sqrt((0.05 * 0.95) / spec.replicates));
   }, SLOW);
 });

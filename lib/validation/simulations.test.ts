@@ -141,7 +141,22 @@ describe('design shapes beyond two arms of clusters or units', () => {
     ['glmm on a gaussian outcome', { ...blocked, analyses: ['glmm'] }, 'analyses: glmm needs a binary or count outcome'],
     ['glmm without anything to group', { ...binaryClusters, design: { arms: 2, unitsPerArm: 50 }, truth: { effect: 0.5, family: 'binary' } }, 'analyses: glmm needs clusters, occasions, blocks or a cross-over'],
     ['glm-nb on a binary outcome', { ...binaryClusters, analyses: ['glm-nb'] }, 'analyses: glm-nb needs a count outcome'],
+    ['cluster slopes without occasions', { ...blocked, truth: { ...blocked.truth, clusterSlopeSd: 0.1 } }, 'truth.clusterSlopeSd: clusterSlopeSd needs clusters measured at occasions'],
   ])('refuses %s, saying what to fix', (_case, input, message) => {
     expect(problems(input).some((p) => p.includes(message)), `${JSON.stringify(problems(input))} should contain "${message}"`).toBe(true);
+  });
+});
+
+describe('truths the generator could not build are refused up front', () => {
+  const binary = { design: { arms: 2, clustersPerArm: 10, clusterSize: 20 }, scenarios: [{ violation: 'none' }], analyses: ['glm'] };
+  it('a marginal log odds ratio that pushes the second arm to 0 or 1', () => {
+    expect(problems({ ...binary, truth: { effect: 40, family: 'binary', baseline: 0.3, marginal: true } })).toContain(
+      'truth.effect: With a marginal truth the second arm’s proportion must stay between 0 and 1: give a log odds ratio that keeps logit(baseline) + effect within ±30.',
+    );
+  });
+
+  it('a proportion-scale ICC that no logit-normal spread reaches at this baseline', () => {
+    const p = problems({ ...binary, truth: { effect: 0.5, family: 'binary', baseline: 1e-300, icc: 0.99, iccScale: 'proportion' } });
+    expect(p.some((m) => m.startsWith('truth.icc: An ICC of 0.99 on the proportion scale cannot be reached')), JSON.stringify(p)).toBe(true);
   });
 });

@@ -19,6 +19,7 @@
 import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
 import { clusterSizes } from '@/lib/sim/cluster-sizes';
+import { sigmaForIcc } from '@/lib/sim/logit-normal';
 import { rawText } from './common';
 
 export const MAX_REPLICATES = 100_000;
@@ -155,6 +156,12 @@ export const simulationTruthSchema = z.object({
   occasionCorrelation: num('occasionCorrelation').min(0, 'occasionCorrelation is at least 0.').lt(1, 'occasionCorrelation must be below 1.').default(0),
   /** SD of the units' random slopes over time. */
   randomSlopeSd: between('randomSlopeSd', 0, 1e6).default(0),
+  /**
+   * SD of the clusters' random slopes over time (clusters with occasions): each cluster's units
+   * share a trend beyond their own, so a difference in slopes between arms of clusters is judged
+   * against the spread of the clusters' trends.
+   */
+  clusterSlopeSd: between('clusterSlopeSd', 0, 1e6).default(0),
   family: z.enum(['gaussian', 'binary', 'count'], { error: 'family is gaussian, binary or count.' }).default('gaussian'),
   /**
    * The first arm's level: gaussian, its mean (default 0; set it well above sd for a positive
@@ -284,6 +291,9 @@ export const simulationSpecSchema = z
       ctx.addIssue({ code: 'custom', path: ['truth', 'occasionCorrelation'], message: 'occasionCorrelation needs occasions.' });
     }
     if (truth.randomSlopeSd > 0 && !hasOccasions) ctx.addIssue({ code: 'custom', path: ['truth', 'randomSlopeSd'], message: 'randomSlopeSd needs occasions.' });
+    if (truth.clusterSlopeSd > 0 && !(clustered && hasOccasions)) {
+      ctx.addIssue({ code: 'custom', path: ['truth', 'clusterSlopeSd'], message: 'clusterSlopeSd needs clusters measured at occasions (clustersPerArm, clusterSize and occasions).' });
+    }
     const crossover = design.crossover;
     const withinUnits = crossover !== undefined;
     if (withinUnits && truth.randomSlopeSd > 0) ctx.addIssue({ code: 'custom', path: ['truth', 'randomSlopeSd'], message: 'randomSlopeSd needs occasions; a cross-over has periods.' });
@@ -296,11 +306,21 @@ export const simulationSpecSchema = z
     }
     if (truth.blockIcc > 0 && design.blocks === undefined) ctx.addIssue({ code: 'custom', path: ['truth', 'blockIcc'], message: 'blockIcc needs blocks, or set it to 0.' });
     if (truth.blockIcc + truth.icc >= 1) ctx.addIssue({ code: 'custom', path: ['truth', 'blockIcc'], message: 'icc and blockIcc together must stay below 1.' });
+    const binaryBaseline = truth.family === 'binary' && truth.baseline !== undefined && truth.baseline > 0 && truth.baseline < 1 ? truth.baseline : 0.3;
     if (truth.iccScale === 'proportion') {
       if (truth.family !== 'binary') ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'iccScale proportion applies to binary outcomes.' });
-      else if (truth.blockIcc > 0 || truth.occasionCorrelation > 0 || truth.randomSlopeSd > 0) {
-        ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'iccScale proportion takes one level of clusters and no other random effect (blockIcc, occasionCorrelation and randomSlopeSd 0).' });
+      else if (truth.blockIcc > 0 || truth.occasionCorrelation > 0 || truth.randomSlopeSd > 0 || truth.clusterSlopeSd > 0) {
+        ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'iccScale proportion takes one level of clusters and no other random effect (blockIcc, occasionCorrelation, randomSlopeSd and clusterSlopeSd 0).' });
+      } else {
+        try {
+          sigmaForIcc(truth.icc, truth.marginal ? { marginal: binaryBaseline } : { eta: Math.log(binaryBaseline / (1 - binaryBaseline)) });
+        } catch (e) {
+          ctx.addIssue({ code: 'custom', path: ['truth', 'icc'], message: `${(e as Error).message.replace(/^an ICC/, 'An ICC')}.` });
+        }
       }
+    }
+    if (truth.marginal && truth.family === 'binary' && Math.abs(Math.log(binaryBaseline / (1 - binaryBaseline)) + truth.effect) > 30) {
+      ctx.addIssue({ code: 'custom', path: ['truth', 'effect'], message: 'With a marginal truth the second arm’s proportion must stay between 0 and 1: give a log odds ratio that keeps logit(baseline) + effect within ±30.' });
     }
     if (truth.clusterCv !== undefined) {
       if (truth.family !== 'count') ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'clusterCv applies to count outcomes.' });
@@ -308,8 +328,8 @@ export const simulationSpecSchema = z
       if (truth.icc > 0) ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'Give either icc or clusterCv for the clusters, not both.' });
     }
     if (truth.marginal && gaussian) ctx.addIssue({ code: 'custom', path: ['truth', 'marginal'], message: 'marginal applies to binary and count outcomes.' });
-    if (truth.marginal && truth.family === 'binary' && truth.randomSlopeSd > 0) {
-      ctx.addIssue({ code: 'custom', path: ['truth', 'marginal'], message: 'A marginal binary truth takes no random slopes (randomSlopeSd 0).' });
+    if (truth.marginal && truth.family === 'binary' && (truth.randomSlopeSd > 0 || truth.clusterSlopeSd > 0)) {
+      ctx.addIssue({ code: 'custom', path: ['truth', 'marginal'], message: 'A marginal binary truth takes no random slopes (randomSlopeSd and clusterSlopeSd 0).' });
     }
 
     const names = new Set<string>();
