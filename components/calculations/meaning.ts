@@ -70,7 +70,7 @@ function sizePhrase(kind: CalculationKind, r: Record<string, ResultValue>): stri
     case 'cluster-proportions':
       return `${show(r.clustersPerArm)} clusters per arm of ${show(r.clusterSize)} members each`;
     case 'cluster-rates':
-      return `${show(r.clustersPerArm)} clusters per arm of ${show(r.clusterSize)} participants, each followed for ${show(r.exposure)}`;
+      return `${show(r.clustersPerArm)} clusters per arm of ${show(r.clusterSize)} participants, each followed for ${show(r.exposure)} units of time`;
     default:
       return `${show(r.nPerGroup)} per group`;
   }
