@@ -43,8 +43,8 @@
  * Binary and count families use the same random effects on the link scale, with the level-one
  * variance fixed by the family: π²/3 for the logit (the latent-variable ICC, Snijders & Bosker
  * 2012, Multilevel Analysis 2nd ed., §17.4) and ln(1 + 1/baseline) for the log link (Nakagawa &
- * Schielzeth 2010, Biol Rev 85:935, from memory); the link-scale total T = v₁/((1 − icc)(1 − ρ))
- * replaces sd² above. Binary: y ~ Bernoulli(expit(logit(baseline) + effect·treat + …)). Count:
+ * Schielzeth 2010, Biol Rev 85:935, from memory); the link-scale total
+ * T = v₁/((1 − icc − blockIcc)(1 − ρ)) replaces sd² above. Binary: y ~ Bernoulli(expit(logit(baseline) + effect·treat + …)). Count:
  * y ~ Poisson(λ·G), λ = exp(ln(baseline) + effect·treat + …) and G ~ Gamma(k, 1/k) when
  * `overdispersion` k is given (negative binomial, Var = λ + λ²/k), else G = 1. `baseline` is the
  * first arm's probability or mean for a cluster and unit with zero random effects.
@@ -67,9 +67,8 @@
  * Order of draws from the replicate's stream (fixed by the specification, so data are
  * reproducible): the blocks' intercepts in block order (with blocks); the clusters' intercepts
  * (or gamma multipliers) in cluster order; the clusters' slopes in cluster order (when
- * clusterSlopeSd > 0); then per unit in unit order its
- * intercept and its slope (each only when its SD is above 0) and its covariate x (when the
- * scenario uses one); then per row in row order the residual (for outliers: the uniform, then
+ * clusterSlopeSd > 0); then per unit in unit order its intercept and its slope (each only when
+ * its SD is above 0) and its covariate x (when the scenario uses one); then per row in row order the residual (for outliers: the uniform, then
  * the normal; for counts: the gamma factor, then the Poisson draw).
  */
 import type { AnalysisOptions } from '@/lib/models';
