@@ -17,6 +17,10 @@ describe('offeredAnalyses: only analyses defined for the simulated data', () => 
     ['gaussian with a positive level (still normal: can be ≤ 0)', spec({ arms: 2, unitsPerArm: 30 }, { baseline: 50 }), ['ols', 'ols-hc3', 'huber']],
     ['binary, clusters', spec({ arms: 2, clustersPerArm: 10, clusterSize: 20 }, { family: 'binary', sd: undefined }), ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed', 'glm', 'glmm']],
     ['count, independent units (counts can be 0)', spec({ arms: 2, unitsPerArm: 30 }, { family: 'count', sd: undefined }), ['ols', 'ols-hc3', 'glm', 'glm-nb']],
+    // The treatment varies within units and blocks: a random intercept or clustering on them, never a mean per unit.
+    ['gaussian, AB/BA cross-over', spec({ arms: 2, unitsPerArm: 12, crossover: { periods: 2 } }), ['ols', 'ols-hc3', 'cluster-robust', 'mixed', 'huber', 'period-difference']],
+    ['gaussian, blocks of units', spec({ arms: 2, unitsPerArm: 10, blocks: 6 }), ['ols', 'ols-hc3', 'cluster-robust', 'mixed', 'huber']],
+    ['binary, four-period cross-over', spec({ arms: 2, unitsPerArm: 30, crossover: { periods: 4 } }, { family: 'binary', sd: undefined }), ['ols', 'ols-hc3', 'cluster-robust', 'mixed', 'glm', 'glmm']],
   ] as const)('%s', (_name, s, offered) => {
     expect(offeredAnalyses(s)).toEqual(offered);
   });

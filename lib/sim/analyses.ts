@@ -4,8 +4,9 @@
  * (a log-scale analysis of an outcome that can be 0 or negative fails every fit).
  *
  * - `ols`, `ols-hc3`: every data model.
- * - `cluster-robust`, `cluster-means`, `mixed`: data with clusters or occasions (something to
- *   cluster on, average over or give a random intercept).
+ * - `cluster-robust`, `mixed`: data with clusters, occasions, blocks or a cross-over (something to
+ *   cluster on or give a random intercept).
+ * - `cluster-means`: data with clusters or occasions, outside a cross-over (the mean must hold one arm).
  * - `huber`: gaussian outcomes (an M-estimator of a location; it has nothing to downweight in 0/1
  *   data).
  * - `glm`: binary and count outcomes (logistic or Poisson regression).
@@ -39,9 +40,12 @@ export function analysisApplies(analysis: AnalysisName, spec: SimulationSpecInpu
     case 'ols-hc3':
       return true;
     case 'cluster-robust':
-    case 'cluster-means':
     case 'mixed':
-      return grouped;
+      return intercept;
+    case 'cluster-means':
+      // A mean per cluster or per unit over its occasions carries the contrast only where the
+      // treatment is constant within it: not in a cross-over, nor in blocks of units.
+      return grouped && spec.design.crossover === undefined;
     case 'huber':
       return family === 'gaussian';
     case 'glm':
