@@ -33,6 +33,7 @@
 import { buildDesignMatrix, isTwoArmComparison } from './design-matrix';
 import { notEstimable } from './estimate';
 import { LeastSquares } from './least-squares';
+import { armTotals } from './two-arm';
 import type { Dataset, EffectEstimate, FixedEffects } from './types';
 import { logGamma } from '@/lib/stats/log-gamma';
 
@@ -140,16 +141,9 @@ export function thetaMl(y: Float64Array, mu: Float64Array, n: number): number {
  */
 function twoArm(data: Dataset): GlmNbFit {
   const { y, treat, n } = data;
-  let n1 = 0;
-  let s0 = 0;
-  let s1 = 0;
-  for (let i = 0; i < n; i++) {
-    if (treat[i] === 1) {
-      n1++;
-      s1 += y[i]!;
-    } else s0 += y[i]!;
-  }
-  const n0 = n - n1;
+  const totals = new Float64Array(4);
+  armTotals(y, treat, n, totals);
+  const [n0, n1, s0, s1] = totals as unknown as [number, number, number, number];
   const failed: GlmNbFit = { beta: Float64Array.of(NaN, NaN), se: Float64Array.of(NaN, NaN), theta: NaN, twoLogLik: NaN, target: 1, iterations: 0, converged: false };
   if (s0 === 0 || s1 === 0) return failed;
   const m0 = s0 / n0;

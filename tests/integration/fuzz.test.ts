@@ -32,8 +32,7 @@ import { deliverWaitingMail } from '@/lib/mail/queue';
 import { createSimulation } from '@/lib/data/simulations';
 import { getBoss, stopBoss } from '@/lib/jobs/boss';
 import { simulationRunSchema } from '@/lib/validation/simulation-run';
-import type { SimulationSpecInput } from '@/lib/validation/simulations';
-import { BASE, makeUser, makeWorld, type TestUser } from '../support/fixtures';
+import { BASE, makeUser, makeWorld, SMALL_SPEC, type TestUser } from '../support/fixtures';
 import { sentMail } from '../support/mail';
 
 const BATCHES = Number(process.env.FUZZ_BATCHES ?? 10);
@@ -264,15 +263,6 @@ function mutate(base: unknown, mutations: Mutation[]): unknown {
   }
   return root;
 }
-
-const SMALL_SPEC: SimulationSpecInput = {
-  design: { arms: 2, clustersPerArm: 4, clusterSize: 5 },
-  truth: { effect: 0.8, sd: 1, icc: 0.1 },
-  scenarios: [{ violation: 'none' }, { violation: 'skewed' }],
-  analyses: ['ols', 'cluster-robust', 'mixed'],
-  replicates: 100,
-  seed: 7,
-};
 
 const CALCULATIONS = Object.values(CALCULATION_EXAMPLES).map((e) => e.request);
 

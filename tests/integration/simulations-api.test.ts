@@ -23,19 +23,12 @@ import * as run from '@/app/api/v1/simulations/[simulationId]/route';
 import * as studyRuns from '@/app/api/v1/studies/[studyId]/simulations/route';
 import * as studySpec from '@/app/api/v1/studies/[studyId]/simulations/spec/route';
 import * as design from '@/app/api/v1/studies/[studyId]/design/route';
-import { ctx, makeUser, makeWorld, request, type TestUser } from '../support/fixtures';
+import { ctx, makeUser, makeWorld, request, SMALL_SPEC, type TestUser } from '../support/fixtures';
 
 /** A seed that makes the test worker's engine throw: a chunk that can never be computed. */
 const FAULT_SEED = 666;
 
-const SMALL: SimulationSpecInput = {
-  design: { arms: 2, clustersPerArm: 4, clusterSize: 5 },
-  truth: { effect: 0.8, sd: 1, icc: 0.1 },
-  scenarios: [{ violation: 'none' }, { violation: 'skewed' }],
-  analyses: ['ols', 'cluster-robust', 'mixed'],
-  replicates: 100,
-  seed: 7,
-};
+const SMALL = SMALL_SPEC;
 
 // The real engine on this thread, except for runs with FAULT_SEED (fault injection).
 const engine: Engine<SimulationSpec> = {

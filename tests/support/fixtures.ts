@@ -8,6 +8,7 @@ import { insertRevision, insertStudy, upsertStudyMember } from '@/db/repositorie
 import { insertSession, insertUser } from '@/db/repositories/users';
 import { insertWorkspace, upsertWorkspaceMember } from '@/db/repositories/workspaces';
 import { db } from '@/lib/db';
+import type { SimulationSpecInput } from '@/lib/validation/simulations';
 
 export const BASE = 'http://localhost:3100';
 
@@ -87,3 +88,13 @@ export function request(
 export function ctx<P extends Record<string, string>>(params: P) {
   return { params: Promise.resolve(params) };
 }
+
+/** A stress-test specification small enough to run in a test: 2 × 4 clusters of 5, two scenarios, 100 replicates. */
+export const SMALL_SPEC: SimulationSpecInput = {
+  design: { arms: 2, clustersPerArm: 4, clusterSize: 5 },
+  truth: { effect: 0.8, sd: 1, icc: 0.1 },
+  scenarios: [{ violation: 'none' }, { violation: 'skewed' }],
+  analyses: ['ols', 'cluster-robust', 'mixed'],
+  replicates: 100,
+  seed: 7,
+};
