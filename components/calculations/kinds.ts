@@ -3,7 +3,7 @@
  * and help, and the words for the quantities it can solve for. The API's names stay the field
  * names; the words here are what people read.
  */
-import type { CalculationKind } from '@/lib/validation/calculations';
+import type { CalculationKind } from '@/lib/stats/calculations/request';
 
 export interface FieldSpec {
   name: string;

@@ -12,7 +12,7 @@ import { calculate } from '@/lib/stats/calculations';
 import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import { clustersGrid } from '@/lib/stats/calculations/sensitivity';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
-import { calculationSchema, clusterMeansSchema, type CalculationRequest } from '@/lib/validation/calculations';
+import { calculationSchema, clusterMeansSchema, type CalculationRequest } from '@/lib/stats/calculations/request';
 
 type ClusterRequest = Extract<CalculationRequest, { kind: 'cluster-means' }>;
 

@@ -5,7 +5,7 @@
  */
 import { fieldsShown, kindInfo, type FieldSpec } from '@/components/calculations/kinds';
 import type { PlanDraft } from '@/lib/plan/from-design';
-import { calculationSchema, type CalculationKind, type CalculationRequest } from '@/lib/validation/calculations';
+import { calculationSchema, type CalculationKind, type CalculationRequest } from '@/lib/stats/calculations/request';
 import type { InputValues } from './plan-inputs';
 
 /** Schema defaults, so that every shown field starts with the value the calculation would use. */

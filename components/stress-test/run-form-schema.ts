@@ -6,7 +6,7 @@
  */
 import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
-import type { Scenario, SimulationSpec, SimulationSpecInput, Violation } from '@/lib/validation/simulations';
+import type { Scenario, SimulationSpec, SimulationSpecInput, Violation } from '@/lib/sim/spec';
 import { VIOLATIONS } from './words';
 
 export const MIN_REPLICATES = 100;

@@ -3,7 +3,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm, useWatch } from 'react-hook-form';
 import type { AnalysisName } from '@/lib/models/types';
-import type { SimulationSpec, SimulationSpecInput, Violation } from '@/lib/validation/simulations';
+import type { SimulationSpec, SimulationSpecInput, Violation } from '@/lib/sim/spec';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { formDefaults, MAX_TAB_REPLICATES, MIN_REPLICATES, runFormSchema, scenarioFromForm, toSpec, type RunFormValues } from './run-form-schema';

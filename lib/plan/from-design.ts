@@ -53,7 +53,7 @@ import { designFacts, iccOf, sizeCv, smallestArm, type DesignFacts, type LevelIn
 import { cap, dec, noun, num } from '@/lib/rules/text';
 import { outcomeName } from '@/lib/rules/phrases';
 import type { Recommendation } from '@/lib/rules/types';
-import { calculationSchema, type CalculationKind, type CalculationRequest } from '@/lib/validation/calculations';
+import { calculationSchema, type CalculationKind, type CalculationRequest } from '@/lib/stats/calculations/request';
 
 export type DesignStepSlug = (typeof DESIGN_STEPS)[number]['slug'];
 

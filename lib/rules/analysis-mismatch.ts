@@ -22,7 +22,7 @@
  * not repeated here.
  */
 import type { Analysis, Design } from '@/lib/design/schema';
-import { BATES_2015, DIGGLE_2002, DONNER_KLAR_2000, GELMAN_HILL_2007, HOLM_1979, MCCULLAGH_NELDER_1989, SENN_2002 } from './citations';
+import { BATES_2015, DIGGLE_2002, DONNER_KLAR_2000, GELMAN_HILL_2007, HOLM_1979, MCCULLAGH_NELDER_1989, SENN_2002 } from '@/lib/citations';
 import { accountsFor, designFacts, iccOf } from '@/lib/design/facts';
 import { familyFor, modelPlan } from './model';
 import { methodName, outcomeName, plannedMethod, treatmentName } from './phrases';

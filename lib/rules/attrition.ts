@@ -14,7 +14,7 @@
  *   stronger missing completely at random (Diggle et al. 2002; Liang & Zeger 1986).
  * - recruitment for the same analysable number, N/(1 − a) (SPIRIT 2013 item 14 asks for it).
  */
-import { DIGGLE_2002, LIANG_ZEGER_1986, SPIRIT_2013 } from './citations';
+import { DIGGLE_2002, LIANG_ZEGER_1986, SPIRIT_2013 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { count, noun, num, numbers, pct } from './text';
 import type { Rule } from './types';

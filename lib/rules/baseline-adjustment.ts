@@ -10,7 +10,7 @@
  * chance baseline imbalance (Vickers & Altman 2001). Without ρ, shown at ρ = 0.3 and 0.7 for
  * illustration, said to be so.
  */
-import { FRISON_POCOCK_1992, VICKERS_ALTMAN_2001 } from './citations';
+import { FRISON_POCOCK_1992, VICKERS_ALTMAN_2001 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { modelPlan, randomLevels } from './model';
 import { outcomeName, plannedMethod, sourcePhrase } from './phrases';

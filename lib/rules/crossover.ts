@@ -10,7 +10,7 @@
  *   is a washout (or a run-in discarded from the analysis), not a test (Senn 2002).
  * - `period` (advice): include period as a fixed effect and balance the sequences (Senn 2002).
  */
-import { SENN_2002 } from './citations';
+import { SENN_2002 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { treatmentName } from './phrases';

@@ -20,7 +20,7 @@
  * Quantified: units per arm, the degrees of freedom between units (units − arms) against the
  * residual df of an analysis of every observation (N − arms).
  */
-import { BELL_MCCAFFREY_2002, DONNER_KLAR_2000, HAYES_MOULTON_2017, KENWARD_ROGER_1997, PUSTEJOVSKY_TIPTON_2018, RAUDENBUSH_1997, SATTERTHWAITE_1946 } from './citations';
+import { BELL_MCCAFFREY_2002, DONNER_KLAR_2000, HAYES_MOULTON_2017, KENWARD_ROGER_1997, PUSTEJOVSKY_TIPTON_2018, RAUDENBUSH_1997, SATTERTHWAITE_1946 } from '@/lib/citations';
 import { designFacts, unitsPerArm } from '@/lib/design/facts';
 import { FEW_CLUSTERS } from './clustering';
 import { assignedVerb, treatmentName, unitsWithArms } from './phrases';

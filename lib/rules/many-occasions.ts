@@ -10,7 +10,7 @@
  * - `time-trend` (advice): the trajectory is of interest and time is modelled as a straight line
  *   (or not at all): splines or polynomial terms, and a random slope for time (Diggle et al. 2002).
  */
-import { DIGGLE_2002 } from './citations';
+import { DIGGLE_2002 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { cap, dec, noun, num, numbers } from './text';

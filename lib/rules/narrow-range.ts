@@ -8,7 +8,7 @@
  * (Var(b) = σ²/Σ(x − x̄)², so the SE scales with 1/spread: target width / observed width).
  * A fitted line holds only where there are data (Gelman & Hill 2007, outside PRODUCT.md's list).
  */
-import { GELMAN_HILL_2007 } from './citations';
+import { GELMAN_HILL_2007 } from '@/lib/citations';
 import { dec, numbers, pct } from './text';
 import type { Finding, Rule } from './types';
 

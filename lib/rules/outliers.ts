@@ -8,7 +8,7 @@
  * The remedy: pre-specify checks and what counts as an error, keep genuine extreme values, and
  * run Huber's M-estimation (robust regression, Huber 1964) as a sensitivity analysis.
  */
-import { HUBER_1964 } from './citations';
+import { HUBER_1964 } from '@/lib/citations';
 import { outcomeName } from './phrases';
 import type { Rule } from './types';
 

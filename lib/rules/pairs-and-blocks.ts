@@ -10,7 +10,7 @@
  *   not accounted for: warning; members are correlated, so the analysis is paired or has a random
  *   intercept for the pair (Bates et al. 2015).
  */
-import { BATES_2015, DONNER_KLAR_2000, HAYES_MOULTON_2017 } from './citations';
+import { BATES_2015, DONNER_KLAR_2000, HAYES_MOULTON_2017 } from '@/lib/citations';
 import { accountsFor, designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { cap, count, noun, num } from './text';

@@ -13,7 +13,7 @@
  * ICC, over a plausible range 0.2–0.8 (common practice), said to be a range.
  */
 import { designEffect } from '@/lib/stats/design-effect';
-import { HURLBERT_1984, KISH_1965, LAZIC_2010 } from './citations';
+import { HURLBERT_1984, KISH_1965, LAZIC_2010 } from '@/lib/citations';
 import { accountsFor, designFacts, iccOf, sizeCv } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { range } from './phrases';

@@ -10,7 +10,7 @@
  * Silent while the assignment level is missing. Source: Hurlbert 1984 (the experimental unit is
  * the unit to which a treatment is independently applied); Lazic 2010.
  */
-import { HURLBERT_1984, LAZIC_2010 } from './citations';
+import { HURLBERT_1984, LAZIC_2010 } from '@/lib/citations';
 import { accountsFor, designFacts, unitsPerArm } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { assignedVerb, treatmentName, unitsWithArms } from './phrases';

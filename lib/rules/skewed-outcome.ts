@@ -10,7 +10,7 @@
  * a gamma GLMM can be fitted with lme4, Bates et al. 2015). The stress test shows how the
  * planned analysis behaves under skew (reading it: Morris, White & Crowther 2019).
  */
-import { BATES_2015, MCCULLAGH_NELDER_1989, MORRIS_2019 } from './citations';
+import { BATES_2015, MCCULLAGH_NELDER_1989, MORRIS_2019 } from '@/lib/citations';
 import { modelPlan } from './model';
 import { outcomeName, plannedMethod } from './phrases';
 import { ASK_STATISTICIAN, cap } from './text';

@@ -11,7 +11,7 @@
  *   model spatial correlation (Diggle et al. 2002 for correlation structures; Hurlbert 1984 on
  *   segregated layouts).
  */
-import { DIGGLE_2002, HURLBERT_1984 } from './citations';
+import { DIGGLE_2002, HURLBERT_1984 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { cap, count, dec, noun, num, numbers } from './text';

@@ -12,7 +12,7 @@
  * plausible range. Eldridge et al. note the formula is conservative when the analysis weights
  * clusters efficiently.
  */
-import { ELDRIDGE_2006, KISH_1965 } from './citations';
+import { ELDRIDGE_2006, KISH_1965 } from '@/lib/citations';
 import { designFacts, givenIccs, iccOf, sizeCv } from '@/lib/design/facts';
 import { clusteringEffect, plausibleIccRange } from './clustering';
 import { cap, dec, noun, num, numbers, pct } from './text';

@@ -12,7 +12,7 @@
  * Tipton 2018), or a separate residual variance per arm in the mixed model.
  * Quantified: the allocation ratio, largest share over smallest.
  */
-import { MACKINNON_WHITE_1985, PUSTEJOVSKY_TIPTON_2018 } from './citations';
+import { MACKINNON_WHITE_1985, PUSTEJOVSKY_TIPTON_2018 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { randomLevels } from './model';
 import { plannedMethod } from './phrases';

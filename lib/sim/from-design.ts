@@ -42,7 +42,7 @@
 import { designFacts, iccOf, sizeCv, unitsByArm, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
 import type { Design } from '@/lib/design/schema';
 import type { AnalysisName } from '@/lib/models/types';
-import type { SimulationSpecInput } from '@/lib/validation/simulations';
+import type { SimulationSpecInput } from './spec';
 import { offeredAnalyses } from './analyses';
 
 export type SpecFromDesign =

@@ -6,10 +6,10 @@
  *                                                 else from the design of the revision (the newest
  *                                                 when left out), with replicates and seed overriding
  *                                                 the design's defaults
- * The specification itself is `simulationSpecSchema` (lib/validation/simulations.ts).
+ * The specification itself is `simulationSpecSchema` (lib/sim/spec.ts).
  */
 import { z } from 'zod';
-import { MAX_REPLICATES, simulationSpecSchema } from './simulations';
+import { MAX_REPLICATES, simulationSpecSchema } from '@/lib/sim/spec';
 
 export const simulationRunSchema = z
   .object({

@@ -14,9 +14,9 @@
  * Valid range: the schema's (k ≥ 2, m ≥ 1, 0 ≤ ICC ≤ 1, 0 ≤ cv ≤ 3). Accuracy: that of the
  * noncentral t; tested against R's pt with ncp to 1e-6 relative. Bad input: CalculationInputError.
  */
-import { COHEN_1988, DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/rules/citations';
+import { COHEN_1988, DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha } from './adjust';
 import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
 import { clusterRecruitment, effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';

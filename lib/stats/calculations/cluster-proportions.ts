@@ -29,9 +29,9 @@
  *
  * Bad input: CalculationInputError.
  */
-import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003, KISH_1965 } from '@/lib/rules/citations';
+import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003, KISH_1965 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha, formatNumber } from './adjust';
 import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
 import { inputError } from './errors';

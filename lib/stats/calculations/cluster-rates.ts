@@ -29,8 +29,8 @@
  * t test (fixtures/generate_rates_proportions.R) within a few points of power. Bad input:
  * CalculationInputError.
  */
-import { HAYES_BENNETT_1999, HAYES_MOULTON_2017, ZHU_LAKKIS_2014 } from '@/lib/rules/citations';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { HAYES_BENNETT_1999, HAYES_MOULTON_2017, ZHU_LAKKIS_2014 } from '@/lib/citations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha, formatNumber } from './adjust';
 import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
 import { inputError } from './errors';

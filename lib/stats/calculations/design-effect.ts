@@ -4,9 +4,9 @@
  * false-positive rate 2·(1 − Φ(z₁₋α/2/√DE)) of a test at level α that ignores the clustering.
  * A thin layer over lib/stats/design-effect.ts; it solves nothing.
  */
-import { DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/rules/citations';
+import { DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/citations';
 import { designEffect as de, effectiveSampleSize, naiveTypeIError } from '@/lib/stats/design-effect';
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import type { CalculationRequest } from './request';
 import { formatNumber } from './adjust';
 import { fullReferences } from './output';
 import type { CalculationOutput } from './types';

@@ -11,8 +11,8 @@
  * Valid range: the schema's; the times must not all be equal. Σ(tⱼ − t̄)² is computed about the
  * mean (two passes), not from raw sums. Accuracy and bad input: as summary-measure.ts.
  */
-import { DIGGLE_2002 } from '@/lib/rules/citations';
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import { DIGGLE_2002 } from '@/lib/citations';
+import type { CalculationRequest } from './request';
 import { dropoutWarning, formatNumber } from './adjust';
 import { inputError } from './errors';
 import { fullReferences, TWO_SIDED } from './output';

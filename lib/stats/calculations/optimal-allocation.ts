@@ -15,9 +15,9 @@
  *
  * Valid range: 0 < ICC < 1, positive costs, m* up to 1,000,000. Bad input: CalculationInputError.
  */
-import { COHEN_1988, DONNER_KLAR_2000, RAUDENBUSH_1997 } from '@/lib/rules/citations';
+import { COHEN_1988, DONNER_KLAR_2000, RAUDENBUSH_1997 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import type { CalculationRequest } from './request';
 import { adjustAlpha, formatNumber } from './adjust';
 import { clusterMeansPower, solveClustersPerArm } from './cluster-means';
 import { inputError } from './errors';

@@ -12,8 +12,8 @@
  * u ≤ k. Accuracy: that of the noncentral F and the F quantile; tested against R's pf and
  * pwr.f2.test to 1e-6 relative. Bad input: CalculationInputError.
  */
-import { COHEN_1988 } from '@/lib/rules/citations';
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import { COHEN_1988 } from '@/lib/citations';
+import type { CalculationRequest } from './request';
 import { adjustAlpha, dropoutWarning, formatNumber, toRecruit } from './adjust';
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, testSettings } from './output';

@@ -16,8 +16,8 @@
  * arithmetic on the normal quantiles (1e-14) and the noncentral t (1e-10 absolute); tested
  * against R's pnorm/pt. Bad input: CalculationInputError.
  */
-import { FRISON_POCOCK_1992, VICKERS_ALTMAN_2001 } from '@/lib/rules/citations';
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import { FRISON_POCOCK_1992, VICKERS_ALTMAN_2001 } from '@/lib/citations';
+import type { CalculationRequest } from './request';
 import { dropoutWarning, formatNumber } from './adjust';
 import { inputError } from './errors';
 import { fullReferences, TWO_SIDED } from './output';

@@ -14,10 +14,10 @@
  * Valid range: 0 < p1, p2 < 1, the schema's bounds. Accuracy: that of Φ and Φ⁻¹ (1e-14); tested
  * against R's power.prop.test to 1e-6. Bad input: CalculationInputError.
  */
-import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003 } from '@/lib/rules/citations';
+import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
 import { normalSf } from '@/lib/stats/normal';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha, dropoutWarning, formatNumber, roundUp, toRecruit } from './adjust';
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';

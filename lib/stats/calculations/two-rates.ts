@@ -28,9 +28,9 @@
  * points of power when each arm expects a few dozen events or more; with very few events it is
  * rough (a warning says so). Bad input: CalculationInputError.
  */
-import { ZHU_LAKKIS_2014 } from '@/lib/rules/citations';
+import { ZHU_LAKKIS_2014 } from '@/lib/citations';
 import { brentRoot } from '@/lib/stats/root';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha, dropoutWarning, formatNumber, toRecruit } from './adjust';
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';

@@ -15,7 +15,7 @@ import { AppError } from '@/lib/errors';
 import type { SimulationDto } from '@/lib/jobs/dto';
 import { load } from '@/lib/page-guard';
 import { offeredAnalyses } from '@/lib/sim/analyses';
-import type { SimulationSpec } from '@/lib/validation/simulations';
+import type { SimulationSpec } from '@/lib/sim/spec';
 
 export const metadata: Metadata = { title: 'Stress test' };
 

@@ -8,7 +8,7 @@
  * Bounds keep every calculation finite and fast; the messages say what to fix.
  */
 import { z } from 'zod';
-import { rawText } from './common';
+import { rawText } from '@/lib/text-schema';
 
 const num = (label: string) => z.number({ error: `${label} must be a number.` }).finite(`${label} must be finite.`);
 const positive = (label: string, max = 1e9) => num(label).gt(0, `${label} must be above 0.`).max(max, `${label} can be at most ${max.toLocaleString('en-GB')}.`);

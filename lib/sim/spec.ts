@@ -20,7 +20,7 @@ import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
 import { clusterSizes } from '@/lib/sim/cluster-sizes';
 import { sigmaForIcc } from '@/lib/sim/logit-normal';
-import { rawText } from './common';
+import { rawText } from '@/lib/text-schema';
 
 export const MAX_REPLICATES = 100_000;
 export const MAX_ROWS = 50_000;
