@@ -128,7 +128,7 @@ export function regression(request: RegressionRequest): CalculationOutput {
       totalToRecruit: nRecruit,
     },
     feasibility,
-    method: `Exact power of the F test of ${u} of ${k} predictor(s) (noncentral F, df = (${u}, n − ${k + 1}), noncentrality f² × n as in Cohen 1988).`,
+    method: `Exact power of the F test of ${u} of ${k} predictor(s) (noncentral F, df = (${u}, n − ${k + 1}), noncentrality f² × n as in ${COHEN_1988.short}).`,
     formula:
       'Power is the chance that an F statistic with (tested predictors, n − predictors − 1) degrees of freedom and noncentrality f² × n exceeds ' +
       `the critical value of the F distribution at alpha${form === 'slope' ? `; f² = slope² × sdX² / residualSd² (here ${formatNumber(slopeScale ** 2)} × slope²)` : ''}.`,

@@ -115,7 +115,7 @@ export function twoProportions(request: TwoProportionsRequest): CalculationOutpu
       }
     : { icc: null, clusterSize: null, designEffect: 1 };
   warnings.push(...dropoutWarning(dropout, 'units'));
-  if (clustered && cv > 0) warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (Eldridge et al. 2006).`);
+  if (clustered && cv > 0) warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (${ELDRIDGE_2006.short}).`);
   return {
     kind: 'two-proportions',
     solvedFor,
@@ -135,7 +135,7 @@ export function twoProportions(request: TwoProportionsRequest): CalculationOutpu
     },
     feasibility,
     method:
-      `Normal approximation for two independent proportions (Fleiss, Levin & Paik 2003), ${TWO_SIDED(sides)}` +
+      `Normal approximation for two independent proportions (${FLEISS_2003.short}), ${TWO_SIDED(sides)}` +
       `${continuityCorrection ? ', with continuity correction' : ', without continuity correction'}` +
       `${clustered ? `, multiplied by the design effect ${formatNumber(de)}` : ''}.`,
     formula:

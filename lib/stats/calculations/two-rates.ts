@@ -182,7 +182,7 @@ export function twoRates(request: TwoRatesRequest): CalculationOutput {
       totalToRecruit: n0Recruit + n1Recruit,
     },
     feasibility,
-    method: `Wald test on the log rate ratio, ${TWO_SIDED(sides)}, for ${model}, with the variance at the expected rates (Zhu & Lakkis 2014).`,
+    method: `Wald test on the log rate ratio, ${TWO_SIDED(sides)}, for ${model}, with the variance at the expected rates (${ZHU_LAKKIS_2014.short}).`,
     formula:
       'Power = Φ(|log RR| / SE − z for alpha), SE² = (1/(λ0 × t) + κ)/n1 + (1/(λ1 × t) + κ)/n2, where λ0 is the baseline rate, λ1 = RR × λ0, ' +
       't the follow-up time per participant, κ the negative binomial dispersion (0 for Poisson counts) and n1, n2 the participants per group.',
