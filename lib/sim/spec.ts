@@ -4,10 +4,13 @@
  * and the number of replicates, seed and alpha.
  *
  * Bounds keep a job finite: at most 100,000 replicates, 50,000 rows per data set, 20 scenarios,
- * and replicates × scenarios × rows ≤ 500 million generated observations per hypothesis. Scenario
- * parameters have defaults (heavy-tailed ν = 3; outliers fraction 0.05, scale 5; unequal variance
- * by arm with sdRatio 2; nonlinear quadratic of strength 1; serial AR(1) 0.5; skewed: standardised
- * log-normal with σ_log 0.8; carry-over half the effect). Messages say what to fix.
+ * and replicates × scenarios × rows ≤ 500 million generated observations per hypothesis. The
+ * scenarios' number parameters have the ranges and defaults of `SCENARIO_RANGES` (unequal variance
+ * by arm and a quadratic curve by default). Messages say what to fix.
+ *
+ * This is the engine's contract: the request envelope of POST /api/v1/simulations
+ * (lib/validation/simulation-run.ts) wraps it, and the Stress test tab's form takes its bounds and
+ * defaults from the ranges exported here.
  *
  * Design shapes: independent units (`unitsPerArm`) or clusters (`clustersPerArm`,
  * `clusterSize`), optionally measured at `occasions` (repeated measures, or sub-samples such as
@@ -18,8 +21,8 @@
  */
 import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
-import { clusterSizes } from '@/lib/sim/cluster-sizes';
-import { sigmaForIcc } from '@/lib/sim/logit-normal';
+import { clusterSizes } from './cluster-sizes';
+import { sigmaForIcc } from './logit-normal';
 import { rawText } from '@/lib/text-schema';
 
 export const MAX_REPLICATES = 100_000;
