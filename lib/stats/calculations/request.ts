@@ -246,6 +246,13 @@ export type CalculationRequest = z.infer<typeof calculationSchema>;
 export type CalculationKind = CalculationRequest['kind'];
 export const CALCULATION_KINDS = calculationSchema.options.map((o) => o.shape.kind.value) as CalculationKind[];
 
+/** The values a kind's request takes for the inputs left out: its schema's defaults, by name. */
+export function requestDefaults(kind: CalculationKind): Record<string, unknown> {
+  const option = calculationSchema.options.find((o) => o.shape.kind.value === kind);
+  const shape = (option?.shape ?? {}) as Record<string, z.ZodType>;
+  return Object.fromEntries(Object.entries(shape).flatMap(([name, field]) => (field instanceof z.ZodDefault ? [[name, field.def.defaultValue]] : [])));
+}
+
 /**
  * The quantities each kind can solve for: the caller leaves exactly one out (or names it in
  * `solveFor`). The effect of regression is f2 — or slope when sdX and residualSd are given; the
