@@ -10,7 +10,7 @@ import { CALCULATION_EXAMPLES } from '@/lib/api/calculation-examples';
 import { calculate } from '@/lib/stats/calculations';
 import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
-import { calculationSchema, SOLVABLE, type CalculationKind } from '@/lib/validation/calculations';
+import { calculationSchema, SOLVABLE, type CalculationKind } from '@/lib/stats/calculations/request';
 import { formatValue, labelOf } from './format';
 import { fieldsShown, groupFields, kindInfo, modeShown, SOLVE_LABELS, type FieldSpec, type KindInfo } from './kinds';
 import { headlineKeys } from './meaning';

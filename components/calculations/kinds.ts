@@ -3,7 +3,8 @@
  * and help, and the words for the quantities it can solve for. The API's names stay the field
  * names; the words here are what people read.
  */
-import type { CalculationKind } from '@/lib/validation/calculations';
+import { COHEN_1988, DIGGLE_2002, DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003, FRISON_POCOCK_1992, HAYES_BENNETT_1999, KISH_1965, narrative, RAUDENBUSH_1997, ZHU_LAKKIS_2014 } from '@/lib/citations';
+import type { CalculationKind } from '@/lib/stats/calculations/request';
 
 export interface FieldSpec {
   name: string;
@@ -49,7 +50,7 @@ const f = {
   nPerGroup: (help = 'Units analysed in each group.'): FieldSpec => ({ name: 'nPerGroup', label: 'Sample size per group', help, input: 'whole' }),
   sides: { name: 'sides', label: 'Test', help: 'Two-sided unless a difference in the other direction would truly not matter.', input: 'select', options: SIDES } satisfies FieldSpec,
   icc: (help = 'Intracluster correlation: the share of the outcome’s variance that lies between clusters.'): FieldSpec => ({ name: 'icc', label: 'Intracluster correlation (ICC)', help, input: 'number' }),
-  cv: { name: 'cv', label: 'Variation in cluster size (CV)', help: 'Coefficient of variation of cluster sizes: 0 when every cluster is the same size (Eldridge, Ashby & Kerry 2006).', input: 'number' } satisfies FieldSpec,
+  cv: { name: 'cv', label: 'Variation in cluster size (CV)', help: `Coefficient of variation of cluster sizes: 0 when every cluster is the same size (${ELDRIDGE_2006.short}).`, input: 'number' } satisfies FieldSpec,
   rho: { name: 'rho', label: 'Correlation between occasions', help: 'Correlation of two measurements of the same unit (compound symmetry).', input: 'number' } satisfies FieldSpec,
 };
 
@@ -172,7 +173,7 @@ export const KINDS: readonly KindInfo[] = [
       ],
     },
     fields: [
-      { name: 'f2', label: 'Effect size f²', help: 'Cohen’s f² = R² explained by the tested predictors / (1 − R²); 0.02 small, 0.15 medium, 0.35 large (Cohen 1988).', input: 'number', modes: ['f2'] },
+      { name: 'f2', label: 'Effect size f²', help: `Cohen’s f² = R² explained by the tested predictors / (1 − R²); 0.02 small, 0.15 medium, 0.35 large (${COHEN_1988.short}).`, input: 'number', modes: ['f2'] },
       { name: 'slope', label: 'Slope', help: 'Change in the outcome per unit of the tested predictor.', input: 'number', modes: ['slope'], hiddenWhenSolving: 'f2' },
       { name: 'sdX', label: 'Standard deviation of the predictor', help: 'Spread of the tested predictor in the sample.', input: 'number', modes: ['slope'] },
       { name: 'residualSd', label: 'Residual standard deviation', help: 'Spread of the outcome around the fitted line.', input: 'number', modes: ['slope'] },
@@ -203,7 +204,7 @@ export const KINDS: readonly KindInfo[] = [
   {
     kind: 'repeated-measures',
     title: 'Baseline and follow-up measures',
-    when: 'Two groups measured before and after, possibly several times each; choose between analysing the follow-up only, the change, or ANCOVA (Frison & Pocock 1992).',
+    when: `Two groups measured before and after, possibly several times each; choose between analysing the follow-up only, the change, or ANCOVA (${FRISON_POCOCK_1992.short}).`,
     fields: [
       f.delta(),
       f.sd('Standard deviation of a single measurement.'),
@@ -230,7 +231,7 @@ export const KINDS: readonly KindInfo[] = [
   {
     kind: 'longitudinal-slopes',
     title: 'Rates of change',
-    when: 'Each unit is measured on several occasions and the question is whether the outcome changes faster in one group than the other (Diggle et al. 2002).',
+    when: `Each unit is measured on several occasions and the question is whether the outcome changes faster in one group than the other (${DIGGLE_2002.short}).`,
     fields: [
       { name: 'slopeDifference', label: 'Difference in slopes', help: 'Difference between the groups in change per unit of time, in outcome units.', input: 'number' },
       f.sd('Standard deviation of a single measurement.'),
@@ -245,12 +246,12 @@ export const KINDS: readonly KindInfo[] = [
   {
     kind: 'two-proportions',
     title: 'Two proportions',
-    when: 'A yes-or-no outcome compared between two groups; give an ICC and cluster size when units share clusters (Fleiss, Levin & Paik 2003).',
+    when: `A yes-or-no outcome compared between two groups; give an ICC and cluster size when units share clusters (${FLEISS_2003.short}).`,
     mode: PROPORTION_MODE,
     fields: [
       ...proportionFields('Proportions and the effect'),
       { ...f.nPerGroup(), group: 'Sample size' },
-      { name: 'continuityCorrection', label: 'Continuity correction', help: 'Adds the correction of Fleiss, Levin & Paik (2003); more conservative.', input: 'checkbox', group: TEST_GROUP },
+      { name: 'continuityCorrection', label: 'Continuity correction', help: `Adds the correction of ${narrative(FLEISS_2003)}; more conservative.`, input: 'checkbox', group: TEST_GROUP },
       { ...f.icc('Leave empty when units are independent.'), group: 'Clusters (optional)' },
       { name: 'clusterSize', label: 'Units per cluster', help: 'Leave empty when units are independent.', input: 'whole', group: 'Clusters (optional)' },
       { ...f.cv, group: 'Clusters (optional)' },
@@ -262,7 +263,7 @@ export const KINDS: readonly KindInfo[] = [
   {
     kind: 'cluster-proportions',
     title: 'Cluster-randomised proportions',
-    when: 'Whole clusters — classrooms, clinics, villages — are randomised to two arms and a yes-or-no outcome is recorded for each member (Donner & Klar 2000).',
+    when: `Whole clusters — classrooms, clinics, villages — are randomised to two arms and a yes-or-no outcome is recorded for each member (${DONNER_KLAR_2000.short}).`,
     mode: PROPORTION_MODE,
     fields: [
       ...proportionFields('Proportions and the effect'),
@@ -282,7 +283,7 @@ export const KINDS: readonly KindInfo[] = [
   {
     kind: 'two-rates',
     title: 'Two event rates',
-    when: 'Counts of events — infections, falls, awakenings — compared between two groups of participants randomised one by one, each followed for a time (Zhu & Lakkis 2014).',
+    when: `Counts of events — infections, falls, awakenings — compared between two groups of participants randomised one by one, each followed for a time (${ZHU_LAKKIS_2014.short}).`,
     fields: [
       ...rateFields('Rates and the effect'),
       { ...FOLLOW_UP, group: 'Follow-up and variation between participants' },
@@ -305,7 +306,7 @@ export const KINDS: readonly KindInfo[] = [
   {
     kind: 'cluster-rates',
     title: 'Cluster-randomised event rates',
-    when: 'Whole clusters — villages, wards, classrooms — are randomised to two arms and events are counted over the follow-up of their members (Hayes & Bennett 1999).',
+    when: `Whole clusters — villages, wards, classrooms — are randomised to two arms and events are counted over the follow-up of their members (${HAYES_BENNETT_1999.short}).`,
     fields: [
       ...rateFields('Rates and the effect'),
       { name: 'clusterSize', label: 'Participants per cluster', help: 'Average number of participants followed in each cluster.', input: 'whole', group: 'Clusters and follow-up' },
@@ -334,7 +335,7 @@ export const KINDS: readonly KindInfo[] = [
   {
     kind: 'design-effect',
     title: 'Design effect',
-    when: 'To see what clustering costs: how many independent units a clustered sample is worth, and how often a test that ignores the clusters gives a false positive (Kish 1965).',
+    when: `To see what clustering costs: how many independent units a clustered sample is worth, and how often a test that ignores the clusters gives a false positive (${KISH_1965.short}).`,
     fields: [
       f.icc(),
       { name: 'clusterSize', label: 'Units per cluster', help: 'Average number of units in a cluster.', input: 'number' },
@@ -346,7 +347,7 @@ export const KINDS: readonly KindInfo[] = [
   {
     kind: 'optimal-allocation',
     title: 'Cluster size under a budget',
-    when: 'Deciding how many units to take per cluster when recruiting a cluster costs more than measuring one more unit (Raudenbush 1997).',
+    when: `Deciding how many units to take per cluster when recruiting a cluster costs more than measuring one more unit (${RAUDENBUSH_1997.short}).`,
     mode: {
       legend: 'Work out',
       options: [

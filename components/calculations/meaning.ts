@@ -4,7 +4,7 @@
  * rather than a guessed number.
  */
 import type { CalculationOutput, ResultValue } from '@/lib/stats/calculations/types';
-import { calculationSchema, type CalculationKind } from '@/lib/validation/calculations';
+import { calculationSchema, type CalculationKind } from '@/lib/stats/calculations/request';
 import { formatNumber, formatPercent, formatValue } from './format';
 
 const SCHEMA_KEYS = Object.fromEntries(calculationSchema.options.map((o) => [o.shape.kind.value, Object.keys(o.shape).filter((k) => k !== 'kind' && k !== 'solveFor')])) as Record<

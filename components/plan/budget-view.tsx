@@ -2,6 +2,7 @@
 
 import { useMemo, useState } from 'react';
 import { CartesianGrid, Label, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
+import { RAUDENBUSH_1997 } from '@/lib/citations';
 import { formatNumber } from '@/components/calculations/format';
 import { ResultPanel } from '@/components/calculations/result-panel';
 import { Alert } from '@/components/ui/alert';
@@ -12,7 +13,7 @@ import { calculate } from '@/lib/stats/calculations';
 import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import { clustersGrid } from '@/lib/stats/calculations/sensitivity';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
-import { calculationSchema, clusterMeansSchema, type CalculationRequest } from '@/lib/validation/calculations';
+import { calculationSchema, clusterMeansSchema, type CalculationRequest } from '@/lib/stats/calculations/request';
 
 type ClusterRequest = Extract<CalculationRequest, { kind: 'cluster-means' }>;
 
@@ -87,7 +88,7 @@ export default function BudgetView({ request, clusterWord, memberWord }: BudgetV
         <p className="mt-1 text-sm text-muted">
           When recruiting a {clusterWord.replace(/s$/, '')} costs more than measuring one more of its {memberWord.split(' ')[0]}, fewer, larger clusters can be cheaper — up to a
           point, because members of one cluster resemble each other (ICC {formatNumber(request.icc)}). Enter the costs to see the cluster size with the most information per unit of cost
-          (Raudenbush 1997).
+          ({RAUDENBUSH_1997.short}).
         </p>
       </div>
       <div className="grid gap-4 sm:grid-cols-3">

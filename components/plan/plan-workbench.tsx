@@ -15,7 +15,7 @@ import { calculate } from '@/lib/stats/calculations';
 import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import { clustersGrid, CURVE_SIZE, powerCurve } from '@/lib/stats/calculations/sensitivity';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
-import { SOLVABLE, type CalculationKind, type CalculationRequest } from '@/lib/validation/calculations';
+import { SOLVABLE, type CalculationKind, type CalculationRequest } from '@/lib/stats/calculations/request';
 import { ClusterHeatmap, type HeatCell } from './cluster-heatmap';
 import { PlanInputs, type InputValues } from './plan-inputs';
 import { savedResultsKey, SavedResults, type SavedResultDto } from './saved-results';

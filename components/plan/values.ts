@@ -5,24 +5,8 @@
  */
 import { fieldsShown, kindInfo, type FieldSpec } from '@/components/calculations/kinds';
 import type { PlanDraft } from '@/lib/plan/from-design';
-import { calculationSchema, type CalculationKind, type CalculationRequest } from '@/lib/validation/calculations';
+import { calculationSchema, requestDefaults, type CalculationKind, type CalculationRequest } from '@/lib/stats/calculations/request';
 import type { InputValues } from './plan-inputs';
-
-/** Schema defaults, so that every shown field starts with the value the calculation would use. */
-const DEFAULTS: Record<string, string | boolean> = {
-  sides: '2',
-  cv: '0',
-  clusterDropout: '0',
-  dropout: '0',
-  outcomes: '1',
-  multiplicity: 'none',
-  ratio: '1',
-  exposure: '1',
-  dispersion: '0',
-  testedPredictors: '1',
-  continuityCorrection: false,
-  alpha: '0.05',
-};
 
 /**
  * Regression is shown with a slope when the design gave one (or its SDs), else with f²; the
@@ -39,11 +23,13 @@ export function visibleFields(kind: CalculationKind, solveFor: string | null, mo
   return info ? fieldsShown(info, solveFor, mode) : [];
 }
 
+/** Each shown field starts with the plan's value, else the value the calculation would use (its schema's default). */
 export function initialValues(kind: CalculationKind, inputs: PlanDraft['inputs']): InputValues {
   const out: InputValues = {};
+  const defaults = requestDefaults(kind);
   for (const f of kindInfo(kind)?.fields ?? []) {
-    const v = inputs[f.name];
-    if (v === undefined) out[f.name] = DEFAULTS[f.name] ?? (f.input === 'checkbox' ? false : '');
+    const v = inputs[f.name] ?? defaults[f.name];
+    if (v === undefined) out[f.name] = f.input === 'checkbox' ? false : '';
     else if (Array.isArray(v)) out[f.name] = v.join(', ');
     else if (typeof v === 'boolean') out[f.name] = v;
     else out[f.name] = String(v);

@@ -1,33 +1,48 @@
 /**
  * The Stress test tab's form: which scenarios (each with its parameters), which analyses, how
  * many replicates and which seed. The form's values become a compact specification
- * (`toSpec`) that the server checks again with `simulationSpecSchema`; bounds here match it, with
- * replicates kept to 100 … 20,000 per scenario so that a run from the tab stays interactive.
+ * (`toSpec`) that the server checks again with `simulationSpecSchema`. The parameters' bounds and
+ * defaults are the engine's (`SCENARIO_RANGES`, `REPLICATES`, `SEED` in lib/sim/spec.ts), in the
+ * form's words; only replicates are narrowed, to 100 … 20,000 per scenario, so that a run from
+ * the tab stays interactive.
  */
 import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
-import type { Scenario, SimulationSpec, SimulationSpecInput, Violation } from '@/lib/validation/simulations';
+import { formatBound, REPLICATES, SCENARIO_RANGES, SEED, type Range, type Scenario, type SimulationSpec, type SimulationSpecInput, type Violation } from '@/lib/sim/spec';
 import { VIOLATIONS } from './words';
 
-export const MIN_REPLICATES = 100;
-export const MAX_TAB_REPLICATES = 20_000;
+/** The tab's replicates: within the engine's range, narrowed so that a run stays interactive. */
+export const MIN_REPLICATES = Math.max(REPLICATES.min, 100);
+export const MAX_TAB_REPLICATES = Math.min(REPLICATES.max, 20_000);
 
-const n = (label: string) => z.number({ error: `Enter ${label} as a number.` }).finite(`Enter ${label} as a number.`);
+/**
+ * A parameter's field: the engine's `range`, shown `times` larger (a fraction as a percentage),
+ * with messages naming `subject` ("The SD ratio") and the `unit` after each bound.
+ */
+export function rangeField(range: Range & { why?: string }, subject: string, { times = 1, unit = '' } = {}) {
+  const bound = (x: number) => `${formatBound(x * times)}${unit}`;
+  const n = z.number({ error: `Enter ${subject.toLowerCase()} as a number.` }).finite(`Enter ${subject.toLowerCase()} as a number.`);
+  const why = range.why ? `, ${range.why}` : '';
+  const low = range.minOpen ? n.gt(range.min * times, `${subject} must be above ${bound(range.min)}${why}.`) : n.min(range.min * times, `${subject} is at least ${bound(range.min)}.`);
+  return low.max(range.max * times, `${subject} can be at most ${bound(range.max)}.`);
+}
+
+const R = SCENARIO_RANGES;
 
 export const runFormSchema = z.object({
   scenarios: z
     .object({
       none: z.object({ on: z.boolean() }),
-      skewed: z.object({ on: z.boolean(), sigmaLog: n('the σ of the log').gt(0, 'The σ of the log must be above 0.').max(2, 'The σ of the log can be at most 2.') }),
-      'heavy-tailed': z.object({ on: z.boolean(), df: n('the degrees of freedom').gt(2, 'Degrees of freedom must be above 2, so that the SD is finite.').max(1000, 'At most 1,000 df.') }),
+      skewed: z.object({ on: z.boolean(), sigmaLog: rangeField(R.skewed.sigmaLog, 'The σ of the log') }),
+      'heavy-tailed': z.object({ on: z.boolean(), df: rangeField(R['heavy-tailed'].df, 'The degrees of freedom') }),
       outliers: z.object({
         on: z.boolean(),
-        percent: n('the share of outliers').gt(0, 'The share must be above 0%.').max(50, 'The share can be at most 50%.'),
-        scale: n('the multiplier').gt(1, 'The multiplier must be above 1.').max(100, 'The multiplier can be at most 100.'),
+        percent: rangeField(R.outliers.fraction, 'The share of outliers', { times: 100, unit: '%' }),
+        scale: rangeField(R.outliers.scale, 'The multiplier'),
       }),
-      'unequal-variance': z.object({ on: z.boolean(), sdRatio: n('the SD ratio').min(0.05, 'The SD ratio is at least 0.05.').max(20, 'The SD ratio can be at most 20.') }),
-      nonlinear: z.object({ on: z.boolean(), strength: n('the rise of the curve').min(-10, 'The rise is at least −10 SD.').max(10, 'The rise can be at most 10 SD.') }),
-      serial: z.object({ on: z.boolean(), ar: n('the AR(1) correlation').min(-0.99, 'ρ is at least −0.99.').max(0.99, 'ρ can be at most 0.99.') }),
+      'unequal-variance': z.object({ on: z.boolean(), sdRatio: rangeField(R['unequal-variance'].sdRatio, 'The SD ratio') }),
+      nonlinear: z.object({ on: z.boolean(), strength: rangeField(R.nonlinear.strength, 'The rise of the curve', { unit: ' SD' }) }),
+      serial: z.object({ on: z.boolean(), ar: rangeField(R.serial.ar, 'The AR(1) correlation ρ') }),
     })
     .refine((s) => VIOLATIONS.some((v) => s[v].on), { message: 'Choose at least one scenario.', path: ['none', 'on'] }),
   analyses: z.array(z.enum(ANALYSIS_NAMES), { error: 'Choose at least one analysis.' }).min(1, 'Choose at least one analysis.'),
@@ -36,7 +51,7 @@ export const runFormSchema = z.object({
     .int('Replicates must be a whole number.')
     .min(MIN_REPLICATES, `At least ${MIN_REPLICATES} replicates.`)
     .max(MAX_TAB_REPLICATES, `At most ${MAX_TAB_REPLICATES.toLocaleString('en-GB')} replicates from this tab.`),
-  seed: z.number({ error: 'Enter the seed as a whole number.' }).int('The seed is a whole number.').min(0, 'The seed is at least 0.').max(Number.MAX_SAFE_INTEGER, 'The seed is too large.'),
+  seed: z.number({ error: 'Enter the seed as a whole number.' }).int('The seed is a whole number.').min(SEED.min, `The seed is at least ${SEED.min}.`).max(SEED.max, 'The seed is too large.'),
 });
 
 export type RunFormValues = z.infer<typeof runFormSchema>;
@@ -53,16 +68,16 @@ export function formDefaults(spec: SimulationSpec): RunFormValues {
   return {
     scenarios: {
       none: { on: Boolean(has('none')) },
-      skewed: { on: Boolean(skewed), sigmaLog: skewed?.violation === 'skewed' ? skewed.sigmaLog : 0.8 },
-      'heavy-tailed': { on: Boolean(heavy), df: heavy?.violation === 'heavy-tailed' ? heavy.df : 3 },
+      skewed: { on: Boolean(skewed), sigmaLog: skewed?.violation === 'skewed' ? skewed.sigmaLog : R.skewed.sigmaLog.default },
+      'heavy-tailed': { on: Boolean(heavy), df: heavy?.violation === 'heavy-tailed' ? heavy.df : R['heavy-tailed'].df.default },
       outliers: {
         on: Boolean(outliers),
-        percent: outliers?.violation === 'outliers' ? outliers.fraction * 100 : 5,
-        scale: outliers?.violation === 'outliers' ? outliers.scale : 5,
+        percent: (outliers?.violation === 'outliers' ? outliers.fraction : R.outliers.fraction.default) * 100,
+        scale: outliers?.violation === 'outliers' ? outliers.scale : R.outliers.scale.default,
       },
-      'unequal-variance': { on: Boolean(unequal), sdRatio: unequal?.violation === 'unequal-variance' ? unequal.sdRatio : 2 },
-      nonlinear: { on: Boolean(nonlinear), strength: nonlinear?.violation === 'nonlinear' ? nonlinear.strength : 1 },
-      serial: { on: Boolean(serial), ar: serial?.violation === 'serial' ? serial.ar : 0.5 },
+      'unequal-variance': { on: Boolean(unequal), sdRatio: unequal?.violation === 'unequal-variance' ? unequal.sdRatio : R['unequal-variance'].sdRatio.default },
+      nonlinear: { on: Boolean(nonlinear), strength: nonlinear?.violation === 'nonlinear' ? nonlinear.strength : R.nonlinear.strength.default },
+      serial: { on: Boolean(serial), ar: serial?.violation === 'serial' ? serial.ar : R.serial.ar.default },
     },
     analyses: [...spec.analyses],
     replicates: Math.min(MAX_TAB_REPLICATES, Math.max(MIN_REPLICATES, spec.replicates)),
@@ -88,7 +103,7 @@ export function scenarioFromForm(v: Violation, s: RunFormValues['scenarios'], ha
     case 'serial':
       return { violation: 'serial', ar: s.serial.ar };
     case 'carry-over':
-      return { violation: 'carry-over', fraction: 0.5 };
+      return { violation: 'carry-over', fraction: R['carry-over'].fraction.default };
   }
 }
 

@@ -3,7 +3,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm, useWatch } from 'react-hook-form';
 import type { AnalysisName } from '@/lib/models/types';
-import type { SimulationSpec, SimulationSpecInput, Violation } from '@/lib/validation/simulations';
+import { formatBound, SCENARIO_RANGES, type SimulationSpec, type SimulationSpecInput, type Violation } from '@/lib/sim/spec';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { formDefaults, MAX_TAB_REPLICATES, MIN_REPLICATES, runFormSchema, scenarioFromForm, toSpec, type RunFormValues } from './run-form-schema';
@@ -56,10 +56,10 @@ export function RunForm({ base, analyses, pending, onRun }: RunFormProps) {
             {values.scenarios?.[v]?.on && v !== 'none' && (
               <div className="mt-2 grid gap-3 pl-6 sm:grid-cols-2">
                 {v === 'skewed' && (
-                  <TextField label="σ of the log (0–2)" type="number" step="0.1" error={errors.scenarios?.skewed?.sigmaLog?.message} {...register('scenarios.skewed.sigmaLog', numberField)} />
+                  <TextField label={`σ of the log (${formatBound(SCENARIO_RANGES.skewed.sigmaLog.min)}–${formatBound(SCENARIO_RANGES.skewed.sigmaLog.max)})`} type="number" step="0.1" error={errors.scenarios?.skewed?.sigmaLog?.message} {...register('scenarios.skewed.sigmaLog', numberField)} />
                 )}
                 {v === 'heavy-tailed' && (
-                  <TextField label="Degrees of freedom of the t (above 2)" type="number" step="1" error={errors.scenarios?.['heavy-tailed']?.df?.message} {...register('scenarios.heavy-tailed.df', numberField)} />
+                  <TextField label={`Degrees of freedom of the t (above ${formatBound(SCENARIO_RANGES['heavy-tailed'].df.min)})`} type="number" step="1" error={errors.scenarios?.['heavy-tailed']?.df?.message} {...register('scenarios.heavy-tailed.df', numberField)} />
                 )}
                 {v === 'outliers' && (
                   <>

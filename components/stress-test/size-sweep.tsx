@@ -5,8 +5,8 @@ import { CartesianGrid, ErrorBar, Label, Legend, Line, LineChart, ResponsiveCont
 import { axisStyle, CHART, chartMargin } from '@/components/plan/chart-style';
 import { apiFetch } from '@/lib/api/client';
 import type { SimulationDto } from '@/lib/jobs/dto';
-import type { SimulationSpec, SimulationSpecInput } from '@/lib/validation/simulations';
-import { scenarioKey } from '@/lib/validation/simulations';
+import type { SimulationSpec, SimulationSpecInput } from '@/lib/sim/spec';
+import { scenarioKey } from '@/lib/sim/spec';
 import { sizeOf, sweepScenario, sweepSpecs, SWEEP_FACTORS } from './sweep';
 import { Button } from '@/components/ui/button';
 import { progressText } from './run-progress';

@@ -8,7 +8,7 @@ import { Alert } from '@/components/ui/alert';
 import { ApiError, apiFetch } from '@/lib/api/client';
 import type { SimulationDto } from '@/lib/jobs/dto';
 import type { AnalysisName } from '@/lib/models/types';
-import { scenarioKey, type SimulationSpec, type SimulationSpecInput } from '@/lib/validation/simulations';
+import { scenarioKey, type SimulationSpec, type SimulationSpecInput } from '@/lib/sim/spec';
 import { PastRuns } from './past-runs';
 import { ResultsTable, type ResultRow } from './results-table';
 import { RunForm } from './run-form';

@@ -3,7 +3,7 @@
  * clusters (or units) per arm, for a power curve by simulation. Plain functions, usable on the
  * server (the page picks the run to show by its size) and in the browser.
  */
-import type { SimulationSpec, SimulationSpecInput } from '@/lib/validation/simulations';
+import type { SimulationSpec, SimulationSpecInput } from '@/lib/sim/spec';
 
 /** Sizes tried besides the run's own: multiples of its clusters (or units) per arm. */
 export const SWEEP_FACTORS = [0.5, 1.5, 2] as const;

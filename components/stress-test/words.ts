@@ -4,7 +4,7 @@
  * ("81.2% ± 1.2%"). Shared by the form, the results table, the charts and their summaries.
  */
 import type { AnalysisName } from '@/lib/models/types';
-import type { Scenario, Violation } from '@/lib/validation/simulations';
+import type { Scenario, Violation } from '@/lib/sim/spec';
 
 export const VIOLATIONS = ['none', 'skewed', 'heavy-tailed', 'outliers', 'unequal-variance', 'nonlinear', 'serial'] as const satisfies readonly Violation[];
 

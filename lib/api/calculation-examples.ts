@@ -6,7 +6,7 @@
  * the calculator pages start from the same values.
  */
 import type { z } from 'zod';
-import type { CalculationKind, calculationSchema } from '@/lib/validation/calculations';
+import type { CalculationKind, calculationSchema } from '@/lib/stats/calculations/request';
 
 export type CalculationInput = z.input<typeof calculationSchema>;
 

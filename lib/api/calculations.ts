@@ -1,6 +1,6 @@
 /**
  * The public calculation endpoint's shape: the request is `calculationSchema`
- * (lib/validation/calculations.ts), the answer is the engine's `CalculationOutput` as it is.
+ * (lib/stats/calculations/request.ts), the answer is the engine's `CalculationOutput` as it is.
  * `runCalculation` is the one place where the engine's cross-field errors (two unknowns left
  * out, a target that contradicts an input) become a 400 with field errors, like a zod failure.
  */
@@ -9,7 +9,7 @@ import { calculate } from '@/lib/stats/calculations';
 import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
 import { AppError } from '@/lib/errors';
-import { CALCULATION_KINDS, type CalculationRequest } from '@/lib/validation/calculations';
+import { CALCULATION_KINDS, type CalculationRequest } from '@/lib/stats/calculations/request';
 
 const resultValueSchema = z.union([z.number(), z.string(), z.boolean(), z.null(), z.array(z.number())]);
 

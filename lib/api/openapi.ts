@@ -17,13 +17,13 @@ import {
 import { checkRunSchema, designSaveSchema, findingNoteSchema } from '@/lib/validation/design';
 import { planResultSaveSchema } from '@/lib/validation/plans';
 import { planResultDtoSchema } from '@/lib/plan/dto';
-import { calculationSchema } from '@/lib/validation/calculations';
+import { calculationSchema } from '@/lib/stats/calculations/request';
 import { checkResultSchema, designStateSchema, findingNoteDtoSchema } from './dto';
 import { calculationResponseSchema, runCalculation } from './calculations';
 import { CALCULATION_EXAMPLES } from './calculation-examples';
 import { activityDtoSchema, errorSchema, invitationDtoSchema, studyMemberDtoSchema, workspaceMemberDtoSchema } from './dto';
 import { simulationRunSchema, simulationSpecQuerySchema } from '@/lib/validation/simulation-run';
-import { simulationSpecSchema } from '@/lib/validation/simulations';
+import { simulationSpecSchema } from '@/lib/sim/spec';
 import { simulationDtoSchema } from '@/lib/jobs/dto';
 import {
   invitationParamsSchema,

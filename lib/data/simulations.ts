@@ -22,7 +22,7 @@ import { enqueueChunks, placeRun, withdrawChunks } from '@/lib/jobs/queue';
 import { enforce, type Limit } from '@/lib/rate-limit';
 import { specFromDesign } from '@/lib/sim/from-design';
 import type { SimulationRunInput } from '@/lib/validation/simulation-run';
-import { simulationSpecSchema, type SimulationSpec } from '@/lib/validation/simulations';
+import { simulationSpecSchema, type SimulationSpec } from '@/lib/sim/spec';
 import { requireActor, requireStudy } from './access';
 import { afterCommit, transaction } from './transaction';
 

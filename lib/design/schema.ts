@@ -9,7 +9,7 @@
  * the error messages say what to fix.
  */
 import { z } from 'zod';
-import { rawText, text } from '@/lib/validation/common';
+import { rawText, text } from '@/lib/text-schema';
 
 const name = (label: string, max = 120) => text(label, 1, max);
 const note = (label: string, max = 2000) => text(label, 0, max);

@@ -3,7 +3,7 @@
  * encoded for storage. Plain data in (the parsed specification and the replicate range), bytes
  * out.
  */
-import type { SimulationSpec } from '@/lib/validation/simulations';
+import type { SimulationSpec } from '@/lib/sim/spec';
 import { computeChunkBytes } from './engine';
 
 export interface ChunkTask {

@@ -5,6 +5,7 @@
  * the shapes in the OpenAPI file; `simulationDto` builds them.
  */
 import { z } from 'zod';
+import { MORRIS_2019 } from '@/lib/citations';
 import { SIMULATION_STATUSES } from '@/db/schema';
 import type { Simulation } from '@/db/repositories/simulations';
 import { METRIC_NAMES } from '@/lib/sim/metrics';
@@ -85,7 +86,7 @@ const iso = z.string().meta({ format: 'date-time' });
 
 const metricSchema = z
   .object({ value: z.number().nullable(), mcse: z.number().nullable() })
-  .meta({ id: 'SimulationMetric', description: 'A performance measure and its Monte Carlo SE (Morris, White & Crowther 2019); null where it cannot be computed.' });
+  .meta({ id: 'SimulationMetric', description: `A performance measure and its Monte Carlo SE (${MORRIS_2019.short}); null where it cannot be computed.` });
 
 export const simulationDtoSchema = z
   .object({

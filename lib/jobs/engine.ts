@@ -10,7 +10,7 @@
  */
 import { aggregate, createWorkspace, runReplicates, type ReplicateBlock, type Workspace } from '@/lib/sim/run';
 import { summarise } from '@/lib/sim/summarise';
-import { simulationSpecSchema, type SimulationSpec } from '@/lib/validation/simulations';
+import { simulationSpecSchema, type SimulationSpec } from '@/lib/sim/spec';
 import type { StoredChunk } from '@/db/repositories/simulations';
 import { decodeResults, encodeResults } from './codec';
 import type { StoredResults } from './dto';

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { simulationSpecSchema, type SimulationSpecInput } from '@/lib/validation/simulations';
+import { simulationSpecSchema, type SimulationSpecInput } from '@/lib/sim/spec';
 import { MAX_CHUNKS_PER_SCENARIO, chooseChunkSize, planChunks, replicatesTotal, rowsPerDataset, secondsPerReplicate } from './plan';
 
 const spec = (over: Partial<SimulationSpecInput> = {}) =>

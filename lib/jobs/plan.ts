@@ -19,7 +19,7 @@
  * random stream, so results do not depend on how the run is cut.
  */
 import type { AnalysisName } from '@/lib/models/types';
-import { rowsPerDataset as datasetRows, type SimulationSpec } from '@/lib/validation/simulations';
+import { rowsPerDataset as datasetRows, type SimulationSpec } from '@/lib/sim/spec';
 
 /** Estimated µs per row per fit, by analysis. */
 const ANALYSIS_COST_US: Record<AnalysisName, number> = {

@@ -7,7 +7,7 @@
  */
 import path from 'node:path';
 import { Piscina } from 'piscina';
-import type { SimulationSpec } from '@/lib/validation/simulations';
+import type { SimulationSpec } from '@/lib/sim/spec';
 import type { ChunkTask } from './chunk-thread';
 import { aggregateChunks, parseSpec } from './engine';
 import type { Engine } from './handler';

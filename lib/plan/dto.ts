@@ -2,7 +2,7 @@
  * The JSON shape of a saved Plan tab result, for the API and its OpenAPI document.
  */
 import { z } from 'zod';
-import { calculationSchema } from '@/lib/validation/calculations';
+import { calculationSchema } from '@/lib/stats/calculations/request';
 
 const resultValue = z.union([z.number(), z.string(), z.boolean(), z.null(), z.array(z.number())]);
 

@@ -47,13 +47,14 @@
  * on the Plan tab). When the effect is missing but the planned size is known, the smallest
  * detectable effect is solved for instead.
  */
+import { COHEN_1988, DIGGLE_2002, DONNER_KLAR_2000, FLEISS_2003, FRISON_POCOCK_1992, HAYES_BENNETT_1999, narrative, SENN_2002, VICKERS_ALTMAN_2001, ZHU_LAKKIS_2014 } from '@/lib/citations';
 import type { Assumptions, Design, Level, Source } from '@/lib/design/schema';
 import { DESIGN_STEPS } from '@/lib/design/schema';
 import { designFacts, iccOf, sizeCv, smallestArm, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
 import { cap, dec, noun, num } from '@/lib/rules/text';
 import { outcomeName } from '@/lib/rules/phrases';
 import type { Recommendation } from '@/lib/rules/types';
-import { calculationSchema, type CalculationKind, type CalculationRequest } from '@/lib/validation/calculations';
+import { calculationSchema, type CalculationKind, type CalculationRequest } from '@/lib/stats/calculations/request';
 
 export type DesignStepSlug = (typeof DESIGN_STEPS)[number]['slug'];
 
@@ -334,7 +335,7 @@ function crossover(b: Builder, d: Design, f: DesignFacts, E: LevelInfo) {
   const periods = f.crossover?.periods ?? 2;
   b.labels.size = `${noun(E.level, true)} per sequence`;
   b.rationale.push(
-    `Each ${noun(E.level)} receives both arms in a two-period cross-over, so ${noun(E.level, true)} are compared with themselves: the size to plan is the number of ${noun(E.level, true)} per sequence (AB or BA), and the test is the two-sample t test of the halved period differences between the sequences (Senn 2002).`,
+    `Each ${noun(E.level)} receives both arms in a two-period cross-over, so ${noun(E.level, true)} are compared with themselves: the size to plan is the number of ${noun(E.level, true)} per sequence (AB or BA), and the test is the two-sample t test of the halved period differences between the sequences (${SENN_2002.short}).`,
   );
   const k = E.obsPerUnit / periods;
   const rhoSource = iccOf(f, E.level.id) ?? f.occasionCorrelation;
@@ -351,7 +352,7 @@ function crossover(b: Builder, d: Design, f: DesignFacts, E: LevelInfo) {
   if (d.occasions.correlationStructure === 'ar1') {
     b.notes.push('The occasions are described as AR(1) (neighbouring observations more alike); the calculation assumes equal correlation between all observations of a unit, which is only an approximation then.');
   }
-  if (f.crossover?.carryoverPossible) b.notes.push('Carry-over is possible: the calculation assumes none; plan a washout (Senn 2002).');
+  if (f.crossover?.carryoverPossible) b.notes.push(`Carry-over is possible: the calculation assumes none; plan a washout (${SENN_2002.short}).`);
   const hasEffect = effect(b, f, 'delta', 'Smallest difference worth detecting');
   const units = E.total;
   const solveFor = chooseUnknown(b, hasEffect, 'nPerGroup', 'delta', Math.floor(units / 2), 2);
@@ -375,7 +376,7 @@ function repeated(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, rec: Reco
 
   if (trajectory && times.length >= 2) {
     b.rationale.push(
-      `The trajectory is of interest: the calculation compares the rates of change of ${outcomeName(d)} between the arms over the ${times.length} occasions (Diggle et al. 2002, compound symmetry).`,
+      `The trajectory is of interest: the calculation compares the rates of change of ${outcomeName(d)} between the arms over the ${times.length} occasions (${DIGGLE_2002.short}, compound symmetry).`,
     );
     const sigma = sd(b, f);
     if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(f.outcome.sd!.source));
@@ -403,10 +404,10 @@ function repeated(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, rec: Reco
   const analysis = nBase > 0 && (planAdjusts || recAdjusts) ? 'ancova' : nBase > 0 ? 'change' : 'post';
   const analysisWords = { ancova: 'ANCOVA (follow-up mean adjusted for the baseline mean)', change: 'the change from baseline', post: 'the mean of the follow-ups' }[analysis];
   b.rationale.push(
-    `${cap(noun(E.level, true))} are assigned to the arms and measured ${nBase > 0 ? `at ${nBase} baseline and ${nFollow} follow-up occasion${nFollow === 1 ? '' : 's'}` : `on ${nFollow} occasions`}; the calculation compares ${analysisWords} between the arms (Frison & Pocock 1992).` +
+    `${cap(noun(E.level, true))} are assigned to the arms and measured ${nBase > 0 ? `at ${nBase} baseline and ${nFollow} follow-up occasion${nFollow === 1 ? '' : 's'}` : `on ${nFollow} occasions`}; the calculation compares ${analysisWords} between the arms (${FRISON_POCOCK_1992.short}).` +
       (analysis === 'ancova' ? (planAdjusts ? ' The analysis plan adjusts for the baseline.' : ' The Checks recommend adjusting for the baseline.') : ''),
   );
-  if (analysis === 'change') b.notes.push('The plan compares changes from baseline; ANCOVA on the baseline is never less efficient (Frison & Pocock 1992; Vickers & Altman 2001).');
+  if (analysis === 'change') b.notes.push(`The plan compares changes from baseline; ANCOVA on the baseline is never less efficient (${FRISON_POCOCK_1992.short}; ${VICKERS_ALTMAN_2001.short}).`);
   const sigma = sd(b, f);
   if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(f.outcome.sd!.source));
   setRho();
@@ -428,7 +429,7 @@ function independent(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary
     b.labels.size = `${noun(E.level, true)} in ${d.assignment.arms[0]!.name}`;
   }
   if (binary) return planForBinaryOutcome(b, d.assumptions, { clustered: false, planned });
-  b.rationale.push(`${cap(noun(E.level, true))} are assigned to the arms and measured once each, independently: the calculation is the two-sample t test (Cohen 1988).`);
+  b.rationale.push(`${cap(noun(E.level, true))} are assigned to the arms and measured once each, independently: the calculation is the two-sample t test (${COHEN_1988.short}).`);
   const above = f.levels.slice(0, E.index).filter((l) => l.groupsObservations);
   if (above.length > 0) {
     const names = above.map((l) => noun(l.level, true)).join(' and ');
@@ -445,7 +446,7 @@ function exposure(b: Builder, d: Design, f: DesignFacts, E: LevelInfo | undefine
   const v = d.outcome.explanatoryVariables.find((x) => x.role === 'exposure' && x.kind === 'continuous') ?? d.outcome.explanatoryVariables.find((x) => x.kind === 'continuous' && x.role !== 'covariate');
   const name = v?.name ?? d.assignment.variableName ?? 'the exposure';
   b.labels.size = E ? `${noun(E.level, true)} in total` : 'units in total';
-  b.rationale.push(`The exposure (${name}) is continuous: the calculation is the F test of its slope in a linear regression (Cohen 1988).`);
+  b.rationale.push(`The exposure (${name}) is continuous: the calculation is the F test of its slope in a linear regression (${COHEN_1988.short}).`);
   const covariates = d.outcome.explanatoryVariables.filter((x) => x.role === 'covariate').length;
   b.set('testedPredictors', 1, 'Predictors tested', design('Outcome step'));
   b.set('predictors', 1 + covariates, 'Predictors in the model', design(`Outcome step: the exposure${covariates ? ` and ${covariates} covariate${covariates === 1 ? '' : 's'}` : ''}`));
@@ -493,8 +494,8 @@ function planForBinaryOutcome(b: Builder, a: Assumptions, read: OutcomeSizing) {
   const sizeInput = read.clustered ? 'clustersPerArm' : 'nPerGroup';
   b.rationale.push(
     read.clustered
-      ? 'The outcome is yes or no and whole clusters are randomised: two proportions at the effective number per arm, clusters × members / design effect, with the ICC on the proportion scale (Donner & Klar 2000); the power of a t test on cluster proportions is shown beside it.'
-      : 'Units are randomised one by one and the outcome is yes or no: two proportions by the normal approximation (Fleiss, Levin & Paik 2003).',
+      ? `The outcome is yes or no and whole clusters are randomised: two proportions at the effective number per arm, clusters × members / design effect, with the ICC on the proportion scale (${DONNER_KLAR_2000.short}); the power of a t test on cluster proportions is shown beside it.`
+      : `Units are randomised one by one and the outcome is yes or no: two proportions by the normal approximation (${FLEISS_2003.short}).`,
   );
   if ('ratio' in b.inputs) {
     delete b.inputs.ratio;
@@ -519,8 +520,8 @@ function planForCountOutcome(b: Builder, a: Assumptions, read: OutcomeSizing) {
   const sizeInput = read.clustered ? 'clustersPerArm' : 'nPerGroup';
   b.rationale.push(
     read.clustered
-      ? 'The outcome is a count of events and whole clusters are randomised: clusters per arm by Hayes & Bennett (1999), from the variation of the rates between clusters and the person-time followed in each.'
-      : 'The outcome is a count of events over each unit’s follow-up: the Wald test on the log rate ratio, for Poisson or negative binomial counts (Zhu & Lakkis 2014).',
+      ? `The outcome is a count of events and whole clusters are randomised: clusters per arm by ${narrative(HAYES_BENNETT_1999)}, from the variation of the rates between clusters and the person-time followed in each.`
+      : `The outcome is a count of events over each unit’s follow-up: the Wald test on the log rate ratio, for Poisson or negative binomial counts (${ZHU_LAKKIS_2014.short}).`,
   );
   const sourced = (input: string, value: Assumptions['baselineRate'], name: string, missing: string) => {
     if (value) b.set(input, value.value, name, fromSource(value.source));

@@ -22,7 +22,7 @@
  * not repeated here.
  */
 import type { Analysis, Design } from '@/lib/design/schema';
-import { BATES_2015, DIGGLE_2002, DONNER_KLAR_2000, GELMAN_HILL_2007, HOLM_1979, MCCULLAGH_NELDER_1989, SENN_2002 } from './citations';
+import { BATES_2015, DIGGLE_2002, DONNER_KLAR_2000, GELMAN_HILL_2007, HOLM_1979, MCCULLAGH_NELDER_1989, SENN_2002 } from '@/lib/citations';
 import { accountsFor, designFacts, iccOf } from '@/lib/design/facts';
 import { familyFor, modelPlan } from './model';
 import { methodName, outcomeName, plannedMethod, treatmentName } from './phrases';
@@ -99,7 +99,7 @@ export const analysisMismatch: Rule = {
         severity: 'blocker',
         title: `The ${fam} family does not fit ${outcomeName(design)}`,
         found: `${cap(plannedMethod(design))} uses the ${fam} family, but ${outcomeName(design)} is ${TYPE_WORDS[type]}${fam === 'gamma' && !positive ? ' and can be zero or negative' : ''}.`,
-        why: `The family states how the outcome varies around its mean — which values it can take and how its variance depends on the mean. With a family that cannot produce the outcome's values, the estimates, standard errors and p-values have no meaning (McCullagh & Nelder 1989).`,
+        why: `The family states how the outcome varies around its mean — which values it can take and how its variance depends on the mean. With a family that cannot produce the outcome's values, the estimates, standard errors and p-values have no meaning (${MCCULLAGH_NELDER_1989.short}).`,
         todo: `Use ${suggestion}: \`${model}\`.`,
         model,
         citations: [MCCULLAGH_NELDER_1989],

@@ -14,7 +14,7 @@
  *   stronger missing completely at random (Diggle et al. 2002; Liang & Zeger 1986).
  * - recruitment for the same analysable number, N/(1 − a) (SPIRIT 2013 item 14 asks for it).
  */
-import { DIGGLE_2002, LIANG_ZEGER_1986, SPIRIT_2013 } from './citations';
+import { DIGGLE_2002, LIANG_ZEGER_1986, SPIRIT_2013 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { count, noun, num, numbers, pct } from './text';
 import type { Rule } from './types';
@@ -49,7 +49,7 @@ export const attrition: Rule = {
     const multi = several && (repeatedLevel || f.followUps.length >= 2);
     const why = multi
       ? `A complete-case analysis drops every ${unit ? noun(unit.level) : 'unit'} with any missing measurement, keeping ${pct(1 - a)} of them; a mixed model uses every measurement taken — about ${pct(used)} of them — and is valid if the loss is missing at random (MAR) given what is in the model. ` +
-        'Complete-case analysis, and GEE without weights, need the stronger assumption that loss is unrelated to anything measured (Diggle et al. 2002; Liang & Zeger 1986). If loss depends on the outcome itself, every analysis is biased, and a sensitivity analysis is needed.'
+        `Complete-case analysis, and GEE without weights, need the stronger assumption that loss is unrelated to anything measured (${DIGGLE_2002.short}; ${LIANG_ZEGER_1986.short}). If loss depends on the outcome itself, every analysis is biased, and a sensitivity analysis is needed.`
       : `Lost ${who} have no outcome, and no analysis recovers it. If the loss is related to the outcome, results from the rest are biased; under missing at random (MAR) given ${f.baselines.length > 0 ? 'the baseline and ' : ''}the other variables in the model, multiple imputation or a likelihood-based model removes that bias.`;
     return [
       {

@@ -10,7 +10,7 @@
  *   is a washout (or a run-in discarded from the analysis), not a test (Senn 2002).
  * - `period` (advice): include period as a fixed effect and balance the sequences (Senn 2002).
  */
-import { SENN_2002 } from './citations';
+import { SENN_2002 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { treatmentName } from './phrases';
@@ -56,7 +56,7 @@ export const crossover: Rule = {
         why:
           `If the effect of the first period's arm lasts into the next, the within-${who} comparison of ${treatmentName(design)} is biased. ` +
           `${c.periods === 2 ? 'In a two-period cross-over, carry-over cannot be separated from the treatment × period interaction or from differences between the sequence groups. ' : ''}` +
-          `A preliminary test for carry-over has little power, and choosing the analysis by its result distorts the false-positive rate (Senn 2002): the protection lies in the design, not in a test.`,
+          `A preliminary test for carry-over has little power, and choosing the analysis by its result distorts the false-positive rate (${SENN_2002.short}): the protection lies in the design, not in a test.`,
         todo:
           `Plan a washout long enough for the effect to wear off and justify its length from what is known about ${treatmentName(design)}; if a gap is not possible, treat the first measurements of each period as a run-in and leave them out of the primary analysis. ` +
           `Do not rely on a test for carry-over to choose the analysis.`,
@@ -74,7 +74,7 @@ export const crossover: Rule = {
       found: `${cap(units)} each receive ${armsText} in ${num(c.periods)} periods.`,
       why:
         `Outcomes can drift between periods whatever the arm — practice with the task, season, fatigue, growing familiarity with the setting. ` +
-        `With the sequences balanced, a period effect does not bias the comparison if period is in the model; left out, it adds to the error variance (Senn 2002).`,
+        `With the sequences balanced, a period effect does not bias the comparison if period is in the model; left out, it adds to the error variance (${SENN_2002.short}).`,
       todo: `Randomise ${whoPlural} to the sequences in equal numbers and include period as a fixed effect, with ${who} as a random intercept: \`${model}\`.`,
       model,
       numbers: numbers({ periods: c.periods, units: E?.total, sequences: arms.length === 2 && c.periods === 2 ? 2 : undefined }),

@@ -20,7 +20,7 @@
  * Quantified: units per arm, the degrees of freedom between units (units − arms) against the
  * residual df of an analysis of every observation (N − arms).
  */
-import { BELL_MCCAFFREY_2002, DONNER_KLAR_2000, HAYES_MOULTON_2017, KENWARD_ROGER_1997, PUSTEJOVSKY_TIPTON_2018, RAUDENBUSH_1997, SATTERTHWAITE_1946 } from './citations';
+import { BELL_MCCAFFREY_2002, DONNER_KLAR_2000, HAYES_MOULTON_2017, KENWARD_ROGER_1997, narrative, PUSTEJOVSKY_TIPTON_2018, RAUDENBUSH_1997, SATTERTHWAITE_1946 } from '@/lib/citations';
 import { designFacts, unitsPerArm } from '@/lib/design/facts';
 import { FEW_CLUSTERS } from './clustering';
 import { assignedVerb, treatmentName, unitsWithArms } from './phrases';
@@ -64,7 +64,7 @@ export const fewUnits: Rule = {
           `${severe ? 'Fewer than 5 per arm is severely small: any result will be fragile. ' : ''}` +
           `Fewer than 10 ${f.withinUnit ? 'units' : 'units per arm'} is commonly treated as small (a threshold from common practice, not from a published source).`,
         todo:
-          `Add ${noun(E.level, true)} if at all possible${clustered ? ` — once the design effect is large, more ${noun(E.level, true)} help far more than more observations per ${noun(E.level)} (Raudenbush 1997 gives the best size per ${noun(E.level)} under a budget)` : ''}. ` +
+          `Add ${noun(E.level, true)} if at all possible${clustered ? ` — once the design effect is large, more ${noun(E.level, true)} help far more than more observations per ${noun(E.level)} (${RAUDENBUSH_1997.short} gives the best size per ${noun(E.level)} under a budget)` : ''}. ` +
           `Analyse with small-sample degrees of freedom (Kenward–Roger or Satterthwaite), consider a randomisation (permutation) test as a sensitivity analysis, and report the result as exploratory if the numbers cannot grow. ${ASK_STATISTICIAN}`,
         numbers: numbers({ unitsPerArm: f.withinUnit ? undefined : n, experimentalUnits: E.total, betweenUnitDf: betweenDf }),
         citations: [HAYES_MOULTON_2017, DONNER_KLAR_2000, RAUDENBUSH_1997],
@@ -104,7 +104,7 @@ export const fewUnits: Rule = {
           found: `The plan uses ${a.method === 'gee' ? 'GEE with sandwich' : cr2 ? 'CR2' : 'cluster-robust'} standard errors, clustered on ${units}.`,
           why:
             `Sandwich (cluster-robust) standard errors are justified as the number of clusters grows; with fewer than about 40–50 clusters (common practice) the usual version is too small and the test's false-positive rate exceeds the nominal level. ` +
-            `The bias-reduced CR2 estimator with Satterthwaite degrees of freedom keeps the test close to its nominal level with few clusters (Bell & McCaffrey 2002; Pustejovsky & Tipton 2018).`,
+            `The bias-reduced CR2 estimator with Satterthwaite degrees of freedom keeps the test close to its nominal level with few clusters (${BELL_MCCAFFREY_2002.short}; ${PUSTEJOVSKY_TIPTON_2018.short}).`,
           todo: `Use CR2 standard errors with Satterthwaite degrees of freedom (about ${num(betweenDf)} or fewer here, not a normal reference distribution). ${ASK_STATISTICIAN}`,
           numbers: numbers({ clusters: E.total, betweenUnitDf: betweenDf }),
           citations: [BELL_MCCAFFREY_2002, PUSTEJOVSKY_TIPTON_2018],
@@ -128,7 +128,7 @@ export const fewUnits: Rule = {
           `Residual df (or a normal reference distribution) make the test too liberal when there are fewer than about 40–50 units (common practice). ` +
           (glmm
             ? 'For a generalised linear mixed model, between-within degrees of freedom (units minus parameters estimated between units) are the practical choice.'
-            : 'Satterthwaite (1946) and Kenward–Roger (1997) approximations give the right reference distribution; Kenward–Roger also corrects the standard error for small samples.'),
+            : `${narrative(SATTERTHWAITE_1946)} and ${narrative(KENWARD_ROGER_1997)} approximations give the right reference distribution; Kenward–Roger also corrects the standard error for small samples.`),
         todo: glmm
           ? `Use between-within degrees of freedom (about ${num(betweenDf)}). ${ASK_STATISTICIAN}`
           : `Use Kenward–Roger degrees of freedom with REML (or Satterthwaite) for the test of ${treatmentName(design)}. ${ASK_STATISTICIAN}`,

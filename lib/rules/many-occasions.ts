@@ -10,7 +10,7 @@
  * - `time-trend` (advice): the trajectory is of interest and time is modelled as a straight line
  *   (or not at all): splines or polynomial terms, and a random slope for time (Diggle et al. 2002).
  */
-import { DIGGLE_2002 } from './citations';
+import { DIGGLE_2002 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { cap, dec, noun, num, numbers } from './text';
@@ -54,7 +54,7 @@ export const manyOccasions: Rule = {
           `Measurements close in time are usually more alike than distant ones, so one correlation for every pair of occasions is an assumption, not a given. ` +
           `Exchangeable correlation (the same for all pairs; what a random intercept alone implies) needs 2 parameters; AR(1) (correlation ρ, ρ², ρ³ … as occasions lie further apart) also needs 2; unstructured needs T(T + 1)/2 = ${num(unstructured)}` +
           (units !== undefined ? `, which ${units < 3 * unstructured ? `is a lot to estimate from ${num(units)} ${S ? noun(S.level, true) : 'units'}` : `${num(units)} ${S ? noun(S.level, true) : 'units'} can support`}` : '') +
-          `. A wrong structure usually leaves the estimated effect close to right with complete data, but misstates its standard error and weakens the protection a mixed model gives when data are missing (Diggle et al. 2002).` +
+          `. A wrong structure usually leaves the estimated effect close to right with complete data, but misstates its standard error and weakens the protection a mixed model gives when data are missing (${DIGGLE_2002.short}).` +
           (unequal ? ' AR(1) assumes equally spaced occasions; with unequal spacing use a continuous-time (exponential) correlation in the actual times.' : ''),
         todo: `Pre-specify the covariance structure${expected === 'ar1' ? ' (AR(1), as the design expects, on top of the random intercept)' : expected === 'exchangeable' ? ' (exchangeable, as the design expects)' : ''} and a sensitivity analysis under another structure, or robust standard errors.`,
         model: modelPlan(design).formula,
@@ -72,7 +72,7 @@ export const manyOccasions: Rule = {
         found: `${found} The trajectory over time is of interest, and the plan ${a.timeModel === 'linear' ? 'models time as a straight line' : 'does not say how time is modelled'}.`,
         why:
           `With ${num(T)} occasions a straight line is a strong assumption: growth often levels off, and responses often rise and fall. A linear term then misdescribes the trajectory and the comparison of arms over time. ` +
-          `A natural cubic spline (here with 3 degrees of freedom) or a quadratic term lets the curve bend while keeping few parameters; a random slope for time lets each ${who} follow their own trajectory (Diggle et al. 2002).`,
+          `A natural cubic spline (here with 3 degrees of freedom) or a quadratic term lets the curve bend while keeping few parameters; a random slope for time lets each ${who} follow their own trajectory (${DIGGLE_2002.short}).`,
         todo: `Model time with a spline or polynomial term, with a random slope for time: \`${modelPlan(design).formula}\`. Fix the number of spline degrees of freedom in the protocol.`,
         model: modelPlan(design).formula,
         numbers: numbers({ occasions: T, splineDf: 3 }),

@@ -8,7 +8,7 @@
  * 1979, outside PRODUCT.md's list). The sample size is then planned at the adjusted level
  * (SPIRIT 2013, item 14).
  */
-import { HOLM_1979, SPIRIT_2013 } from './citations';
+import { HOLM_1979, SPIRIT_2013 } from '@/lib/citations';
 import { dec, num, numbers, pct } from './text';
 import type { Rule } from './types';
 

@@ -8,7 +8,7 @@
  * (Var(b) = σ²/Σ(x − x̄)², so the SE scales with 1/spread: target width / observed width).
  * A fitted line holds only where there are data (Gelman & Hill 2007, outside PRODUCT.md's list).
  */
-import { GELMAN_HILL_2007 } from './citations';
+import { GELMAN_HILL_2007 } from '@/lib/citations';
 import { dec, numbers, pct } from './text';
 import type { Finding, Rule } from './types';
 
@@ -41,7 +41,7 @@ export const narrowRange: Rule = {
         title: `Conclusions about ${name} wanted beyond the range studied`,
         found: `${v.name} will range from ${dec(oMin, 3)} to ${dec(oMax, 3)} in the study, but conclusions are wanted from ${dec(tMin, 3)} to ${dec(tMax, 3)}: the study covers ${pct(covered)} of the target range.`,
         why:
-          'A fitted straight line describes the relationship only where there are data; outside that range the relationship may curve, level off or reverse, and nothing in the data can show it (Gelman & Hill 2007). ' +
+          `A fitted straight line describes the relationship only where there are data; outside that range the relationship may curve, level off or reverse, and nothing in the data can show it (${GELMAN_HILL_2007.short}). ` +
           (seRatio !== undefined
             ? `A narrow range also costs precision: the slope's standard error scales with 1 / (spread of the values), so spreading the same number of values over the target range in the same way would make it about ${dec(seRatio, 1)} times smaller.`
             : `With a single value of ${name} no slope can be estimated at all.`),

@@ -12,7 +12,7 @@
  * Without an ICC, over a plausible range (`plausibleIccRange`), said to be a range.
  */
 import { effectiveSampleSize } from '@/lib/stats/design-effect';
-import { DONNER_KLAR_2000, ELDRIDGE_2006, HAYES_MOULTON_2017, KISH_1965 } from './citations';
+import { DONNER_KLAR_2000, ELDRIDGE_2006, HAYES_MOULTON_2017, KISH_1965 } from '@/lib/citations';
 import { accountsFor, designFacts, givenIccs, iccOf, sizeCv, type LevelInfo } from '@/lib/design/facts';
 import { clusteringEffect, plausibleIccRange } from './clustering';
 import { modelPlan } from './model';

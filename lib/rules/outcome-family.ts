@@ -12,7 +12,7 @@
  * Paik 2003); with clustering a GLMM (Bates et al. 2015) or GEE (Liang & Zeger 1986), whose
  * effects are cluster-specific and population-averaged respectively.
  */
-import { BATES_2015, FLEISS_2003, LIANG_ZEGER_1986, MCCULLAGH_NELDER_1989 } from './citations';
+import { BATES_2015, FLEISS_2003, LIANG_ZEGER_1986, MCCULLAGH_NELDER_1989 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { familyFor, modelPlan, randomLevels } from './model';
 import { outcomeName, plannedMethod } from './phrases';

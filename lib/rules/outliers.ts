@@ -8,7 +8,7 @@
  * The remedy: pre-specify checks and what counts as an error, keep genuine extreme values, and
  * run Huber's M-estimation (robust regression, Huber 1964) as a sensitivity analysis.
  */
-import { HUBER_1964 } from './citations';
+import { HUBER_1964 } from '@/lib/citations';
 import { outcomeName } from './phrases';
 import type { Rule } from './types';
 
@@ -36,7 +36,7 @@ export const outliers: Rule = {
           : `The analysis plan does not say how outliers or data-entry extremes of ${name} will be handled.`,
         why:
           'A few extreme values can move a mean, and the estimated effect with it. Deciding what to do with them after seeing the data invites choices that favour one result. ' +
-          "Huber's M-estimation (robust regression) down-weights large residuals instead of deleting them; comparing it with the main analysis shows whether a few values drive the conclusion (Huber 1964).",
+          `Huber's M-estimation (robust regression) down-weights large residuals instead of deleting them; comparing it with the main analysis shows whether a few values drive the conclusion (${HUBER_1964.short}).`,
         todo: `Pre-specify: how values are checked (ranges, double data entry), what counts as an error (corrected, or removed with a record) and what as a genuine extreme (kept), and a sensitivity analysis with robust regression. Write it into the protocol before the data are in.`,
         citations: [HUBER_1964],
       },

@@ -10,7 +10,7 @@
  *   not accounted for: warning; members are correlated, so the analysis is paired or has a random
  *   intercept for the pair (Bates et al. 2015).
  */
-import { BATES_2015, DONNER_KLAR_2000, HAYES_MOULTON_2017 } from './citations';
+import { BATES_2015, DONNER_KLAR_2000, HAYES_MOULTON_2017 } from '@/lib/citations';
 import { accountsFor, designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { cap, count, noun, num } from './text';
@@ -38,8 +38,8 @@ export const pairsAndBlocks: Rule = {
         title: paired ? 'Matching not used in the analysis' : 'Stratification or blocking not in the analysis',
         found: `Randomisation is ${b.kind}${factorText}, but the analysis plan does not include ${factor ? 'this factor' : 'the pairs or blocks'}.`,
         why: paired
-          ? 'Matching makes the members of a pair alike on purpose, so a paired analysis removes the variance between pairs. An unpaired analysis throws that precision away; in cluster trials with few pairs, the choice between a paired and an unpaired analysis also changes the degrees of freedom and the power markedly (Donner & Klar 2000).'
-          : 'Stratified or blocked randomisation balances the arms on the stratification factor, and the analysis should reflect how the arms were formed. Leaving the factor out makes the standard errors too large — the test is conservative — and wastes the precision the stratification bought (Hayes & Moulton 2017).',
+          ? `Matching makes the members of a pair alike on purpose, so a paired analysis removes the variance between pairs. An unpaired analysis throws that precision away; in cluster trials with few pairs, the choice between a paired and an unpaired analysis also changes the degrees of freedom and the power markedly (${DONNER_KLAR_2000.short}).`
+          : `Stratified or blocked randomisation balances the arms on the stratification factor, and the analysis should reflect how the arms were formed. Leaving the factor out makes the standard errors too large — the test is conservative — and wastes the precision the stratification bought (${HAYES_MOULTON_2017.short}).`,
         todo: paired
           ? `Analyse the pairs: a paired analysis, or a random intercept (or fixed effect) for the pair in the model: \`${model}\`.`
           : `Include ${factor ? factor[0]!.toLowerCase() + factor.slice(1) : 'the stratification factor'} as a fixed effect (with few strata) or a random intercept (with many): \`${model}\`.`,

@@ -13,7 +13,7 @@
  * ICC, over a plausible range 0.2–0.8 (common practice), said to be a range.
  */
 import { designEffect } from '@/lib/stats/design-effect';
-import { HURLBERT_1984, KISH_1965, LAZIC_2010 } from './citations';
+import { HURLBERT_1984, KISH_1965, LAZIC_2010 } from '@/lib/citations';
 import { accountsFor, designFacts, iccOf, sizeCv } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { range } from './phrases';
@@ -64,7 +64,7 @@ export const pseudoreplication: Rule = {
           `Each ${noun(P.level)} gives ${num(k)} ${noun(R.level, k !== 1)}: ${num(R.total)} measurements from ${count(P.total, P.level)}.` +
           (counted ? ` The plan counts the ${num(R.total)} ${noun(R.level, true)} as n.` : ''),
         why:
-          `${cap(noun(R.level, true))} of one ${noun(P.level)} share everything that happened to that ${noun(P.level)}; counting them as independent is pseudoreplication, and it makes standard errors too small and p-values too low (Hurlbert 1984; Lazic 2010). ${quant} ` +
+          `${cap(noun(R.level, true))} of one ${noun(P.level)} share everything that happened to that ${noun(P.level)}; counting them as independent is pseudoreplication, and it makes standard errors too small and p-values too low (${HURLBERT_1984.short}; ${LAZIC_2010.short}). ${quant} ` +
           `More ${noun(R.level, true)} make each ${noun(P.level)}'s value more precise; they do not add ${noun(P.level, true)}.` +
           (E ? ` And since ${noun(E.level, true)}, not ${noun(P.level, true)}, receive the treatment, the ${count(E.total, E.level)} are what counts for the comparison.` : ''),
         todo:

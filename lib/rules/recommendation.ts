@@ -23,7 +23,7 @@ import {
   SATTERTHWAITE_1946,
   SENN_2002,
   uniqueCitations,
-} from './citations';
+} from '@/lib/citations';
 import { designFacts, unitsPerArm } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { assignedVerb, outcomeName, treatmentName } from './phrases';

@@ -14,7 +14,7 @@
  * plausible range 0.2–0.8 (common practice), said to be a range.
  */
 import { designEffect, effectiveSampleSize } from '@/lib/stats/design-effect';
-import { BATES_2015, DIGGLE_2002, KISH_1965 } from './citations';
+import { BATES_2015, DIGGLE_2002, KISH_1965 } from '@/lib/citations';
 import { accountsFor, designFacts, iccOf } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { outcomeName, range, treatmentName } from './phrases';

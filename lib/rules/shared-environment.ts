@@ -10,7 +10,7 @@
  * Silent while the assignment level is missing. Source: Hurlbert 1984 (the experimental unit is
  * the unit to which a treatment is independently applied); Lazic 2010.
  */
-import { HURLBERT_1984, LAZIC_2010 } from './citations';
+import { HURLBERT_1984, LAZIC_2010 } from '@/lib/citations';
 import { accountsFor, designFacts, unitsPerArm } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { assignedVerb, treatmentName, unitsWithArms } from './phrases';
@@ -71,7 +71,7 @@ export const sharedEnvironment: Rule = {
           title: `The ${noun(L.level)} is the experimental unit`,
           found: `${cap(treatmentName(design))} ${assignedVerb(design)} to whole ${noun(L.level, true)}, and the ${num(child.perParent)} ${noun(child.level, true)} of a ${noun(L.level)} share ${what}.`,
           why:
-            `When a treatment is applied to a shared environment, that environment is the experimental unit: the ${unitsWithArms(f, L, perArm)} are the independent replicates of the comparison, whatever number of ${noun(child.level, true)} they hold (Hurlbert 1984). ` +
+            `When a treatment is applied to a shared environment, that environment is the experimental unit: the ${unitsWithArms(f, L, perArm)} are the independent replicates of the comparison, whatever number of ${noun(child.level, true)} they hold (${HURLBERT_1984.short}). ` +
             `Anything else that happens to one ${noun(L.level)} affects all its ${noun(child.level, true)} at once and cannot be told apart from the treatment except by comparing ${noun(L.level, true)}.`,
           todo: handled
             ? `The plan accounts for this. Plan the number of ${noun(L.level, true)}, not of ${noun(child.level, true)}, and keep ${noun(L.level, true)} in the same conditions apart from the treatment.`
@@ -89,7 +89,7 @@ export const sharedEnvironment: Rule = {
           title: `${cap(noun(A.level, true))} assigned individually inside shared ${noun(L.level, true)}`,
           found: `${cap(treatmentName(design))} ${assignedVerb(design)} to individual ${noun(A.level, true)}, but they are grouped in ${count(L.total, L.level)}: the ${noun(child.level, true)} of one ${noun(L.level)} share ${what}.`,
           why:
-            `If the treatment reaches the whole ${noun(L.level)} — through ${channels(L.level.groupingType, noun(child.level, true))} — then the ${noun(L.level)}, not the ${noun(A.level)}, is the experimental unit and the design is in effect assigned per ${noun(L.level)} (Hurlbert 1984). ` +
+            `If the treatment reaches the whole ${noun(L.level)} — through ${channels(L.level.groupingType, noun(child.level, true))} — then the ${noun(L.level)}, not the ${noun(A.level)}, is the experimental unit and the design is in effect assigned per ${noun(L.level)} (${HURLBERT_1984.short}). ` +
             `If it does not, ${noun(A.level, true)} in one ${noun(L.level)} are still correlated.`,
           todo: `State how the treatment is delivered. If it can spread within a ${noun(L.level)}, assign whole ${noun(L.level, true)}; if not, give ${noun(L.level)} a random intercept (\`${model}\`).`,
           model,

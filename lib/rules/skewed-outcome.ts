@@ -10,7 +10,7 @@
  * a gamma GLMM can be fitted with lme4, Bates et al. 2015). The stress test shows how the
  * planned analysis behaves under skew (reading it: Morris, White & Crowther 2019).
  */
-import { BATES_2015, MCCULLAGH_NELDER_1989, MORRIS_2019 } from './citations';
+import { BATES_2015, MCCULLAGH_NELDER_1989, MORRIS_2019 } from '@/lib/citations';
 import { modelPlan } from './model';
 import { outcomeName, plannedMethod } from './phrases';
 import { ASK_STATISTICIAN, cap } from './text';
@@ -43,7 +43,7 @@ export const skewedOutcome: Rule = {
           `For outcomes like this the spread usually grows with the mean, so a linear model on the original scale meets unequal variance and skewed residuals, and a few large values drive the estimates. ` +
           (positive
             ? `On the log scale such outcomes are often close to symmetric with constant variance, and the treatment effect becomes a ratio (for example "${name} 8% higher in one arm"), which is usually how such effects work. ` +
-              `A gamma model with a log link gives the same kind of ratio while modelling a variance proportional to the mean squared on the original scale (McCullagh & Nelder 1989).`
+              `A gamma model with a log link gives the same kind of ratio while modelling a variance proportional to the mean squared on the original scale (${MCCULLAGH_NELDER_1989.short}).`
             : `A log scale needs positive values, and ${name} may be zero or negative; robust standard errors, a transformation that handles zero, or a model for the variance are the options.`),
         todo: positive
           ? `Analyse log(${name}) — \`${model}\` — and report the back-transformed effect as a ratio with its confidence interval; or fit a gamma ${model.includes('|') ? 'GLMM' : 'GLM'} with a log link. Decide before the data are in, checking pilot residuals on both scales; the Stress test tab shows how the planned analysis behaves under skew. ${ASK_STATISTICIAN}`

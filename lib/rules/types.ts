@@ -3,15 +3,12 @@
  * (and other threats to the planned linear model), and the analysis the design calls for. Both
  * are plain JSON: they are stored with each design revision and sent through the API.
  */
+import type { Citation } from '@/lib/citations';
 import type { Analysis, Design } from '@/lib/design/schema';
 
-export type Severity = 'blocker' | 'warning' | 'advice';
+export type { Citation };
 
-/** `short` as cited in text ('Kish 1965'); `full` the reference as PRODUCT.md gives it. */
-export interface Citation {
-  short: string;
-  full: string;
-}
+export type Severity = 'blocker' | 'warning' | 'advice';
 
 export interface Finding {
   ruleId: string;

@@ -11,7 +11,7 @@
  * for the outcome and setting are the better source (Donner & Klar 2000; Hayes & Moulton 2017);
  * CONSORT's cluster extension asks trials to report the ICC and its uncertainty.
  */
-import { CONSORT_CLUSTER_2010, DONNER_KLAR_2000, HAYES_MOULTON_2017 } from './citations';
+import { CONSORT_CLUSTER_2010, DONNER_KLAR_2000, HAYES_MOULTON_2017 } from '@/lib/citations';
 import { designFacts, givenIccs, iccOf } from '@/lib/design/facts';
 import { clusteringEffect, plausibleIccRange } from './clustering';
 import { sourcePhrase } from './phrases';

@@ -12,7 +12,7 @@
  * plausible range. Eldridge et al. note the formula is conservative when the analysis weights
  * clusters efficiently.
  */
-import { ELDRIDGE_2006, KISH_1965 } from './citations';
+import { ELDRIDGE_2006, KISH_1965 } from '@/lib/citations';
 import { designFacts, givenIccs, iccOf, sizeCv } from '@/lib/design/facts';
 import { clusteringEffect, plausibleIccRange } from './clustering';
 import { cap, dec, noun, num, numbers, pct } from './text';
@@ -46,7 +46,7 @@ export const unequalClusterSizes: Rule = {
         if (!e) continue;
         extra = e.designEffect / e.equalSizes - 1;
         why =
-          `Unequal clusters carry less information than equal ones of the same average size. At the ICC of ${dec(icc.value, 3)}, the design effect rises from ${dec(e.equalSizes, 2)} with equal sizes to ${dec(e.designEffect, 2)} with a CV of ${dec(cv, 2)} (1 + ((CV² + 1)·m − 1)·ICC, Eldridge et al. 2006): ${pct(extra)} more` +
+          `Unequal clusters carry less information than equal ones of the same average size. At the ICC of ${dec(icc.value, 3)}, the design effect rises from ${dec(e.equalSizes, 2)} with equal sizes to ${dec(e.designEffect, 2)} with a CV of ${dec(cv, 2)} (1 + ((CV² + 1)·m − 1)·ICC, ${ELDRIDGE_2006.short}): ${pct(extra)} more` +
           (isUnit ? `, so about ${num(Math.ceil(L.total * (1 + extra) - 1e-9))} ${noun(L.level, true)} give the precision that ${num(L.total)} equal ones would.` : '.') +
           ' The formula is conservative when the analysis weights clusters efficiently (a mixed model does).';
         nums = numbers({ sizeCv: cv, meanClusterSize: L.obsPerUnit, icc: icc.value, designEffect: e.designEffect, designEffectEqualSizes: e.equalSizes, extraInflation: extra, clustersForSamePrecision: isUnit ? L.total * (1 + extra) : undefined });
@@ -58,7 +58,7 @@ export const unequalClusterSizes: Rule = {
         const ea = a.designEffect / a.equalSizes - 1;
         const eb = b.designEffect / b.equalSizes - 1;
         extra = Math.max(ea, eb);
-        why = `Unequal clusters carry less information than equal ones of the same average size. No ICC is given; over a plausible range of ${lo} to ${hi} (common practice, not a value for this study), a CV of ${dec(cv, 2)} raises the design effect by ${pct(ea)} to ${pct(eb)} over equal sizes (Eldridge et al. 2006).`;
+        why = `Unequal clusters carry less information than equal ones of the same average size. No ICC is given; over a plausible range of ${lo} to ${hi} (common practice, not a value for this study), a CV of ${dec(cv, 2)} raises the design effect by ${pct(ea)} to ${pct(eb)} over equal sizes (${ELDRIDGE_2006.short}).`;
         nums = numbers({ sizeCv: cv, meanClusterSize: L.obsPerUnit, iccLow: lo, iccHigh: hi, extraInflationLow: ea, extraInflationHigh: eb });
       }
       out.push({

@@ -12,7 +12,7 @@
  * Tipton 2018), or a separate residual variance per arm in the mixed model.
  * Quantified: the allocation ratio, largest share over smallest.
  */
-import { MACKINNON_WHITE_1985, PUSTEJOVSKY_TIPTON_2018 } from './citations';
+import { MACKINNON_WHITE_1985, PUSTEJOVSKY_TIPTON_2018 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { randomLevels } from './model';
 import { plannedMethod } from './phrases';
@@ -47,9 +47,9 @@ export const unequalVariance: Rule = {
         severity: plan ? 'warning' : 'advice',
         title: 'Plan for unequal variances',
         found: `The variance of the outcome is expected to differ between arms or with a covariate${plan ? `, and ${plannedMethod(design)} uses model-based standard errors with one residual variance` : ''}.`,
-        why: `Model-based standard errors assume a single residual variance.${allocation} Heteroscedasticity-consistent (HC3) standard errors keep the test honest without a model for the variance, and behave best of the simple versions in small samples (MacKinnon & White 1985).`,
+        why: `Model-based standard errors assume a single residual variance.${allocation} Heteroscedasticity-consistent (HC3) standard errors keep the test honest without a model for the variance, and behave best of the simple versions in small samples (${MACKINNON_WHITE_1985.short}).`,
         todo: clustered && E
-          ? `In this clustered design, model a separate residual variance for each arm in the mixed model, or use CR2 standard errors clustered on ${noun(E.level, true)} (Pustejovsky & Tipton 2018); pre-specify which.`
+          ? `In this clustered design, model a separate residual variance for each arm in the mixed model, or use CR2 standard errors clustered on ${noun(E.level, true)} (${PUSTEJOVSKY_TIPTON_2018.short}); pre-specify which.`
           : 'Use HC3 standard errors (or model the variance explicitly, for example a separate variance per arm); pre-specify which.',
         numbers: numbers({ allocationRatio: ratio }),
         citations: clustered ? [MACKINNON_WHITE_1985, PUSTEJOVSKY_TIPTON_2018] : [MACKINNON_WHITE_1985],

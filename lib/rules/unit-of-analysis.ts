@@ -19,7 +19,7 @@
  * (`plausibleIccRange`) and the finding says so.
  */
 import { effectiveSampleSize, naiveTypeIError } from '@/lib/stats/design-effect';
-import { DONNER_KLAR_2000, ELDRIDGE_2006, HAYES_MOULTON_2017, KISH_1965 } from './citations';
+import { DONNER_KLAR_2000, ELDRIDGE_2006, HAYES_MOULTON_2017, KISH_1965 } from '@/lib/citations';
 import { accountsFor, designFacts, givenIccs, iccOf, sizeCv, unitsPerArm } from '@/lib/design/facts';
 import { clusteringEffect, plausibleIccRange, type ClusteringEffect } from './clustering';
 import { modelPlan } from './model';

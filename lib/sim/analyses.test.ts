@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { SimulationSpecInput } from '@/lib/validation/simulations';
+import type { SimulationSpecInput } from './spec';
 import { analysisApplies, offeredAnalyses } from './analyses';
 
 const spec = (design: SimulationSpecInput['design'], truth: Partial<SimulationSpecInput['truth']> = {}): SimulationSpecInput => ({

@@ -22,7 +22,7 @@
  * produced, lib/sim/from-design.ts), so the Stress test tab and the API agree.
  */
 import { ANALYSIS_NAMES, type AnalysisName } from '@/lib/models/types';
-import type { SimulationSpecInput } from '@/lib/validation/simulations';
+import type { SimulationSpecInput } from './spec';
 
 type Family = NonNullable<SimulationSpecInput['truth']['family']>;
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
 import { designSchema, type DesignInput } from '@/lib/design/schema';
-import { simulationSpecSchema } from '@/lib/validation/simulations';
+import { simulationSpecSchema } from './spec';
 import { specFromDesign } from './from-design';
 
 const parse = (d: DesignInput) => designSchema.parse(d);

@@ -42,7 +42,7 @@
 import { designFacts, iccOf, sizeCv, unitsByArm, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
 import type { Design } from '@/lib/design/schema';
 import type { AnalysisName } from '@/lib/models/types';
-import type { SimulationSpecInput } from '@/lib/validation/simulations';
+import { REPLICATES, SEED, type SimulationSpecInput } from './spec';
 import { offeredAnalyses } from './analyses';
 
 export type SpecFromDesign =
@@ -55,9 +55,6 @@ export type SpecFromDesign =
   | { ok: false; missing: string[]; unsupported: string[] };
 
 type ScenarioInput = SimulationSpecInput['scenarios'][number];
-
-const DEFAULT_REPLICATES = 1000;
-const DEFAULT_SEED = 1;
 
 const lower = (L: LevelInfo) => L.level.name.toLowerCase();
 /** "classroom" → "classrooms"; names that already end in s stay. */
@@ -201,8 +198,8 @@ export function specFromDesign(design: Design): SpecFromDesign {
     },
     scenarios,
     analyses: [],
-    replicates: DEFAULT_REPLICATES,
-    seed: DEFAULT_SEED,
+    replicates: REPLICATES.default,
+    seed: SEED.default,
     alpha: design.assumptions.alpha,
   };
   const offered = offeredAnalyses(spec);

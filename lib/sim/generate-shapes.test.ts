@@ -1,5 +1,5 @@
 import { describe, expect, it, vi } from 'vitest';
-import { simulationSpecSchema, type SimulationSpecInput } from '@/lib/validation/simulations';
+import { simulationSpecSchema, type SimulationSpecInput } from './spec';
 import { marginalProbability } from './estimand';
 import { conditionalEffect, createSimulation, generate, type Simulation } from './generate';
 import { logitNormalMoments, proportionIcc } from './logit-normal';

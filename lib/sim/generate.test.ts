@@ -1,5 +1,5 @@
 import { describe, expect, it, vi } from 'vitest';
-import { simulationSpecSchema, type SimulationSpecInput } from '@/lib/validation/simulations';
+import { simulationSpecSchema, type SimulationSpecInput } from './spec';
 import { describeSizes } from './cluster-sizes';
 import fixture from './fixtures/random.json';
 import { COVARIATE, createSimulation, generate, type Simulation } from './generate';

@@ -49,7 +49,7 @@
  * `overdispersion` k is given (negative binomial, Var = λ + λ²/k), else G = 1. `baseline` is the
  * first arm's probability or mean for a cluster and unit with zero random effects.
  *
- * Other parametrisations of the truth (lib/validation/simulations.ts):
+ * Other parametrisations of the truth (lib/sim/spec.ts):
  * - Binary, iccScale `proportion`: the cluster SD σ on the logit scale is the one whose
  *   logit-normal cluster probabilities have the requested ICC on the proportion scale in the
  *   first arm, Var(P_c)/(p̄(1 − p̄)) (logit-normal.ts; Donner & Klar 2000) — so a model-based
@@ -73,7 +73,7 @@
  */
 import type { AnalysisOptions } from '@/lib/models';
 import type { AnalysisName, Dataset, FixedEffects } from '@/lib/models/types';
-import { scenarioKey, type Scenario, type SimulationSpec } from '@/lib/validation/simulations';
+import { scenarioKey, type Scenario, type SimulationSpec } from './spec';
 import { allocateDataset, buildLayout, periodColumn, type Layout } from './layout';
 import { interceptForMarginal, sigmaForIcc } from './logit-normal';
 import { bernoulli, gamma, poisson, standardisedLogNormal, standardisedLogNormalScale, studentT } from './random';

@@ -14,7 +14,7 @@
  * `carried` marks the rows whose previous period had B.
  */
 import type { Dataset, Grouping } from '@/lib/models/types';
-import { defaultSequences, type SimulationDesign } from '@/lib/validation/simulations';
+import { defaultSequences, type SimulationDesign } from './spec';
 import { clusterSizes } from './cluster-sizes';
 
 export interface Layout {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { simulationSpecSchema, type SimulationSpecInput } from '@/lib/validation/simulations';
+import { simulationSpecSchema, type SimulationSpecInput } from './spec';
 import { trueEffect } from './estimand';
 import { createSimulation } from './generate';
 import type { Metrics } from './metrics';

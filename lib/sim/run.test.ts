@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { naiveTypeIError } from '@/lib/stats/design-effect';
-import { simulationSpecSchema, type SimulationSpec, type SimulationSpecInput } from '@/lib/validation/simulations';
+import { simulationSpecSchema, type SimulationSpec, type SimulationSpecInput } from './spec';
 import operating from './fixtures/operating.json';
 import { aggregate, createWorkspace, mergeBlocks, runReplicates, type ReplicateBlock } from './run';
 import { summarise } from './summarise';

@@ -12,7 +12,7 @@
  */
 import { analyse as fitAnalysis, type AnalysisOptions } from '@/lib/models';
 import type { AnalysisName, Dataset, EffectEstimate, FixedEffects } from '@/lib/models/types';
-import { scenarioKey, type SimulationSpec } from '@/lib/validation/simulations';
+import { scenarioKey, type SimulationSpec } from './spec';
 import { trueEffect } from './estimand';
 import { createSimulation, generate, type Simulation } from './generate';
 import { computeMetrics, type FitColumns, type Metrics } from './metrics';

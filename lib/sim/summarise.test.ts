@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { simulationSpecSchema } from '@/lib/validation/simulations';
+import { simulationSpecSchema } from './spec';
 import { METRIC_NAMES, type Metrics } from './metrics';
 import { percent, summarise } from './summarise';
 

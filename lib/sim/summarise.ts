@@ -21,7 +21,7 @@
  * sentence. (MC SEs: Morris, White & Crowther 2019, Stat Med 38:2074.)
  */
 import type { AnalysisName } from '@/lib/models/types';
-import { scenarioKey, type Scenario, type SimulationSpec } from '@/lib/validation/simulations';
+import { scenarioKey, type Scenario, type SimulationSpec } from './spec';
 import type { Metric } from './metrics';
 import type { SimulationResults } from './run';
 

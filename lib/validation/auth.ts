@@ -4,7 +4,8 @@
  * server only (lib/auth/password.ts) and is not part of these schemas.
  */
 import { z } from 'zod';
-import { emailSchema, rawText, text } from './common';
+import { rawText, text } from '@/lib/text-schema';
+import { emailSchema } from './common';
 
 export const PASSWORD_MIN = 10;
 export const PASSWORD_MAX = 128;

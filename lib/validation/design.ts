@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { FINDING_NOTE_STATUSES } from '@/db/schema';
 import { designSchema } from '@/lib/design/schema';
-import { rawText, text } from './common';
+import { rawText, text } from '@/lib/text-schema';
 
 export const designSaveSchema = z
   .object({

@@ -3,8 +3,8 @@
  * it), the revision the browser computed it from, and an optional note.
  */
 import { z } from 'zod';
-import { text } from './common';
-import { calculationSchema } from './calculations';
+import { text } from '@/lib/text-schema';
+import { calculationSchema } from '@/lib/stats/calculations/request';
 
 export const planResultSaveSchema = z
   .object({

@@ -6,23 +6,18 @@
  *                                                 else from the design of the revision (the newest
  *                                                 when left out), with replicates and seed overriding
  *                                                 the design's defaults
- * The specification itself is `simulationSpecSchema` (lib/validation/simulations.ts).
+ * The specification itself is `simulationSpecSchema` (lib/sim/spec.ts).
  */
 import { z } from 'zod';
-import { MAX_REPLICATES, simulationSpecSchema } from './simulations';
+import { simulationSpecSchema } from '@/lib/sim/spec';
 
 export const simulationRunSchema = z
   .object({
     studyId: z.uuid({ error: 'studyId must be the id of a study.' }).optional(),
     revision: z.number({ error: 'revision must be a number.' }).int('revision must be a whole number.').min(1, 'revision is at least 1.').optional(),
     spec: simulationSpecSchema.optional(),
-    replicates: z
-      .number({ error: 'replicates must be a number.' })
-      .int('replicates must be a whole number.')
-      .min(10, 'replicates is at least 10.')
-      .max(MAX_REPLICATES, `replicates can be at most ${MAX_REPLICATES.toLocaleString('en-GB')}.`)
-      .optional(),
-    seed: z.number({ error: 'seed must be a number.' }).int('seed must be a whole number.').min(0, 'seed is at least 0.').max(Number.MAX_SAFE_INTEGER).optional(),
+    replicates: simulationSpecSchema.shape.replicates.unwrap().optional(),
+    seed: simulationSpecSchema.shape.seed.unwrap().optional(),
   })
   .strict()
   .superRefine((v, ctx) => {

@@ -10,7 +10,7 @@ import { describe, expect, it } from 'vitest';
 import type { z } from 'zod';
 import { API_ROUTES } from '@/lib/api/openapi';
 import { magicLinkSchema, resetPasswordSchema, resetRequestSchema, signInSchema, signUpSchema } from './auth';
-import { rawText, text } from './common';
+import { rawText, text } from '@/lib/text-schema';
 
 type Def = { type: string; [key: string]: unknown };
 const defOf = (s: unknown): Def => (s as { _zod: { def: Def } })._zod.def;

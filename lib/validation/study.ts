@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { STUDY_STATUSES } from '@/db/schema';
-import { idSchema, text } from './common';
+import { text } from '@/lib/text-schema';
+import { idSchema } from './common';
 
 const title = text('Title', 1, 200).meta({ example: 'Reading-support programme, randomised by classroom' });
 const description = text('Description', 0, 2000);

@@ -2,7 +2,8 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { safeCallback } from '@/lib/action-state';
 import { signUpSchema } from './auth';
-import { emailSchema, text } from './common';
+import { text } from '@/lib/text-schema';
+import { emailSchema } from './common';
 import { studyCreateSchema, studyListQuerySchema } from './study';
 
 describe('emailSchema', () => {

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { WORKSPACE_ROLES } from '@/db/schema';
-import { emailSchema, idSchema, rawText, text } from './common';
+import { rawText, text } from '@/lib/text-schema';
+import { emailSchema, idSchema } from './common';
 
 export const workspaceCreateSchema = z
   .object({ name: text('Workspace name', 2, 100).meta({ example: 'Harrow Vale Institute' }) })

@@ -6,7 +6,7 @@
  */
 import { calculate } from '@/lib/stats/calculations';
 import { clustersGrid, powerCurve } from '@/lib/stats/calculations/sensitivity';
-import { calculationSchema, type CalculationRequest } from '@/lib/validation/calculations';
+import { calculationSchema, type CalculationRequest } from '@/lib/stats/calculations/request';
 import type { Benchmark } from './run';
 
 const solveClusters = calculationSchema.parse({ kind: 'cluster-means', delta: 3, sd: 10, icc: 0.15, clusterSize: 23, cv: 0.25, power: 0.8, dropout: 0.08 });

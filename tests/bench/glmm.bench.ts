@@ -21,7 +21,7 @@ import { analyse, type AnalysisOptions } from '@/lib/models';
 import type { AnalysisName, Dataset } from '@/lib/models/types';
 import { createSimulation, generate, type Simulation } from '@/lib/sim/generate';
 import { Rng } from '@/lib/sim/rng';
-import { simulationSpecSchema, type SimulationSpecInput } from '@/lib/validation/simulations';
+import { simulationSpecSchema, type SimulationSpecInput } from '@/lib/sim/spec';
 import type { Benchmark } from './run';
 
 const POOL = 64;

@@ -30,7 +30,7 @@ import type { AnalysisName } from '@/lib/models/types';
 import { createSimulation, generate } from '@/lib/sim/generate';
 import { Rng } from '@/lib/sim/rng';
 import { aggregate, createWorkspace, mergeBlocks, runReplicates, type ReplicateBlock } from '@/lib/sim/run';
-import { simulationSpecSchema, type SimulationSpec, type SimulationSpecInput } from '@/lib/validation/simulations';
+import { simulationSpecSchema, type SimulationSpec, type SimulationSpecInput } from '@/lib/sim/spec';
 import type { Throughput, ThroughputResult } from './run';
 
 const ALL_LINEAR: AnalysisName[] = ['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed'];

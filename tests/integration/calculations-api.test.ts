@@ -18,7 +18,7 @@ import { calculationResponseSchema } from '@/lib/api/calculations';
 import { openApiDocument } from '@/lib/api/openapi';
 import { calculate } from '@/lib/stats/calculations';
 import { LIMITS } from '@/lib/rate-limit';
-import { CALCULATION_KINDS, calculationSchema, SOLVABLE } from '@/lib/validation/calculations';
+import { CALCULATION_KINDS, calculationSchema, SOLVABLE } from '@/lib/stats/calculations/request';
 import { BASE, ctx, makeUser, request } from '../support/fixtures';
 
 const PATH = '/api/v1/calculations';

@@ -9,7 +9,7 @@ import * as plans from '@/app/api/v1/studies/[studyId]/plans/route';
 import * as design from '@/app/api/v1/studies/[studyId]/design/route';
 import { CLASSROOM_DESIGN } from '@/db/demo/designs';
 import { calculate } from '@/lib/stats/calculations';
-import { calculationSchema } from '@/lib/validation/calculations';
+import { calculationSchema } from '@/lib/stats/calculations/request';
 import { ctx, makeWorld, request, type TestUser } from '../support/fixtures';
 
 type World = Awaited<ReturnType<typeof makeWorld>>;

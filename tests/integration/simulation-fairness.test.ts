@@ -14,7 +14,7 @@ import type { SimulationDto } from '@/lib/jobs/dto';
 import { BOSS_SCHEMA, CHUNK_QUEUE, getBoss, stopBoss } from '@/lib/jobs/boss';
 import { aggregateChunks, computeChunkBytes, inlineEngine, parseSpec } from '@/lib/jobs/engine';
 import { startWorker, type RunningWorker } from '@/lib/jobs/worker';
-import type { SimulationSpec } from '@/lib/validation/simulations';
+import type { SimulationSpec } from '@/lib/sim/spec';
 import { makeUser, type TestUser } from '../support/fixtures';
 
 /** Cheap replicates: with one replicate per chunk, a chunk costs mostly the queue's own work. */

@@ -13,7 +13,7 @@ import { db } from '@/lib/db';
 import { createSimulation } from '@/lib/data/simulations';
 import { CHUNK_QUEUE, getBoss, stopBoss } from '@/lib/jobs/boss';
 import { aggregateChunks, computeChunkBytes, parseSpec } from '@/lib/jobs/engine';
-import type { SimulationSpec } from '@/lib/validation/simulations';
+import type { SimulationSpec } from '@/lib/sim/spec';
 import { makeUser } from '../support/fixtures';
 
 const root = path.resolve(__dirname, '../..');

@@ -26,7 +26,7 @@ import { CHUNK_QUEUE, getBoss, stopBoss } from '@/lib/jobs/boss';
 import { aggregateChunks, computeChunkBytes, parseSpec } from '@/lib/jobs/engine';
 import { planChunks } from '@/lib/jobs/plan';
 import { enqueueChunks, placeRun } from '@/lib/jobs/queue';
-import type { SimulationSpec } from '@/lib/validation/simulations';
+import type { SimulationSpec } from '@/lib/sim/spec';
 import { ensurePostgres, type PostgresHandle } from '../../scripts/lib/postgres.mjs';
 
 const root = path.resolve(__dirname, '../..');

@@ -12,7 +12,7 @@ import { inlineEngine } from '@/lib/jobs/engine';
 import { startWorker, type RunningWorker } from '@/lib/jobs/worker';
 import { db } from '@/lib/db';
 import { METRIC_NAMES } from '@/lib/sim/metrics';
-import type { SimulationSpecInput } from '@/lib/validation/simulations';
+import type { SimulationSpecInput } from '@/lib/sim/spec';
 import * as runs from '@/app/api/v1/simulations/route';
 import * as run from '@/app/api/v1/simulations/[simulationId]/route';
 import { ctx, makeUser, request, type TestUser } from '../support/fixtures';

@@ -17,7 +17,7 @@ import { processChunk, type Engine } from '@/lib/jobs/handler';
 import { startWorker, type RunningWorker } from '@/lib/jobs/worker';
 import { METRIC_NAMES } from '@/lib/sim/metrics';
 import { mergeBlocks, type ReplicateBlock } from '@/lib/sim/run';
-import type { SimulationSpec, SimulationSpecInput } from '@/lib/validation/simulations';
+import type { SimulationSpec, SimulationSpecInput } from '@/lib/sim/spec';
 import * as runs from '@/app/api/v1/simulations/route';
 import * as run from '@/app/api/v1/simulations/[simulationId]/route';
 import * as studyRuns from '@/app/api/v1/studies/[studyId]/simulations/route';

@@ -8,7 +8,7 @@ import { insertRevision, insertStudy, upsertStudyMember } from '@/db/repositorie
 import { insertSession, insertUser } from '@/db/repositories/users';
 import { insertWorkspace, upsertWorkspaceMember } from '@/db/repositories/workspaces';
 import { db } from '@/lib/db';
-import type { SimulationSpecInput } from '@/lib/validation/simulations';
+import type { SimulationSpecInput } from '@/lib/sim/spec';
 
 export const BASE = 'http://localhost:3100';
 

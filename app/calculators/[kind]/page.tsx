@@ -3,7 +3,7 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { CalculatorForm } from '@/components/calculations/calculator-form';
 import { kindInfo } from '@/components/calculations/kinds';
-import { CALCULATION_KINDS } from '@/lib/validation/calculations';
+import { CALCULATION_KINDS } from '@/lib/stats/calculations/request';
 
 /** One page per kind, built ahead; any other name is a 404. */
 export const dynamicParams = false;

@@ -3,6 +3,7 @@
 import { useMemo } from 'react';
 import type { UseFormRegister } from 'react-hook-form';
 import { z } from 'zod';
+import { HAYES_BENNETT_1999 } from '@/lib/citations';
 import { SelectField, TextField } from '@/components/ui/field';
 import { designFacts } from '@/lib/design/facts';
 import { clusterRandomised, iccLevels } from '@/lib/design/progress';
@@ -129,7 +130,7 @@ export function AssumptionsStep({ value, design, onValid, onDraft, disabled }: S
             sourced(
               'betweenClusterCv',
               'Between-cluster coefficient of variation of the rate',
-              'How much the true rates of the randomised clusters differ within an arm: the SD of the cluster rates divided by their mean (Hayes & Bennett 1999).',
+              `How much the true rates of the randomised clusters differ within an arm: the SD of the cluster rates divided by their mean (${HAYES_BENNETT_1999.short}).`,
               { min: 0 },
             )}
         </>

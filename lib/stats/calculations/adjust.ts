@@ -2,8 +2,8 @@
  * Adjustments shared by every calculation: the significance level for several primary outcomes
  * (multiplicity) and the inflation of analysed numbers to numbers to recruit (attrition).
  */
-import { HOLM_1979 } from '@/lib/rules/citations';
-import type { Citation } from '@/lib/rules/types';
+import { HOLM_1979 } from '@/lib/citations';
+import type { Citation } from '@/lib/citations';
 
 export type Multiplicity = 'none' | 'bonferroni' | 'holm';
 

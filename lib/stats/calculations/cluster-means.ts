@@ -14,9 +14,9 @@
  * Valid range: the schema's (k ≥ 2, m ≥ 1, 0 ≤ ICC ≤ 1, 0 ≤ cv ≤ 3). Accuracy: that of the
  * noncentral t; tested against R's pt with ncp to 1e-6 relative. Bad input: CalculationInputError.
  */
-import { COHEN_1988, DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/rules/citations';
+import { COHEN_1988, DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha } from './adjust';
 import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
 import { clusterRecruitment, effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
@@ -107,7 +107,7 @@ export function clusterMeans(request: ClusterMeansRequest): CalculationOutput {
   const de = designEffect({ clusterSize: m!, icc, cv });
   const recruitment = clusterRecruitment(k!, m!, dropout, clusterDropout, 'units');
   if (cv > 0) {
-    warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (Eldridge et al. 2006); clusterSize is the mean size.`);
+    warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (${ELDRIDGE_2006.short}); clusterSize is the mean size.`);
   }
   if (k! < 10) {
     warnings.push(`With ${k} clusters per arm the estimate of the variance between clusters is imprecise; analyses with few clusters need small-sample corrections.`);

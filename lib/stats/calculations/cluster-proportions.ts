@@ -29,9 +29,9 @@
  *
  * Bad input: CalculationInputError.
  */
-import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003, KISH_1965 } from '@/lib/rules/citations';
+import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003, KISH_1965 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha, formatNumber } from './adjust';
 import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
 import { inputError } from './errors';
@@ -154,7 +154,7 @@ export function clusterProportions(request: ClusterProportionsRequest): Calculat
 
   const de = designEffect({ clusterSize: m!, icc, cv });
   const recruitment = clusterRecruitment(k!, m!, dropout, clusterDropout, 'units');
-  if (cv > 0) warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (Eldridge et al. 2006); clusterSize is the mean size.`);
+  if (cv > 0) warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (${ELDRIDGE_2006.short}); clusterSize is the mean size.`);
   warnings.push(...recruitment.warnings);
   return {
     kind: 'cluster-proportions',
@@ -179,8 +179,8 @@ export function clusterProportions(request: ClusterProportionsRequest): Calculat
     },
     feasibility,
     method:
-      `Normal approximation for two proportions (Fleiss, Levin & Paik 2003), ${TWO_SIDED(sides)}, at the effective number of units per arm: ` +
-      `clusters × units per cluster / design effect ${formatNumber(de)} (Donner & Klar 2000).`,
+      `Normal approximation for two proportions (${FLEISS_2003.short}), ${TWO_SIDED(sides)}, at the effective number of units per arm: ` +
+      `clusters × units per cluster / design effect ${formatNumber(de)} (${DONNER_KLAR_2000.short}).`,
     formula:
       'Power = Φ((|p1 − p2| × √n − z for alpha × √(2 × p̄ × (1 − p̄))) / √(p1(1 − p1) + p2(1 − p2))), with p̄ the mean of p1 and p2 and ' +
       'n = k × m / DE the effective units per arm: k clusters per arm of mean size m, design effect DE = 1 + ((cv² + 1) × m − 1) × ICC.',

@@ -29,8 +29,8 @@
  * t test (fixtures/generate_rates_proportions.R) within a few points of power. Bad input:
  * CalculationInputError.
  */
-import { HAYES_BENNETT_1999, HAYES_MOULTON_2017, ZHU_LAKKIS_2014 } from '@/lib/rules/citations';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { HAYES_BENNETT_1999, HAYES_MOULTON_2017, narrative, ZHU_LAKKIS_2014 } from '@/lib/citations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha, formatNumber } from './adjust';
 import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
 import { inputError } from './errors';
@@ -142,7 +142,7 @@ export function clusterRates(request: ClusterRatesRequest): CalculationOutput {
   const recruitment = clusterRecruitment(c!, m!, dropout, clusterDropout, 'participants');
   if (betweenClusterCv === 0) {
     warnings.push(
-      'A coefficient of variation of 0 assumes that the clusters’ underlying rates do not differ at all, which is rarely true; take a value from earlier studies of similar clusters (Hayes & Bennett 1999 explain how to estimate it).',
+      `A coefficient of variation of 0 assumes that the clusters’ underlying rates do not differ at all, which is rarely true; take a value from earlier studies of similar clusters (${HAYES_BENNETT_1999.short} explain how to estimate it).`,
     );
   }
   warnings.push(...recruitment.warnings);
@@ -166,7 +166,7 @@ export function clusterRates(request: ClusterRatesRequest): CalculationOutput {
     },
     feasibility,
     method:
-      `Clusters per arm by Hayes & Bennett (1999) for rates, ${TWO_SIDED(sides)}: a comparison of cluster rates with one cluster per arm added for the t distribution` +
+      `Clusters per arm by ${narrative(HAYES_BENNETT_1999)} for rates, ${TWO_SIDED(sides)}: a comparison of cluster rates with one cluster per arm added for the t distribution` +
       `${dispersion > 0 ? `, with variation between participants in a cluster (dispersion ${formatNumber(dispersion)})` : ''}.`,
     formula:
       'Clusters per arm c = 1 + (z for alpha + z for power)² × [(λ0 + λ1)/y + κ(λ0² + λ1²)/m + k²(λ0² + λ1²)] / (λ0 − λ1)², where λ0 is the baseline rate, ' +

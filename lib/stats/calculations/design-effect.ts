@@ -4,9 +4,9 @@
  * false-positive rate 2·(1 − Φ(z₁₋α/2/√DE)) of a test at level α that ignores the clustering.
  * A thin layer over lib/stats/design-effect.ts; it solves nothing.
  */
-import { DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/rules/citations';
+import { DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/citations';
 import { designEffect as de, effectiveSampleSize, naiveTypeIError } from '@/lib/stats/design-effect';
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import type { CalculationRequest } from './request';
 import { formatNumber } from './adjust';
 import { fullReferences } from './output';
 import type { CalculationOutput } from './types';
@@ -38,7 +38,7 @@ export function designEffectCalculation(request: DesignEffectRequest): Calculati
       naiveTypeIError: naive,
     },
     feasibility: 'ok',
-    method: 'Design effect for clusters of mean size m with intracluster correlation ICC (Kish 1965; unequal sizes, Eldridge et al. 2006).',
+    method: `Design effect for clusters of mean size m with intracluster correlation ICC (${KISH_1965.short}; unequal sizes, ${ELDRIDGE_2006.short}).`,
     formula:
       'Design effect = 1 + ((cv² + 1) × m − 1) × ICC; effective sample size = total observations / design effect; ' +
       'false-positive rate of an analysis that ignores clustering = 2 × (1 − Φ(z for alpha/2 / √design effect)).',

@@ -1,10 +1,10 @@
 /**
  * The analytic calculations of the Plan tab, the calculator pages and POST /api/v1/calculations:
- * `calculate` takes a parsed request (lib/validation/calculations.ts) and dispatches to one
+ * `calculate` takes a parsed request (lib/stats/calculations/request.ts) and dispatches to one
  * file per kind. It throws CalculationInputError (errors.ts) when the inputs do not fit
  * together; the API answers that with 400 and its `fields`.
  */
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import type { CalculationRequest } from './request';
 import { clusterMeans } from './cluster-means';
 import { clusterProportions } from './cluster-proportions';
 import { clusterRates } from './cluster-rates';

@@ -11,8 +11,8 @@
  * Valid range: the schema's; the times must not all be equal. Σ(tⱼ − t̄)² is computed about the
  * mean (two passes), not from raw sums. Accuracy and bad input: as summary-measure.ts.
  */
-import { DIGGLE_2002 } from '@/lib/rules/citations';
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import { DIGGLE_2002 } from '@/lib/citations';
+import type { CalculationRequest } from './request';
 import { dropoutWarning, formatNumber } from './adjust';
 import { inputError } from './errors';
 import { fullReferences, TWO_SIDED } from './output';
@@ -43,7 +43,7 @@ export function longitudinalSlopes(request: LongitudinalSlopesRequest): Calculat
     result: { ...solved.result, rho, times: [...times], sumOfSquaredTimeDeviations: sxx },
     feasibility: solved.feasibility,
     method:
-      `Normal approximation of Diggle et al. (2002, §2.4) for the difference in OLS slopes, compound symmetry, ${TWO_SIDED(request.sides)}; ` +
+      `Normal approximation of ${DIGGLE_2002.short} (§2.4) for the difference in OLS slopes, compound symmetry, ${TWO_SIDED(request.sides)}; ` +
       "'power' is the normal approximation, 'powerT' the noncentral t with df = 2n − 2.",
     formula:
       'n per group = (z for alpha + z for power)² × 2 × sd² × (1 − correlation) / (Σ(time − mean time)² × slope difference²), ' +

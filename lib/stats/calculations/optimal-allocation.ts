@@ -15,9 +15,9 @@
  *
  * Valid range: 0 < ICC < 1, positive costs, m* up to 1,000,000. Bad input: CalculationInputError.
  */
-import { COHEN_1988, DONNER_KLAR_2000, RAUDENBUSH_1997 } from '@/lib/rules/citations';
+import { COHEN_1988, DONNER_KLAR_2000, RAUDENBUSH_1997 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import type { CalculationRequest } from './request';
 import { adjustAlpha, formatNumber } from './adjust';
 import { clusterMeansPower, solveClustersPerArm } from './cluster-means';
 import { inputError } from './errors';
@@ -131,7 +131,7 @@ export function optimalAllocation(request: OptimalAllocationRequest): Calculatio
     result,
     feasibility,
     method:
-      'Cluster size that minimises the cost per unit of information (Raudenbush 1997); clusters and power at the whole-number size by the t test on cluster means (df = 2k − 2).',
+      `Cluster size that minimises the cost per unit of information (${RAUDENBUSH_1997.short}); clusters and power at the whole-number size by the t test on cluster means (df = 2k − 2).`,
     formula:
       'Best cluster size = √((cost per cluster / cost per unit) × (1 − ICC) / ICC), rounded to the neighbouring whole number with the lower ' +
       '(cost per cluster + m × cost per unit) × (ICC + (1 − ICC)/m); clusters per arm = budget / (2 × (cost per cluster + m × cost per unit)), rounded down.',

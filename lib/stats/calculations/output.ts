@@ -2,8 +2,8 @@
  * Pieces every calculation's output shares: references as full citations, the sentences for
  * impossible targets, and the attrition and multiplicity fields of `result`.
  */
-import { uniqueCitations } from '@/lib/rules/citations';
-import type { Citation } from '@/lib/rules/types';
+import { uniqueCitations } from '@/lib/citations';
+import type { Citation } from '@/lib/citations';
 import { dropoutWarning, formatNumber, toRecruit } from './adjust';
 import type { Feasibility } from './types';
 

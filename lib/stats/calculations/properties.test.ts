@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { calculationSchema } from '@/lib/validation/calculations';
+import { calculationSchema } from './request';
 import { clusterMeansPower } from './cluster-means';
 import { calculate } from './index';
 import { regressionPower } from './regression';

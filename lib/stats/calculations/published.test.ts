@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { calculationSchema } from '@/lib/validation/calculations';
+import { calculationSchema } from './request';
 import { calculate } from './index';
 import { costPerInformation, optimalClusterSize, optimalWholeClusterSize } from './optimal-allocation';
 import { frisonPocockFactor } from './repeated-measures';

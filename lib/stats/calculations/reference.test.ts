@@ -1,5 +1,5 @@
 import { describe, it } from 'vitest';
-import { calculationSchema } from '@/lib/validation/calculations';
+import { calculationSchema } from './request';
 import fixture from './fixtures/calculations.json';
 import { calculate } from './index';
 import { exactMismatch, expectNoMismatches, relativeMismatch, type Mismatch } from './testing';

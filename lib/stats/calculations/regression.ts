@@ -12,8 +12,8 @@
  * u ≤ k. Accuracy: that of the noncentral F and the F quantile; tested against R's pf and
  * pwr.f2.test to 1e-6 relative. Bad input: CalculationInputError.
  */
-import { COHEN_1988 } from '@/lib/rules/citations';
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import { COHEN_1988 } from '@/lib/citations';
+import type { CalculationRequest } from './request';
 import { adjustAlpha, dropoutWarning, formatNumber, toRecruit } from './adjust';
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, testSettings } from './output';
@@ -128,7 +128,7 @@ export function regression(request: RegressionRequest): CalculationOutput {
       totalToRecruit: nRecruit,
     },
     feasibility,
-    method: `Exact power of the F test of ${u} of ${k} predictor(s) (noncentral F, df = (${u}, n − ${k + 1}), noncentrality f² × n as in Cohen 1988).`,
+    method: `Exact power of the F test of ${u} of ${k} predictor(s) (noncentral F, df = (${u}, n − ${k + 1}), noncentrality f² × n as in ${COHEN_1988.short}).`,
     formula:
       'Power is the chance that an F statistic with (tested predictors, n − predictors − 1) degrees of freedom and noncentrality f² × n exceeds ' +
       `the critical value of the F distribution at alpha${form === 'slope' ? `; f² = slope² × sdX² / residualSd² (here ${formatNumber(slopeScale ** 2)} × slope²)` : ''}.`,

@@ -16,8 +16,8 @@
  * arithmetic on the normal quantiles (1e-14) and the noncentral t (1e-10 absolute); tested
  * against R's pnorm/pt. Bad input: CalculationInputError.
  */
-import { FRISON_POCOCK_1992, VICKERS_ALTMAN_2001 } from '@/lib/rules/citations';
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import { FRISON_POCOCK_1992, narrative, VICKERS_ALTMAN_2001 } from '@/lib/citations';
+import type { CalculationRequest } from './request';
 import { dropoutWarning, formatNumber } from './adjust';
 import { inputError } from './errors';
 import { fullReferences, TWO_SIDED } from './output';
@@ -67,7 +67,7 @@ export function repeatedMeasures(request: RepeatedMeasuresRequest): CalculationO
     ...dropoutWarning(request.dropout, 'subjects'),
   ];
   if (analysis === 'change' && rho < 0.5) {
-    warnings.push(`With a correlation of ${rho} (below 0.5), the change analysis is less precise than post; ANCOVA is better than both (Frison & Pocock 1992).`);
+    warnings.push(`With a correlation of ${rho} (below 0.5), the change analysis is less precise than post; ANCOVA is better than both (${FRISON_POCOCK_1992.short}).`);
   }
   const df = analysis === 'ancova' ? '2n − 3' : '2n − 2';
   return {
@@ -83,7 +83,7 @@ export function repeatedMeasures(request: RepeatedMeasuresRequest): CalculationO
     },
     feasibility: solved.feasibility,
     method:
-      `Normal approximation of Frison & Pocock (1992) for ${ANALYSIS_WORDS[analysis]}, compound symmetry, ${TWO_SIDED(request.sides)}; ` +
+      `Normal approximation of ${narrative(FRISON_POCOCK_1992)} for ${ANALYSIS_WORDS[analysis]}, compound symmetry, ${TWO_SIDED(request.sides)}; ` +
       `'power' is the normal approximation, 'powerT' the noncentral t with df = ${df}.`,
     formula:
       `n per group = (z for alpha + z for power)² × 2 × sd² × f / delta², with variance factor f = ${formatNumber(design.factor)} for ` +

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { calculationSchema } from '@/lib/validation/calculations';
+import { calculationSchema } from './request';
 import { CalculationInputError } from './errors';
 import { calculate } from './index';
 import { clustersGrid, powerCurve } from './sensitivity';

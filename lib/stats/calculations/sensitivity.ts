@@ -4,7 +4,7 @@
  * size. Both use the kinds' own power functions at the adjusted alpha, so a point on the curve
  * at the solved size equals the calculation's achieved power.
  */
-import type { CalculationRequest } from '@/lib/validation/calculations';
+import type { CalculationRequest } from './request';
 import { adjustAlpha } from './adjust';
 import { clusterMeansPower, solveClustersPerArm, type ClusterMeansRequest } from './cluster-means';
 import { inputError } from './errors';

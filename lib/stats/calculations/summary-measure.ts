@@ -19,7 +19,7 @@ import { tTestPower, zSum, zTestPower, type Sides } from './power';
 import { findUnknown, presence, requireTargetPower, solveSize } from './solve';
 import type { Feasibility, ResultValue } from './types';
 import type { Multiplicity } from './adjust';
-import type { Citation } from '@/lib/rules/types';
+import type { Citation } from '@/lib/citations';
 
 export const MAX_N_PER_GROUP = 10_000_000;
 

@@ -6,7 +6,7 @@
  */
 import { expect } from 'vitest';
 import { expectNoMismatches, mismatch, type Mismatch } from '@/lib/stats/test-helpers';
-import { calculationSchema } from '@/lib/validation/calculations';
+import { calculationSchema } from './request';
 import { CalculationInputError } from './errors';
 import { calculate } from './index';
 

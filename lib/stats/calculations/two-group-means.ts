@@ -10,8 +10,8 @@
  * noncentral t (absolute 1e-10); tested against R's power.t.test(strict = TRUE) and
  * pwr.t2n.test to 1e-6 relative. Bad input: CalculationInputError.
  */
-import { COHEN_1988 } from '@/lib/rules/citations';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { COHEN_1988 } from '@/lib/citations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha, dropoutWarning, roundUp, toRecruit } from './adjust';
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';

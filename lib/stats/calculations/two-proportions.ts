@@ -14,10 +14,10 @@
  * Valid range: 0 < p1, p2 < 1, the schema's bounds. Accuracy: that of Φ and Φ⁻¹ (1e-14); tested
  * against R's power.prop.test to 1e-6. Bad input: CalculationInputError.
  */
-import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003 } from '@/lib/rules/citations';
+import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
 import { normalSf } from '@/lib/stats/normal';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha, dropoutWarning, formatNumber, roundUp, toRecruit } from './adjust';
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
@@ -115,7 +115,7 @@ export function twoProportions(request: TwoProportionsRequest): CalculationOutpu
       }
     : { icc: null, clusterSize: null, designEffect: 1 };
   warnings.push(...dropoutWarning(dropout, 'units'));
-  if (clustered && cv > 0) warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (Eldridge et al. 2006).`);
+  if (clustered && cv > 0) warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (${ELDRIDGE_2006.short}).`);
   return {
     kind: 'two-proportions',
     solvedFor,
@@ -135,7 +135,7 @@ export function twoProportions(request: TwoProportionsRequest): CalculationOutpu
     },
     feasibility,
     method:
-      `Normal approximation for two independent proportions (Fleiss, Levin & Paik 2003), ${TWO_SIDED(sides)}` +
+      `Normal approximation for two independent proportions (${FLEISS_2003.short}), ${TWO_SIDED(sides)}` +
       `${continuityCorrection ? ', with continuity correction' : ', without continuity correction'}` +
       `${clustered ? `, multiplied by the design effect ${formatNumber(de)}` : ''}.`,
     formula:

@@ -28,9 +28,9 @@
  * points of power when each arm expects a few dozen events or more; with very few events it is
  * rough (a warning says so). Bad input: CalculationInputError.
  */
-import { ZHU_LAKKIS_2014 } from '@/lib/rules/citations';
+import { ZHU_LAKKIS_2014 } from '@/lib/citations';
 import { brentRoot } from '@/lib/stats/root';
-import { SOLVABLE, type CalculationRequest } from '@/lib/validation/calculations';
+import { SOLVABLE, type CalculationRequest } from './request';
 import { adjustAlpha, dropoutWarning, formatNumber, toRecruit } from './adjust';
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
@@ -182,7 +182,7 @@ export function twoRates(request: TwoRatesRequest): CalculationOutput {
       totalToRecruit: n0Recruit + n1Recruit,
     },
     feasibility,
-    method: `Wald test on the log rate ratio, ${TWO_SIDED(sides)}, for ${model}, with the variance at the expected rates (Zhu & Lakkis 2014).`,
+    method: `Wald test on the log rate ratio, ${TWO_SIDED(sides)}, for ${model}, with the variance at the expected rates (${ZHU_LAKKIS_2014.short}).`,
     formula:
       'Power = Φ(|log RR| / SE − z for alpha), SE² = (1/(λ0 × t) + κ)/n1 + (1/(λ1 × t) + κ)/n2, where λ0 is the baseline rate, λ1 = RR × λ0, ' +
       't the follow-up time per participant, κ the negative binomial dispersion (0 for Poisson counts) and n1, n2 the participants per group.',

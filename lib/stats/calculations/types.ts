@@ -2,7 +2,7 @@
  * What every calculation returns: the API's body (`result`, `method`, `references`,
  * `warnings`) plus what the Plan tab and the calculator pages show beside the number.
  */
-import type { CalculationKind } from '@/lib/validation/calculations';
+import type { CalculationKind } from './request';
 
 export type ResultValue = number | string | boolean | null | number[];
 
@@ -21,7 +21,7 @@ export interface CalculationOutput {
   method: string;
   /** The formula in words, for the Plan tab and the justification. */
   formula: string;
-  /** Full references, as in lib/rules/citations.ts `full`. */
+  /** Full references, as in lib/citations.ts `full`. */
   references: string[];
   /** Plain sentences: impossible targets, approximations in use, adjustments applied. */
   warnings: string[];

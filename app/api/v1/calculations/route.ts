@@ -3,7 +3,7 @@ import { runCalculation } from '@/lib/api/calculations';
 import { actorFromRequest } from '@/lib/auth/session';
 import { db } from '@/lib/db';
 import { clientAddress, enforce, LIMITS } from '@/lib/rate-limit';
-import { calculationSchema } from '@/lib/validation/calculations';
+import { calculationSchema } from '@/lib/stats/calculations/request';
 
 /**
  * POST /api/v1/calculations — sample size, power or smallest detectable effect; no sign-in.

@@ -8,6 +8,7 @@ import { Alert } from '@/components/ui/alert';
 import { canStudy } from '@/lib/auth/permissions';
 import { currentActor, type Actor } from '@/lib/auth/session';
 import { getDesign } from '@/lib/data/designs';
+import { MORRIS_2019 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { defaultSimulationSpec, getSimulation, listStudySimulations } from '@/lib/data/simulations';
 import { getStudy } from '@/lib/data/studies';
@@ -15,7 +16,7 @@ import { AppError } from '@/lib/errors';
 import type { SimulationDto } from '@/lib/jobs/dto';
 import { load } from '@/lib/page-guard';
 import { offeredAnalyses } from '@/lib/sim/analyses';
-import type { SimulationSpec } from '@/lib/validation/simulations';
+import type { SimulationSpec } from '@/lib/sim/spec';
 
 export const metadata: Metadata = { title: 'Stress test' };
 
@@ -74,8 +75,7 @@ export default async function StressTestPage({ params, searchParams }: { params:
           <p className="text-sm">
             Simulates data sets from the saved design many times, breaks one assumption at a time, and analyses each data set with several analyses: how
             often each finds the planned effect (power), how often it finds an effect that is not there (false-positive rate, from a paired run at zero
-            effect), and whether its 95% confidence intervals hold the true effect 95% of the time. Every figure carries its Monte Carlo SE (Morris, White &
-            Crowther 2019, Stat Med 38:2074).
+            effect), and whether its 95% confidence intervals hold the true effect 95% of the time. Every figure carries its Monte Carlo SE ({MORRIS_2019.short}).
           </p>
           <p className="text-sm text-muted">
             The defaults come from the{' '}

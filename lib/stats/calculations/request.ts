@@ -8,7 +8,8 @@
  * Bounds keep every calculation finite and fast; the messages say what to fix.
  */
 import { z } from 'zod';
-import { rawText } from './common';
+import { DIGGLE_2002, FRISON_POCOCK_1992, HAYES_BENNETT_1999, narrative, RAUDENBUSH_1997 } from '@/lib/citations';
+import { rawText } from '@/lib/text-schema';
 
 const num = (label: string) => z.number({ error: `${label} must be a number.` }).finite(`${label} must be finite.`);
 const positive = (label: string, max = 1e9) => num(label).gt(0, `${label} must be above 0.`).max(max, `${label} can be at most ${max.toLocaleString('en-GB')}.`);
@@ -91,7 +92,7 @@ export const repeatedMeasuresSchema = z
     sides,
     ...common,
   })
-  .meta({ id: 'RepeatedMeasures', description: 'Two groups, mean of baselines and of follow-ups (Frison & Pocock 1992).' });
+  .meta({ id: 'RepeatedMeasures', description: `Two groups, mean of baselines and of follow-ups (${FRISON_POCOCK_1992.short}).` });
 
 export const longitudinalSlopesSchema = z
   .object({
@@ -104,7 +105,7 @@ export const longitudinalSlopesSchema = z
     sides,
     ...common,
   })
-  .meta({ id: 'LongitudinalSlopes', description: 'Difference in rates of change between two groups (Diggle et al. 2002).' });
+  .meta({ id: 'LongitudinalSlopes', description: `Difference in rates of change between two groups (${DIGGLE_2002.short}).` });
 
 /**
  * The effect on a yes-or-no outcome: the proportion p2 itself, or its difference from p1
@@ -187,7 +188,7 @@ export const clusterRatesSchema = z
     clusterDropout: num('clusterDropout').min(0, 'clusterDropout is at least 0.').max(0.9, 'clusterDropout can be at most 0.9.').default(0),
     ...common,
   })
-  .meta({ id: 'ClusterRates', description: 'Two event rates, whole clusters randomised: clusters per arm by Hayes & Bennett (1999).' });
+  .meta({ id: 'ClusterRates', description: `Two event rates, whole clusters randomised: clusters per arm by ${narrative(HAYES_BENNETT_1999)}.` });
 
 export const designEffectSchema = z
   .object({
@@ -216,7 +217,7 @@ export const optimalAllocationSchema = z
     outcomes: common.outcomes.unwrap().optional(),
     multiplicity: common.multiplicity.unwrap().optional(),
   })
-  .meta({ id: 'OptimalAllocation', description: 'Cluster size that minimises cost per unit of information (Raudenbush 1997), with clusters for a budget or the budget for a target.' });
+  .meta({ id: 'OptimalAllocation', description: `Cluster size that minimises cost per unit of information (${RAUDENBUSH_1997.short}), with clusters for a budget or the budget for a target.` });
 
 export const calculationSchema = z
   .discriminatedUnion(
@@ -244,6 +245,13 @@ export const calculationSchema = z
 export type CalculationRequest = z.infer<typeof calculationSchema>;
 export type CalculationKind = CalculationRequest['kind'];
 export const CALCULATION_KINDS = calculationSchema.options.map((o) => o.shape.kind.value) as CalculationKind[];
+
+/** The values a kind's request takes for the inputs left out: its schema's defaults, by name. */
+export function requestDefaults(kind: CalculationKind): Record<string, unknown> {
+  const option = calculationSchema.options.find((o) => o.shape.kind.value === kind);
+  const shape = (option?.shape ?? {}) as Record<string, z.ZodType>;
+  return Object.fromEntries(Object.entries(shape).flatMap(([name, field]) => (field instanceof z.ZodDefault ? [[name, field.def.defaultValue]] : [])));
+}
 
 /**
  * The quantities each kind can solve for: the caller leaves exactly one out (or names it in

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { defaultSequences, rowsPerDataset, scenarioKey, simulationSpecSchema, type SimulationSpecInput } from './simulations';
+import { defaultSequences, rowsPerDataset, scenarioKey, simulationSpecSchema, type SimulationSpecInput } from './spec';
 
 const base: SimulationSpecInput = {
   design: { arms: 2, clustersPerArm: 10, clusterSize: 20 },

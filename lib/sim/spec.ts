@@ -4,10 +4,13 @@
  * and the number of replicates, seed and alpha.
  *
  * Bounds keep a job finite: at most 100,000 replicates, 50,000 rows per data set, 20 scenarios,
- * and replicates × scenarios × rows ≤ 500 million generated observations per hypothesis. Scenario
- * parameters have defaults (heavy-tailed ν = 3; outliers fraction 0.05, scale 5; unequal variance
- * by arm with sdRatio 2; nonlinear quadratic of strength 1; serial AR(1) 0.5; skewed: standardised
- * log-normal with σ_log 0.8; carry-over half the effect). Messages say what to fix.
+ * and replicates × scenarios × rows ≤ 500 million generated observations per hypothesis. The
+ * scenarios' number parameters have the ranges and defaults of `SCENARIO_RANGES` (unequal variance
+ * by arm and a quadratic curve by default). Messages say what to fix.
+ *
+ * This is the engine's contract: the request envelope of POST /api/v1/simulations
+ * (lib/validation/simulation-run.ts) wraps it, and the Stress test tab's form takes its bounds and
+ * defaults from the ranges exported here.
  *
  * Design shapes: independent units (`unitsPerArm`) or clusters (`clustersPerArm`,
  * `clusterSize`), optionally measured at `occasions` (repeated measures, or sub-samples such as
@@ -18,16 +21,59 @@
  */
 import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
-import { clusterSizes } from '@/lib/sim/cluster-sizes';
-import { sigmaForIcc } from '@/lib/sim/logit-normal';
-import { rawText } from './common';
+import { clusterSizes } from './cluster-sizes';
+import { sigmaForIcc } from './logit-normal';
+import { rawText } from '@/lib/text-schema';
 
 export const MAX_REPLICATES = 100_000;
 export const MAX_ROWS = 50_000;
 export const MAX_SCENARIOS = 20;
 export const MAX_GENERATED_OBSERVATIONS = 500_000_000;
 
+/**
+ * The range of a number in the specification: from `min` (itself allowed unless `minOpen`) to
+ * `max` (allowed), and the value taken when it is left out. The schema below is built from these
+ * ranges, and so is the Stress test tab's form (components/stress-test/run-form-schema.ts), so the
+ * two cannot disagree.
+ */
+export interface Range {
+  min: number;
+  minOpen?: boolean;
+  max: number;
+  default: number;
+}
+
+export const REPLICATES = { min: 10, max: MAX_REPLICATES, default: 1000 } as const satisfies Range;
+export const SEED = { min: 0, max: Number.MAX_SAFE_INTEGER, default: 1 } as const satisfies Range;
+export const ALPHA = { min: 0, minOpen: true, max: 0.5, default: 0.05 } as const satisfies Range;
+
+/** The number parameters of each scenario; `why` completes the message for a value at or below an open `min`. */
+export const SCENARIO_RANGES = {
+  skewed: {
+    /** σ of the log-normal before standardising. */
+    sigmaLog: { min: 0, minOpen: true, max: 2, default: 0.8 },
+  },
+  'heavy-tailed': { df: { min: 2, minOpen: true, max: 1000, default: 3, why: 'so that the errors have a finite SD' } },
+  outliers: {
+    fraction: { min: 0, minOpen: true, max: 0.5, default: 0.05 },
+    scale: { min: 1, minOpen: true, max: 100, default: 5 },
+  },
+  'unequal-variance': { sdRatio: { min: 0.05, max: 20, default: 2 } },
+  nonlinear: { strength: { min: -10, max: 10, default: 1 } },
+  serial: { ar: { min: -0.99, max: 0.99, default: 0.5 } },
+  'carry-over': { fraction: { min: -10, max: 10, default: 0.5 } },
+} as const satisfies Record<string, Record<string, Range & { why?: string }>>;
+
+/** A bound as written in a message: "1,000", "−0.99". */
+export const formatBound = (x: number) => x.toLocaleString('en-GB', { maximumFractionDigits: 6 }).replace('-', '−');
+
 const num = (label: string) => z.number({ error: `${label} must be a number.` }).finite(`${label} must be finite.`);
+/** A number in `range`, with its default. */
+const ranged = (label: string, range: Range & { why?: string }) => {
+  const why = range.why ? `, ${range.why}` : '';
+  const low = range.minOpen ? num(label).gt(range.min, `${label} must be above ${formatBound(range.min)}${why}.`) : num(label).min(range.min, `${label} is at least ${formatBound(range.min)}.`);
+  return low.max(range.max, `${label} can be at most ${formatBound(range.max)}.`).default(range.default);
+};
 const whole = (label: string, min: number, max: number) =>
   z
     .number({ error: `${label} must be a number.` })
@@ -215,29 +261,28 @@ export const scenarioSchema = z.discriminatedUnion(
   [
     scenario('none', {}),
     scenario('skewed', {
-      /** σ of the log-normal before standardising. */
-      sigmaLog: num('sigmaLog').gt(0, 'sigmaLog must be above 0.').max(2, 'sigmaLog can be at most 2.').default(0.8),
+      sigmaLog: ranged('sigmaLog', SCENARIO_RANGES.skewed.sigmaLog),
     }),
     scenario('heavy-tailed', {
-      df: num('df').gt(2, 'df must be above 2, so that the errors have a finite SD.').max(1000, 'df can be at most 1,000.').default(3),
+      df: ranged('df', SCENARIO_RANGES['heavy-tailed'].df),
     }),
     scenario('outliers', {
-      fraction: num('fraction').gt(0, 'fraction must be above 0.').max(0.5, 'fraction can be at most 0.5.').default(0.05),
-      scale: num('scale').gt(1, 'scale must be above 1.').max(100, 'scale can be at most 100.').default(5),
+      fraction: ranged('fraction', SCENARIO_RANGES.outliers.fraction),
+      scale: ranged('scale', SCENARIO_RANGES.outliers.scale),
     }),
     scenario('unequal-variance', {
       model: z.enum(['arm', 'covariate', 'mean'], { error: 'model is arm, covariate or mean.' }).default('arm'),
-      sdRatio: num('sdRatio').min(0.05, 'sdRatio is at least 0.05.').max(20, 'sdRatio can be at most 20.').default(2),
+      sdRatio: ranged('sdRatio', SCENARIO_RANGES['unequal-variance'].sdRatio),
     }),
     scenario('nonlinear', {
       shape: z.enum(['quadratic', 'logarithmic', 'threshold'], { error: 'shape is quadratic, logarithmic or threshold.' }).default('quadratic'),
       /** The predictor whose relation is curved; time by default when there are occasions, else a covariate. */
       on: z.enum(['time', 'covariate'], { error: 'on is time or covariate.' }).optional(),
       /** Rise of the curve over the predictor's range, in SDs of the outcome. */
-      strength: between('strength', -10, 10).default(1),
+      strength: ranged('strength', SCENARIO_RANGES.nonlinear.strength),
     }),
     scenario('serial', {
-      ar: num('ar').min(-0.99, 'ar is at least −0.99.').max(0.99, 'ar can be at most 0.99.').default(0.5),
+      ar: ranged('ar', SCENARIO_RANGES.serial.ar),
     }),
     scenario('carry-over', {
       /**
@@ -245,7 +290,7 @@ export const scenarioSchema = z.discriminatedUnion(
        * of the run's effect (default 0.5, so none when there is no effect), or, when given, a fixed
        * `size` (outcome scale for gaussian, link scale otherwise) in both runs.
        */
-      fraction: between('fraction', -10, 10).default(0.5),
+      fraction: ranged('fraction', SCENARIO_RANGES['carry-over'].fraction),
       size: between('size', -1e6, 1e6).optional(),
     }),
   ],
@@ -264,9 +309,9 @@ export const simulationSpecSchema = z
       .array(z.enum(ANALYSIS_NAMES, { error: `Each analysis is one of ${ANALYSIS_NAMES.join(', ')}.` }), { error: 'analyses is a list.' })
       .min(1, 'Give at least one analysis.')
       .max(ANALYSIS_NAMES.length, `Give at most ${ANALYSIS_NAMES.length} analyses.`),
-    replicates: whole('replicates', 10, MAX_REPLICATES).default(1000),
-    seed: whole('seed', 0, Number.MAX_SAFE_INTEGER).default(1),
-    alpha: num('alpha').gt(0, 'alpha must be above 0.').max(0.5, 'alpha can be at most 0.5.').default(0.05),
+    replicates: whole('replicates', REPLICATES.min, REPLICATES.max).default(REPLICATES.default),
+    seed: whole('seed', SEED.min, SEED.max).default(SEED.default),
+    alpha: ranged('alpha', ALPHA),
   })
   .superRefine((spec, ctx) => {
     const { design, truth } = spec;

@@ -1,11 +1,21 @@
 /**
- * The published methods the rules cite. `full` keeps what PRODUCT.md gives (its note: titles
- * from memory, verify details before citing); nothing is added except the titles of three books
- * PRODUCT.md names without one (the Fleiss, Levin & Paik title is from memory). The last group is outside PRODUCT.md's list: three standard
- * references the list has no entry for (multiplicity, GLM families, extrapolation). Verify all
- * of them before a reference list is exported.
+ * The bibliography: every published method the app names — in the checks (lib/rules), the
+ * calculations and their methods (lib/stats), the estimators and the stress test (lib/models,
+ * lib/sim), the Plan and the pages — is one constant here; text that names a source takes its
+ * words from the constant (`c.short` in brackets, `narrative(c)` for "Hayes & Bennett (1999)")
+ * instead of restating them. A leaf: it imports nothing of the app, so every layer may import it.
+ *
+ * `full` keeps what PRODUCT.md gives (its note: titles from memory, verify details before
+ * citing); nothing is added except the titles of three books PRODUCT.md names without one (the
+ * Fleiss, Levin & Paik title is from memory). The group after it is outside PRODUCT.md's list:
+ * three standard references the list has no entry for (multiplicity, GLM families,
+ * extrapolation). Verify all of them before a reference list is exported.
  */
-import type { Citation } from './types';
+/** `short` as cited in text ('Kish 1965'); `full` the reference as PRODUCT.md gives it. */
+export interface Citation {
+  short: string;
+  full: string;
+}
 
 const cite = (short: string, full: string): Citation => ({ short, full });
 
@@ -37,6 +47,11 @@ export const CONSORT_CLUSTER_2010 = cite('CONSORT 2010 cluster extension', "CONS
 export const HOLM_1979 = cite('Holm 1979', 'Holm (1979). A simple sequentially rejective multiple test procedure. Scand J Statist 6:65.');
 export const MCCULLAGH_NELDER_1989 = cite('McCullagh & Nelder 1989', 'McCullagh & Nelder (1989). Generalized Linear Models (2nd ed.).');
 export const GELMAN_HILL_2007 = cite('Gelman & Hill 2007', 'Gelman & Hill (2007). Data Analysis Using Regression and Multilevel/Hierarchical Models.');
+
+/** The citation as the subject of a sentence: "Hayes & Bennett (1999)" for short "Hayes & Bennett 1999". */
+export function narrative(c: Citation): string {
+  return c.short.replace(/ (\d{4})$/, ' ($1)');
+}
 
 /** Citations in first-seen order, each once. */
 export function uniqueCitations(list: readonly Citation[]): Citation[] {
