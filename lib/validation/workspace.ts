@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { WORKSPACE_ROLES } from '@/db/schema';
-import { emailSchema, idSchema, rawText, text } from './common';
+import { emailSchema, rawText, text } from './common';
 
 export const workspaceCreateSchema = z
   .object({ name: text('Workspace name', 2, 100).meta({ example: 'Harrow Vale Institute' }) })
@@ -22,7 +22,3 @@ export const workspaceMemberRoleUpdateSchema = z
 export const invitationAcceptSchema = z
   .object({ token: rawText('The invitation link').min(20, 'This invitation link is incomplete.').max(200, 'This invitation link is too long.') })
   .meta({ id: 'InvitationAccept' });
-
-export const workspaceSchema = z
-  .object({ id: idSchema, name: z.string(), slug: z.string(), role: z.enum(WORKSPACE_ROLES) })
-  .meta({ id: 'Workspace' });
