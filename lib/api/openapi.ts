@@ -1,7 +1,10 @@
 /**
- * The OpenAPI 3.1 document of /api/v1, generated from the same zod schemas that validate the
- * requests (@asteasolutions/zod-to-openapi). Every route handler under app/api/v1 has an entry
- * here; tests/integration/openapi.test.ts checks that the two lists agree.
+ * The OpenAPI 3.1 document of /api/v1, generated (@asteasolutions/zod-to-openapi) from the same
+ * zod schemas that validate the requests and that type the code building the answers
+ * (./dto.ts, ./simulations.ts, the engine's calculation result). Every route handler under
+ * app/api/v1 has an entry here; tests/integration/openapi.test.ts checks that the two lists
+ * agree, and the integration suite checks every 2xx answer against the schema named here for
+ * its route, method and status (tests/support/api-contract.ts).
  */
 import { OpenAPIRegistry, OpenApiGeneratorV31, type RouteConfig } from '@asteasolutions/zod-to-openapi';
 import { z } from 'zod';
