@@ -5,6 +5,7 @@ import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { apiFetch, ApiError } from '@/lib/api/client';
+import type { DesignSaved } from '@/lib/api/dto';
 import { stepStates } from '@/lib/design/progress';
 import { DESIGN_STEPS, type Design, type DesignPart } from '@/lib/design/schema';
 import { runChecks } from '@/lib/rules/registry';
@@ -67,7 +68,7 @@ export function DesignWizard({
     if (!canEdit) return;
     setSave({ kind: 'saving' });
     try {
-      const res = await apiFetch<{ revision: number; design: Design; savedAt: string; savedBy: string; merged: boolean }>(`/api/v1/studies/${studyId}/design`, {
+      const res = await apiFetch<DesignSaved>(`/api/v1/studies/${studyId}/design`, {
         method: 'PUT',
         json: { baseRevision: revision.current, design: latest.current },
       });

@@ -7,18 +7,8 @@ import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { TextAreaField } from '@/components/ui/field';
 import { apiFetch } from '@/lib/api/client';
+import type { FindingNoteDto } from '@/lib/api/dto';
 import type { Finding } from '@/lib/rules/types';
-
-interface Note {
-  id: string;
-  ruleId: string;
-  key: string;
-  status: 'addressed' | 'reopened';
-  reason: string;
-  revision: number;
-  actorName: string | null;
-  createdAt: string;
-}
 
 const SEVERITY: Record<Finding['severity'], { label: string; border: string }> = {
   blocker: { label: 'Blocker', border: 'border-danger' },
@@ -35,7 +25,7 @@ function numberText(k: string, v: number): string {
 /** The findings of the rules module, each with its reasoning, and a history of "addressed" notes. */
 export function FindingsList({ studyId, findings, canAddress }: { studyId: string; findings: Finding[]; canAddress: boolean }) {
   const queryClient = useQueryClient();
-  const notes = useQuery({ queryKey: ['finding-notes', studyId], queryFn: () => apiFetch<{ items: Note[] }>(`/api/v1/studies/${studyId}/finding-notes`) });
+  const notes = useQuery({ queryKey: ['finding-notes', studyId], queryFn: () => apiFetch<{ items: FindingNoteDto[] }>(`/api/v1/studies/${studyId}/finding-notes`) });
   const [open, setOpen] = useState<string | null>(null);
   const [reason, setReason] = useState('');
   const add = useMutation({

@@ -4,17 +4,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { apiFetch } from '@/lib/api/client';
-
-interface Invitation {
-  id: string;
-  email: string;
-  workspaceRole: string;
-  studyRole: string | null;
-  state: 'pending' | 'accepted' | 'revoked' | 'expired';
-  delivery: 'sending' | 'sent' | 'retrying' | 'failed' | null;
-  expiresAt: string;
-  invitedBy: string | null;
-}
+import type { InvitationDto as Invitation } from '@/lib/api/dto';
 
 /** While an e-mail is on its way, the list asks again this often. */
 const REFRESH_WHILE_SENDING_MS = 3_000;

@@ -3,13 +3,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { Alert } from '@/components/ui/alert';
 import { apiFetch } from '@/lib/api/client';
-
-interface Member {
-  userId: string;
-  name: string | null;
-  email: string;
-  role: string;
-}
+import type { MemberDto } from '@/lib/api/dto';
 
 /**
  * Members with their roles. Those who may manage members get a role menu and a remove button;
@@ -31,7 +25,7 @@ export function MembersList({
   selfId: string;
 }) {
   const queryClient = useQueryClient();
-  const members = useQuery({ queryKey, queryFn: () => apiFetch<{ items: Member[] }>(endpoint) });
+  const members = useQuery({ queryKey, queryFn: () => apiFetch<{ items: MemberDto[] }>(endpoint) });
   const change = useMutation({
     mutationFn: ({ userId, role }: { userId: string; role: string }) => apiFetch(`${endpoint}/${userId}`, { method: 'PATCH', json: { role } }),
     onSettled: () => queryClient.invalidateQueries({ queryKey }),

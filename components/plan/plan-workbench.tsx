@@ -18,7 +18,8 @@ import type { CalculationOutput } from '@/lib/stats/calculations/types';
 import { SOLVABLE, type CalculationKind, type CalculationRequest } from '@/lib/stats/calculations/request';
 import { ClusterHeatmap, type HeatCell } from './cluster-heatmap';
 import { PlanInputs, type InputValues } from './plan-inputs';
-import { savedResultsKey, SavedResults, type SavedResultDto } from './saved-results';
+import type { PlanResultDto } from '@/lib/api/dto';
+import { savedResultsKey, SavedResults } from './saved-results';
 import { initialValues, modeOf, toPlanRequest, visibleFields } from './values';
 
 // recharts draws in the browser only: the charts load on the client.
@@ -33,7 +34,7 @@ export interface PlanWorkbenchProps {
   revision: number;
   draft: PlanDraft & { kind: CalculationKind };
   canSave: boolean;
-  saved: SavedResultDto[];
+  saved: PlanResultDto[];
 }
 
 const capital = (s: string) => (s ? s[0]!.toUpperCase() + s.slice(1) : s);
@@ -127,7 +128,7 @@ export function PlanWorkbench({ studyId, revision, draft, canSave, saved }: Plan
 
   const queryClient = useQueryClient();
   const save = useMutation({
-    mutationFn: (request: CalculationRequest) => apiFetch<SavedResultDto>(`/api/v1/studies/${studyId}/plans`, { method: 'POST', json: { request, revision, ...(note.trim() ? { note: note.trim() } : {}) } }),
+    mutationFn: (request: CalculationRequest) => apiFetch<PlanResultDto>(`/api/v1/studies/${studyId}/plans`, { method: 'POST', json: { request, revision, ...(note.trim() ? { note: note.trim() } : {}) } }),
     onSuccess: async () => {
       setNote('');
       await queryClient.invalidateQueries({ queryKey: savedResultsKey(studyId) });

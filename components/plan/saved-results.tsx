@@ -4,17 +4,8 @@ import { useQuery } from '@tanstack/react-query';
 import { formatValue, labelOf } from '@/components/calculations/format';
 import { kindInfo } from '@/components/calculations/kinds';
 import { apiFetch } from '@/lib/api/client';
+import type { PlanResultDto } from '@/lib/api/dto';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
-
-export interface SavedResultDto {
-  id: string;
-  revision: number;
-  kind: string;
-  output: CalculationOutput;
-  note: string | null;
-  createdByName: string | null;
-  createdAt: string;
-}
 
 export const savedResultsKey = (studyId: string) => ['plan-results', studyId] as const;
 
@@ -29,10 +20,10 @@ export function headline(output: CalculationOutput): string {
 const WHEN = new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' });
 
 /** Results saved to the study, newest first: revision, who, when and the headline. */
-export function SavedResults({ studyId, initial, currentRevision }: { studyId: string; initial: SavedResultDto[]; currentRevision: number }) {
+export function SavedResults({ studyId, initial, currentRevision }: { studyId: string; initial: PlanResultDto[]; currentRevision: number }) {
   const q = useQuery({
     queryKey: savedResultsKey(studyId),
-    queryFn: () => apiFetch<{ items: SavedResultDto[] }>(`/api/v1/studies/${studyId}/plans`),
+    queryFn: () => apiFetch<{ items: PlanResultDto[] }>(`/api/v1/studies/${studyId}/plans`),
     initialData: { items: initial },
   });
   const items = q.data.items;

@@ -1,7 +1,7 @@
 'use client';
 
 import Link from 'next/link';
-import type { SimulationDto } from '@/lib/jobs/dto';
+import type { SimulationDto } from '@/lib/api/simulations';
 
 const STATUS: Record<SimulationDto['status'], string> = { queued: 'Queued', running: 'Running', done: 'Done', failed: 'Failed', cancelled: 'Cancelled' };
 

@@ -1,6 +1,6 @@
 'use client';
 
-import type { SimulationDto } from '@/lib/jobs/dto';
+import type { SimulationDto } from '@/lib/api/simulations';
 import { Button } from '@/components/ui/button';
 
 const STATUS_WORDS: Record<SimulationDto['status'], string> = {

@@ -4,7 +4,7 @@ import { useQueries } from '@tanstack/react-query';
 import { CartesianGrid, ErrorBar, Label, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { axisStyle, CHART, chartMargin } from '@/components/plan/chart-style';
 import { apiFetch } from '@/lib/api/client';
-import type { SimulationDto } from '@/lib/jobs/dto';
+import type { SimulationDto } from '@/lib/api/simulations';
 import type { SimulationSpec, SimulationSpecInput } from '@/lib/sim/spec';
 import { scenarioKey } from '@/lib/sim/spec';
 import { sizeOf, sweepScenario, sweepSpecs, SWEEP_FACTORS } from './sweep';

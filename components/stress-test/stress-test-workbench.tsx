@@ -6,7 +6,7 @@ import { usePathname, useSearchParams } from 'next/navigation';
 import { useEffect, useState } from 'react';
 import { Alert } from '@/components/ui/alert';
 import { ApiError, apiFetch } from '@/lib/api/client';
-import type { SimulationDto } from '@/lib/jobs/dto';
+import type { SimulationDto } from '@/lib/api/simulations';
 import type { AnalysisName } from '@/lib/models/types';
 import { scenarioKey, type SimulationSpec, type SimulationSpecInput } from '@/lib/sim/spec';
 import { PastRuns } from './past-runs';

@@ -8,16 +8,9 @@ import { useEffect, useMemo, useState } from 'react';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { apiFetch } from '@/lib/api/client';
-import type { StudyDto } from '@/lib/api/dto';
+import type { StudyDto, StudyPage as Page } from '@/lib/api/dto';
 
 type SortKey = 'title' | 'status' | 'role' | 'updated' | 'created';
-
-interface Page {
-  items: StudyDto[];
-  total: number;
-  page: number;
-  pageSize: number;
-}
 
 const STATUS_LABEL: Record<string, string> = { draft: 'Draft', 'in-review': 'In review', 'signed-off': 'Signed off', archived: 'Archived' };
 

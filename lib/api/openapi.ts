@@ -1,30 +1,47 @@
 /**
- * The OpenAPI 3.1 document of /api/v1, generated from the same zod schemas that validate the
- * requests (@asteasolutions/zod-to-openapi). Every route handler under app/api/v1 has an entry
- * here; tests/integration/openapi.test.ts checks that the two lists agree.
+ * The OpenAPI 3.1 document of /api/v1, generated (@asteasolutions/zod-to-openapi) from the same
+ * zod schemas that validate the requests and that type the code building the answers
+ * (./dto.ts, ./simulations.ts, the engine's calculation result). Every route handler under
+ * app/api/v1 has an entry here; tests/integration/openapi.test.ts checks that the two lists
+ * agree, and the integration suite checks every 2xx answer against the schema named here for
+ * its route, method and status (tests/support/api-contract.ts).
  */
 import { OpenAPIRegistry, OpenApiGeneratorV31, type RouteConfig } from '@asteasolutions/zod-to-openapi';
 import { z } from 'zod';
-import { studyCreateSchema, studyListQuerySchema, studySchema, studyUpdateSchema } from '@/lib/validation/study';
+import { studyCreateSchema, studyListQuerySchema, studyUpdateSchema } from '@/lib/validation/study';
 import { memberRoleUpdateSchema, studyInvitationCreateSchema } from '@/lib/validation/member';
 import {
   invitationAcceptSchema,
   workspaceCreateSchema,
   workspaceInvitationCreateSchema,
   workspaceMemberRoleUpdateSchema,
-  workspaceSchema,
 } from '@/lib/validation/workspace';
 import { checkRunSchema, designSaveSchema, findingNoteSchema } from '@/lib/validation/design';
 import { planResultSaveSchema } from '@/lib/validation/plans';
-import { planResultDtoSchema } from '@/lib/plan/dto';
 import { calculationSchema } from '@/lib/stats/calculations/request';
-import { checkResultSchema, designStateSchema, findingNoteDtoSchema } from './dto';
-import { calculationResponseSchema, runCalculation } from './calculations';
+import { calculationOutputSchema } from '@/lib/stats/calculations/types';
+import { runCalculation } from './calculations';
 import { CALCULATION_EXAMPLES } from './calculation-examples';
-import { activityDtoSchema, errorSchema, invitationDtoSchema, studyMemberDtoSchema, workspaceMemberDtoSchema } from './dto';
+import {
+  activityDtoSchema,
+  checkResultSchema,
+  designSavedSchema,
+  designStateSchema,
+  errorSchema,
+  findingNoteDtoSchema,
+  invitationAcceptedSchema,
+  invitationDtoSchema,
+  list,
+  planResultDtoSchema,
+  simulationSpecDerivedSchema,
+  studyDtoSchema,
+  studyMemberDtoSchema,
+  studyPageSchema,
+  workspaceDtoSchema,
+  workspaceMemberDtoSchema,
+} from './dto';
+import { simulationDtoSchema } from './simulations';
 import { simulationRunSchema, simulationSpecQuerySchema } from '@/lib/validation/simulation-run';
-import { simulationSpecSchema } from '@/lib/sim/spec';
-import { simulationDtoSchema } from '@/lib/jobs/dto';
 import {
   invitationParamsSchema,
   simulationParamsSchema,
@@ -36,7 +53,6 @@ import {
 
 const json = <T extends z.ZodType>(schema: T, description: string) => ({ description, content: { 'application/json': { schema } } });
 const err = (description: string) => json(errorSchema, description);
-const list = <T extends z.ZodType>(item: T) => z.object({ items: z.array(item) });
 
 const standardErrors = {
   401: err('Not signed in.'),
@@ -73,7 +89,7 @@ function calculationRoute(): RouteConfig {
     security: [],
     request: { body: { content: { 'application/json': { schema: calculationSchema, examples: examples.requests } } } },
     responses: {
-      200: { description: 'The solved value with every input, the method, the formula in words, references and warnings', content: { 'application/json': { schema: calculationResponseSchema, examples: examples.responses } } },
+      200: { description: 'The solved value with every input, the method, the formula in words, references and warnings', content: { 'application/json': { schema: calculationOutputSchema, examples: examples.responses } } },
       400: err('Invalid input, or not exactly one unknown: see error.fields.'),
       403: err('A cross-site request from a browser.'),
       413: err('The request body is too large.'),
@@ -88,14 +104,14 @@ export const API_ROUTES: RouteConfig[] = [
     method: 'get',
     path: '/api/v1/workspaces',
     summary: 'Workspaces the signed-in user belongs to',
-    responses: { 200: json(list(workspaceSchema), 'Workspaces with your role'), 401: standardErrors[401] },
+    responses: { 200: json(list(workspaceDtoSchema), 'Workspaces with your role'), 401: standardErrors[401] },
   },
   {
     method: 'post',
     path: '/api/v1/workspaces',
     summary: 'Create a workspace (you become its admin)',
     request: { body: { content: { 'application/json': { schema: workspaceCreateSchema } } } },
-    responses: { 201: json(workspaceSchema, 'The new workspace'), ...writeErrors },
+    responses: { 201: json(workspaceDtoSchema, 'The new workspace'), ...writeErrors },
   },
   {
     method: 'get',
@@ -141,10 +157,7 @@ export const API_ROUTES: RouteConfig[] = [
     summary: 'Studies of a workspace that you are a member of',
     request: { query: studyListQuerySchema },
     responses: {
-      200: json(
-        z.object({ items: z.array(studySchema), total: z.number().int(), page: z.number().int(), pageSize: z.number().int() }),
-        'One page of studies',
-      ),
+      200: json(studyPageSchema, 'One page of studies'),
       400: err('Invalid query'),
       ...standardErrors,
     },
@@ -154,35 +167,35 @@ export const API_ROUTES: RouteConfig[] = [
     path: '/api/v1/studies',
     summary: 'Create a study (you become its owner)',
     request: { body: { content: { 'application/json': { schema: studyCreateSchema } } } },
-    responses: { 201: json(studySchema, 'The new study'), ...writeErrors },
+    responses: { 201: json(studyDtoSchema, 'The new study'), ...writeErrors },
   },
   {
     method: 'get',
     path: '/api/v1/studies/{studyId}',
     summary: 'Read a study',
     request: { params: studyParams },
-    responses: { 200: json(studySchema, 'The study with your role'), ...standardErrors },
+    responses: { 200: json(studyDtoSchema, 'The study with your role'), ...standardErrors },
   },
   {
     method: 'patch',
     path: '/api/v1/studies/{studyId}',
     summary: 'Update a study’s title or description (owner, editor)',
     request: { params: studyParams, body: { content: { 'application/json': { schema: studyUpdateSchema } } } },
-    responses: { 200: json(studySchema, 'The updated study'), ...writeErrors },
+    responses: { 200: json(studyDtoSchema, 'The updated study'), ...writeErrors },
   },
   {
     method: 'post',
     path: '/api/v1/studies/{studyId}/archive',
     summary: 'Archive a study (owner)',
     request: { params: studyParams },
-    responses: { 200: json(studySchema, 'The archived study'), ...writeErrors },
+    responses: { 200: json(studyDtoSchema, 'The archived study'), ...writeErrors },
   },
   {
     method: 'post',
     path: '/api/v1/studies/{studyId}/restore',
     summary: 'Restore an archived study (owner)',
     request: { params: studyParams },
-    responses: { 200: json(studySchema, 'The restored study'), ...writeErrors },
+    responses: { 200: json(studyDtoSchema, 'The restored study'), ...writeErrors },
   },
   {
     method: 'get',
@@ -243,7 +256,7 @@ export const API_ROUTES: RouteConfig[] = [
     description:
       'Send the revision your edit started from as baseRevision. If someone saved meanwhile and changed other parts of the design, your parts are merged onto theirs (merged: true); if they changed the same part, the answer is 409 and nothing is saved.',
     request: { params: studyParams, body: { content: { 'application/json': { schema: designSaveSchema } } } },
-    responses: { 200: json(designStateSchema.extend({ merged: z.boolean() }), 'The new revision'), ...writeErrors },
+    responses: { 200: json(designSavedSchema, 'The new revision'), ...writeErrors },
   },
   {
     method: 'post',
@@ -305,7 +318,7 @@ export const API_ROUTES: RouteConfig[] = [
     summary: 'Accept an invitation with the token from its e-mail (the invited address only)',
     request: { body: { content: { 'application/json': { schema: invitationAcceptSchema } } } },
     responses: {
-      200: json(z.object({ workspaceId: z.uuid(), studyId: z.uuid().nullable() }), 'Joined'),
+      200: json(invitationAcceptedSchema, 'Joined'),
       410: err('Expired, revoked or already used.'),
       ...writeErrors,
     },
@@ -349,7 +362,7 @@ export const API_ROUTES: RouteConfig[] = [
       'spec is null when the design cannot be simulated yet: missing then lists what the design still lacks (each naming the Design step that supplies it), unsupported has one sentence per feature of the design the stress test does not simulate yet.',
     request: { params: studyParams, query: simulationSpecQuerySchema },
     responses: {
-      200: json(z.object({ revision: z.number().int(), spec: simulationSpecSchema.nullable(), missing: z.array(z.string()), unsupported: z.array(z.string()) }), 'The derived specification, or what is missing or not supported'),
+      200: json(simulationSpecDerivedSchema, 'The derived specification, or what is missing or not supported'),
       400: err('Invalid query'),
       ...standardErrors,
     },

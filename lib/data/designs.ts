@@ -3,6 +3,7 @@ import { appendRevision, findRevision, insertFindingNote, listFindingNotes as li
 import { logActivity } from '@/db/repositories/activity';
 import { DESIGN_STEPS, designSchema, emptyDesign, type Design, type DesignPart } from '@/lib/design/schema';
 import { runChecks } from '@/lib/rules/registry';
+import type { CheckResultDto, DesignSaved, DesignState } from '@/lib/api/dto';
 import type { Actor } from '@/lib/auth/session';
 import { db } from '@/lib/db';
 import { AppError } from '@/lib/errors';
@@ -18,15 +19,6 @@ import { transaction } from './transaction';
  * holds the study's row from reading the newest revision to appending the next one, so two saves
  * at the same moment take turns and the second is merged or refused like a later one.
  */
-
-export interface DesignState {
-  revision: number;
-  design: Design;
-  savedAt: string | null;
-  savedBy: string | null;
-  /** False when the stored design did not match the current schema and an empty one is shown. */
-  readable: boolean;
-}
 
 function parseStored(raw: unknown): { design: Design; readable: boolean } {
   const parsed = designSchema.safeParse(raw ?? {});
@@ -56,7 +48,7 @@ export async function saveDesign(
   actor: Actor | null,
   studyId: string,
   input: DesignSaveInput,
-): Promise<DesignState & { merged: boolean }> {
+): Promise<DesignSaved> {
   return transaction(async (trx) => {
     const { actor: a, study } = await requireStudy(actor, studyId, 'design.edit', { trx, lock: 'update' });
     if (input.baseRevision > study.currentRevision) {
@@ -104,7 +96,7 @@ export async function saveDesign(
   });
 }
 
-export async function checkDesign(actor: Actor | null, studyId: string, design?: Design) {
+export async function checkDesign(actor: Actor | null, studyId: string, design?: Design): Promise<CheckResultDto> {
   const state = await getDesign(actor, studyId);
   return { revision: state.revision, ...runChecks(design ?? state.design) };
 }

@@ -18,6 +18,7 @@ import { lockStudy, upsertStudyMember } from '@/db/repositories/studies';
 import { findMembership, lockWorkspace, upsertWorkspaceMember } from '@/db/repositories/workspaces';
 import { logActivity } from '@/db/repositories/activity';
 import { canStudy, canWorkspace, STUDY_ROLE_DESCRIPTIONS } from '@/lib/auth/permissions';
+import type { InvitationAccepted } from '@/lib/api/dto';
 import type { Actor } from '@/lib/auth/session';
 import { findStudyForUser } from '@/db/repositories/studies';
 import { hashToken, newToken, TOKEN_LIFETIME } from '@/lib/auth/tokens';
@@ -224,7 +225,7 @@ export async function previewInvitation(token: string): Promise<InvitationView |
  * removes the new study membership too. The invitation is claimed by one conditional update, so
  * it is used once, never after it was revoked or expired.
  */
-export async function acceptInvitation(actor: Actor | null, token: string): Promise<{ workspaceId: string; studyId: string | null }> {
+export async function acceptInvitation(actor: Actor | null, token: string): Promise<InvitationAccepted> {
   const a = requireActor(actor);
   const found = await previewInvitation(token);
   if (!found) throw notFound('The invitation');

@@ -7,6 +7,7 @@ import { AppError } from '@/lib/errors';
 import { calculate } from '@/lib/stats/calculations';
 import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
+import type { CalculationRequest } from '@/lib/stats/calculations/request';
 import type { PlanResultSaveInput } from '@/lib/validation/plans';
 import { requireStudy } from './access';
 import { transaction } from './transaction';
@@ -16,7 +17,8 @@ import { transaction } from './transaction';
  * (a browser's numbers are never stored) and keeps it with the design revision it belongs to.
  */
 
-export interface SavedPlanResult extends Omit<PlanResult, 'output'> {
+export interface SavedPlanResult extends Omit<PlanResult, 'request' | 'output'> {
+  request: CalculationRequest;
   output: CalculationOutput;
 }
 

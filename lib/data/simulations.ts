@@ -16,7 +16,8 @@ import { db } from '@/lib/db';
 import { designSchema } from '@/lib/design/schema';
 import { AppError, notFound } from '@/lib/errors';
 import { jobsConfig } from '@/lib/jobs/config';
-import { simulationDto, type SimulationDto } from '@/lib/jobs/dto';
+import type { SimulationSpecDerived } from '@/lib/api/dto';
+import { simulationDto, type SimulationDto } from '@/lib/api/simulations';
 import { chooseChunkSize, planChunks, replicatesTotal } from '@/lib/jobs/plan';
 import { enqueueChunks, placeRun, withdrawChunks } from '@/lib/jobs/queue';
 import { enforce, type Limit } from '@/lib/rate-limit';
@@ -94,7 +95,7 @@ export async function defaultSimulationSpec(
   actor: Actor | null,
   studyId: string,
   revision?: number,
-): Promise<{ revision: number } & Derived> {
+): Promise<SimulationSpecDerived> {
   const { study } = await requireStudy(actor, studyId, 'study.read');
   const number = revision ?? study.currentRevision;
   if (number < 1) return { revision: 0, spec: null, missing: ['a saved design'], unsupported: [] };

@@ -13,8 +13,13 @@ import { summarise } from '@/lib/sim/summarise';
 import { simulationSpecSchema, type SimulationSpec } from '@/lib/sim/spec';
 import type { StoredChunk } from '@/db/repositories/simulations';
 import { decodeResults, encodeResults } from './codec';
-import type { StoredResults } from './dto';
 import type { Engine } from './handler';
+
+/** The stored outcome of a finished run: results[scenario][analysis][metric] and the summary sentences. */
+export interface StoredResults {
+  results: Record<string, Record<string, Record<string, { value: number | null; mcse: number | null }>>>;
+  summary: string[];
+}
 
 export function parseSpec(raw: unknown): SimulationSpec {
   return simulationSpecSchema.parse(raw);

@@ -44,18 +44,3 @@ export const studyListQuerySchema = z
   })
   .meta({ id: 'StudyListQuery' });
 export type StudyListQuery = z.infer<typeof studyListQuerySchema>;
-
-export const studySchema = z
-  .object({
-    id: idSchema,
-    workspaceId: idSchema,
-    title: z.string(),
-    description: z.string(),
-    status: z.enum(STUDY_STATUSES),
-    currentRevision: z.number().int(),
-    role: z.enum(['owner', 'editor', 'consultant', 'writer', 'viewer']),
-    createdAt: z.string().meta({ format: 'date-time' }),
-    updatedAt: z.string().meta({ format: 'date-time' }),
-    archivedAt: z.string().nullable(),
-  })
-  .meta({ id: 'Study' });

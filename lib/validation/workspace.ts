@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { WORKSPACE_ROLES } from '@/db/schema';
 import { rawText, text } from '@/lib/text-schema';
-import { emailSchema, idSchema } from './common';
+import { emailSchema } from './common';
 
 export const workspaceCreateSchema = z
   .object({ name: text('Workspace name', 2, 100).meta({ example: 'Harrow Vale Institute' }) })
@@ -23,7 +23,3 @@ export const workspaceMemberRoleUpdateSchema = z
 export const invitationAcceptSchema = z
   .object({ token: rawText('The invitation link').min(20, 'This invitation link is incomplete.').max(200, 'This invitation link is too long.') })
   .meta({ id: 'InvitationAccept' });
-
-export const workspaceSchema = z
-  .object({ id: idSchema, name: z.string(), slug: z.string(), role: z.enum(WORKSPACE_ROLES) })
-  .meta({ id: 'Workspace' });

@@ -42,6 +42,23 @@ describe('OpenAPI 3.1 document', () => {
     expect([...fromDoc].sort()).toEqual([...fromFiles].sort());
   });
 
+  it('names every successful answer of /api/v1 by its one declared schema (or a list of one)', () => {
+    const named = (schema: unknown) => typeof (schema as { $ref?: unknown }).$ref === 'string';
+    const unnamed: string[] = [];
+    for (const [p, methods] of Object.entries(doc.paths)) {
+      if (!p.startsWith('/api/v1')) continue;
+      for (const [m, op] of Object.entries(methods as Record<string, { responses: Record<string, { content?: Record<string, { schema: unknown }> }> }>)) {
+        for (const [status, response] of Object.entries(op.responses)) {
+          const schema = response.content?.['application/json']?.schema as { properties?: { items?: { items?: unknown } } } | undefined;
+          if (!status.startsWith('2') || !schema) continue;
+          const items = schema.properties?.items?.items;
+          if (!named(schema) && !(items && named(items) && Object.keys(schema.properties!).length === 1)) unnamed.push(`${m} ${p} ${status}`);
+        }
+      }
+    }
+    expect(unnamed).toEqual([]);
+  });
+
   it('documents the error shape and request bodies from the zod schemas', () => {
     const json = JSON.stringify(doc);
     expect(json).toContain('"Error"');

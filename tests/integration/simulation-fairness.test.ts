@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { findSimulation, insertChunk, type Simulation } from '@/db/repositories/simulations';
 import { db } from '@/lib/db';
 import { cancelSimulation, createSimulation } from '@/lib/data/simulations';
-import type { SimulationDto } from '@/lib/jobs/dto';
+import type { SimulationDto } from '@/lib/api/simulations';
 import { BOSS_SCHEMA, CHUNK_QUEUE, getBoss, stopBoss } from '@/lib/jobs/boss';
 import { aggregateChunks, computeChunkBytes, inlineEngine, parseSpec } from '@/lib/jobs/engine';
 import { startWorker, type RunningWorker } from '@/lib/jobs/worker';

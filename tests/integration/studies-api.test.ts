@@ -91,27 +91,27 @@ describe('membership rules', () => {
   it('never removes or demotes the study owner', async () => {
     const w = await makeWorld();
     const owner = w.byRole.owner;
-    const del = await studyMember.DELETE(request('DELETE', '/api/v1/x', { user: owner }), ctx({ studyId: w.studyId, userId: owner.id }));
+    const del = await studyMember.DELETE(request('DELETE', `/api/v1/studies/${w.studyId}/members/${owner.id}`, { user: owner }), ctx({ studyId: w.studyId, userId: owner.id }));
     expect(del.status).toBe(409);
-    const patch = await studyMember.PATCH(request('PATCH', '/api/v1/x', { user: owner, body: { role: 'viewer' } }), ctx({ studyId: w.studyId, userId: owner.id }));
+    const patch = await studyMember.PATCH(request('PATCH', `/api/v1/studies/${w.studyId}/members/${owner.id}`, { user: owner, body: { role: 'viewer' } }), ctx({ studyId: w.studyId, userId: owner.id }));
     expect(patch.status).toBe(409);
   });
 
   it('keeps at least one workspace admin, and does not remove people who own studies', async () => {
     const w = await makeWorld();
-    const demote = await wsMember.PATCH(request('PATCH', '/api/v1/x', { user: w.byRole.owner, body: { role: 'member' } }), ctx({ workspaceId: w.workspaceId, userId: w.byRole.owner.id }));
+    const demote = await wsMember.PATCH(request('PATCH', `/api/v1/workspaces/${w.workspaceId}/members/${w.byRole.owner.id}`, { user: w.byRole.owner, body: { role: 'member' } }), ctx({ workspaceId: w.workspaceId, userId: w.byRole.owner.id }));
     expect(demote.status).toBe(409);
-    await wsMember.PATCH(request('PATCH', '/api/v1/x', { user: w.byRole.owner, body: { role: 'admin' } }), ctx({ workspaceId: w.workspaceId, userId: w.byRole.editor.id }));
-    const removeOwner = await wsMember.DELETE(request('DELETE', '/api/v1/x', { user: w.byRole.editor }), ctx({ workspaceId: w.workspaceId, userId: w.byRole.owner.id }));
+    await wsMember.PATCH(request('PATCH', `/api/v1/workspaces/${w.workspaceId}/members/${w.byRole.editor.id}`, { user: w.byRole.owner, body: { role: 'admin' } }), ctx({ workspaceId: w.workspaceId, userId: w.byRole.editor.id }));
+    const removeOwner = await wsMember.DELETE(request('DELETE', `/api/v1/workspaces/${w.workspaceId}/members/${w.byRole.owner.id}`, { user: w.byRole.editor }), ctx({ workspaceId: w.workspaceId, userId: w.byRole.owner.id }));
     expect(removeOwner.status).toBe(409);
     expect((await removeOwner.json()).error.message).toMatch(/owns studies/);
   });
 
   it('removing someone from the workspace also ends their study roles there', async () => {
     const w = await makeWorld();
-    const res = await wsMember.DELETE(request('DELETE', '/api/v1/x', { user: w.byRole.owner }), ctx({ workspaceId: w.workspaceId, userId: w.byRole.viewer.id }));
+    const res = await wsMember.DELETE(request('DELETE', `/api/v1/workspaces/${w.workspaceId}/members/${w.byRole.viewer.id}`, { user: w.byRole.owner }), ctx({ workspaceId: w.workspaceId, userId: w.byRole.viewer.id }));
     expect(res.status).toBe(204);
-    const read = await study.GET(request('GET', '/api/v1/x', { user: w.byRole.viewer }), ctx({ studyId: w.studyId }));
+    const read = await study.GET(request('GET', `/api/v1/studies/${w.studyId}`, { user: w.byRole.viewer }), ctx({ studyId: w.studyId }));
     expect(read.status).toBe(404);
   });
 });

@@ -1,8 +1,11 @@
+import fs from 'node:fs';
+import path from 'node:path';
 import { sql } from 'kysely';
-import { afterAll, beforeEach, vi } from 'vitest';
+import { afterAll, afterEach, beforeEach, inject, vi } from 'vitest';
 import { db } from '@/lib/db';
 import { stopBoss } from '@/lib/jobs/boss';
 import { stopMailSender } from '@/lib/mail/sender';
+import { contract, takeProblems } from './api-contract';
 import { sentMail, smtp } from './mail';
 
 process.env.AUTH_SECRET ??= 'integration-test-secret-integration-test-secret';
@@ -22,6 +25,22 @@ vi.mock('@/lib/mail/send', async () => {
   };
 });
 
+// Every response a route handler gives is checked against the API document
+// (tests/support/api-contract.ts): a 2xx body that the document does not describe fails the test.
+vi.mock('@/lib/api/handler', async (importOriginal) => {
+  const actual = await importOriginal<typeof import('@/lib/api/handler')>();
+  const { recordResponse } = await import('./api-contract');
+  const api: typeof actual.api = (fn, options) => {
+    const handler = actual.api(fn, options);
+    return async (req, context) => {
+      const res = await handler(req, context);
+      await recordResponse(req, res);
+      return res;
+    };
+  };
+  return { ...actual, api };
+});
+
 /** Every table of ours (the migration bookkeeping stays), listed from the catalogue. */
 async function tables(): Promise<string[]> {
   const { rows } = await sql<{ name: string }>`
@@ -39,10 +58,21 @@ beforeEach(async () => {
   await sql`delete from pgboss.job where name = 'mail' and to_regclass('pgboss.job') is not null`.execute(db()).catch(() => undefined);
 });
 
+function failOnUndescribedResponses(): void {
+  const problems = takeProblems();
+  if (problems.length) throw new Error(`Responses that the API document does not describe:\n${problems.join('\n')}`);
+}
+
+afterEach(failOnUndescribedResponses);
+
 afterAll(async () => {
+  // What this file exercised, for the summary at the end of the run (global-setup.ts).
+  fs.writeFileSync(path.join(inject('apiContractDir'), `${process.pid}-${Date.now()}.json`), JSON.stringify([...contract.exercised]));
   // Queueing mail starts this process's pg-boss (lib/jobs/boss.ts); stop it before the pool.
   await stopMailSender();
   await stopBoss();
   await db().destroy();
   (globalThis as { unitwiseDb?: unknown }).unitwiseDb = undefined;
+  // Responses received in a file's beforeAll or afterAll hooks.
+  failOnUndescribedResponses();
 });

@@ -4,6 +4,7 @@ import { PlanningCaution } from '@/components/calculations/planning-caution';
 import { kindInfo } from '@/components/calculations/kinds';
 import { PlanWorkbench } from '@/components/plan/plan-workbench';
 import { Alert } from '@/components/ui/alert';
+import { planResultDto } from '@/lib/api/dto';
 import { canStudy } from '@/lib/auth/permissions';
 import { currentActor } from '@/lib/auth/session';
 import { getDesign } from '@/lib/data/designs';
@@ -150,7 +151,7 @@ export default async function PlanPage({ params }: { params: Promise<{ studyId: 
           revision={state.revision}
           draft={{ ...draft, kind: draft.kind }}
           canSave={canSave}
-          saved={saved.map((r) => ({ id: r.id, revision: r.revision, kind: r.kind, output: r.output, note: r.note, createdByName: r.createdByName, createdAt: r.createdAt.toISOString() }))}
+          saved={saved.map(planResultDto)}
         />
       )}
     </div>

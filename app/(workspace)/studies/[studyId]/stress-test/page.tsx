@@ -13,7 +13,7 @@ import { designFacts } from '@/lib/design/facts';
 import { defaultSimulationSpec, getSimulation, listStudySimulations } from '@/lib/data/simulations';
 import { getStudy } from '@/lib/data/studies';
 import { AppError } from '@/lib/errors';
-import type { SimulationDto } from '@/lib/jobs/dto';
+import type { SimulationDto } from '@/lib/api/simulations';
 import { load } from '@/lib/page-guard';
 import { offeredAnalyses } from '@/lib/sim/analyses';
 import type { SimulationSpec } from '@/lib/sim/spec';

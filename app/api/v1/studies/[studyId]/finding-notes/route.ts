@@ -1,9 +1,8 @@
 import { api, parseBody } from '@/lib/api/handler';
-import { addFindingNote, listFindingNotes, type FindingNote } from '@/lib/data/designs';
+import { findingNoteDto as dto } from '@/lib/api/dto';
+import { addFindingNote, listFindingNotes } from '@/lib/data/designs';
 import { findingNoteSchema } from '@/lib/validation/design';
 import { studyParamsSchema } from '@/lib/validation/params';
-
-const dto = (n: FindingNote) => ({ ...n, createdAt: n.createdAt.toISOString() });
 
 export const GET = api(
   async ({ actor, params }) => ({ items: (await listFindingNotes(actor, params.studyId)).map(dto) }),

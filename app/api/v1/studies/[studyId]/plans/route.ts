@@ -1,9 +1,8 @@
 import { api, parseBody } from '@/lib/api/handler';
-import { listPlanResults, savePlanResult, type SavedPlanResult } from '@/lib/data/plans';
+import { planResultDto as dto } from '@/lib/api/dto';
+import { listPlanResults, savePlanResult } from '@/lib/data/plans';
 import { planResultSaveSchema } from '@/lib/validation/plans';
 import { studyParamsSchema } from '@/lib/validation/params';
-
-const dto = (r: SavedPlanResult) => ({ ...r, createdAt: r.createdAt.toISOString() });
 
 export const GET = api(
   async ({ actor, params }) => ({ items: (await listPlanResults(actor, params.studyId)).map(dto) }),

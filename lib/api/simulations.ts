@@ -1,13 +1,15 @@
 /**
  * What the simulations API sends back about a run: status, progress (replicates done, rate,
  * estimated seconds left) and, when done, the results keyed by scenario name and analysis with
- * each metric's value and Monte Carlo SE, and the summary sentences. The zod schemas document
- * the shapes in the OpenAPI file; `simulationDto` builds them.
+ * each metric's value and Monte Carlo SE, and the summary sentences. `simulationDtoSchema` is the
+ * one declaration of that shape (the OpenAPI document names it `Simulation`); `simulationDto`
+ * builds it and is typed by it.
  */
 import { z } from 'zod';
 import { MORRIS_2019 } from '@/lib/citations';
 import { SIMULATION_STATUSES } from '@/db/schema';
 import type { Simulation } from '@/db/repositories/simulations';
+import type { StoredResults } from '@/lib/jobs/engine';
 import { METRIC_NAMES } from '@/lib/sim/metrics';
 
 export interface Progress {
@@ -33,12 +35,6 @@ export function progressOf(run: Simulation, now = new Date()): Progress {
   };
 }
 
-/** The stored outcome of a finished run (lib/jobs/engine.ts writes it). */
-export interface StoredResults {
-  results: Record<string, Record<string, Record<string, { value: number | null; mcse: number | null }>>>;
-  summary: string[];
-}
-
 type ResultTable = StoredResults['results'];
 
 /**
@@ -62,25 +58,6 @@ function ordered(results: ResultTable, spec: unknown): ResultTable {
   }
   return out;
 }
-
-export function simulationDto(run: Simulation, options: { withSpec?: boolean; withResults?: boolean } = {}) {
-  const stored = run.status === 'done' && options.withResults !== false ? (run.results as StoredResults | null) : null;
-  return {
-    id: run.id,
-    studyId: run.studyId,
-    revision: run.revisionNumber,
-    status: run.status,
-    progress: progressOf(run),
-    chunkCount: run.chunkCount,
-    error: run.error,
-    createdAt: run.createdAt.toISOString(),
-    startedAt: run.startedAt ? run.startedAt.toISOString() : null,
-    finishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
-    ...(options.withSpec ? { spec: run.spec } : {}),
-    ...(stored ? { results: ordered(stored.results, run.spec), summary: stored.summary } : {}),
-  };
-}
-export type SimulationDto = ReturnType<typeof simulationDto>;
 
 const iso = z.string().meta({ format: 'date-time' });
 
@@ -116,3 +93,22 @@ export const simulationDtoSchema = z
     summary: z.array(z.string()).optional().meta({ description: 'When done: plain-language sentences about the results.' }),
   })
   .meta({ id: 'Simulation' });
+export type SimulationDto = z.output<typeof simulationDtoSchema>;
+
+export function simulationDto(run: Simulation, options: { withSpec?: boolean; withResults?: boolean } = {}): SimulationDto {
+  const stored = run.status === 'done' && options.withResults !== false ? (run.results as StoredResults | null) : null;
+  return {
+    id: run.id,
+    studyId: run.studyId,
+    revision: run.revisionNumber,
+    status: run.status,
+    progress: progressOf(run),
+    chunkCount: run.chunkCount,
+    error: run.error,
+    createdAt: run.createdAt.toISOString(),
+    startedAt: run.startedAt ? run.startedAt.toISOString() : null,
+    finishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
+    ...(options.withSpec ? { spec: run.spec } : {}),
+    ...(stored ? { results: ordered(stored.results, run.spec), summary: stored.summary } : {}),
+  };
+}

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { Simulation } from '@/db/repositories/simulations';
-import { progressOf, simulationDto } from './dto';
+import { progressOf, simulationDto } from './simulations';
 
 const base: Simulation = {
   id: '00000000-0000-4000-8000-000000000001',
