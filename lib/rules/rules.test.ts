@@ -7,6 +7,7 @@ import type { Design } from '@/lib/design/schema';
 import {
   classroom,
   classroomMixed,
+  absencesPoisson,
   classroomNoPlan,
   empty,
   greenhouse,
@@ -164,12 +165,18 @@ const CASES: Record<string, RuleCases> = {
     fires: [
       ['binary outcome, t-test', variant(simple, (d) => { d.outcome.type = 'binary'; }), { key: 'binary', severity: 'warning' }],
       ['count outcome in classrooms', variant(classroom, (d) => { d.outcome.type = 'count'; }), { key: 'count' }],
+      ['overdispersed counts, Poisson mixed model', absencesPoisson, { key: 'overdispersion', severity: 'warning' }],
+      ['overdispersed counts, Poisson GLM without rates given', variant(absencesPoisson, (d) => { d.analysis.method = 'glm'; delete d.assumptions.baselineRate; }), { key: 'overdispersion' }],
       ['proportion, no plan yet', variant(outcomeOnly, (d) => { d.outcome.type = 'proportion'; }), { key: 'proportion', severity: 'advice' }],
     ],
     silent: [
       ['continuous outcome', simple],
       ['binary outcome with a GLM', variant(simple, (d) => { d.outcome.type = 'binary'; d.analysis.method = 'glm'; d.analysis.glmFamily = 'binomial'; })],
       ['binary outcome with GEE', variant(simple, (d) => { d.outcome.type = 'binary'; d.analysis.method = 'gee'; })],
+      ['overdispersed counts, negative binomial mixed model', variant(absencesPoisson, (d) => { d.analysis.glmFamily = 'negative-binomial'; })],
+      ['overdispersed counts, Poisson with CR2 standard errors', variant(absencesPoisson, (d) => { d.analysis.standardErrors = 'cr2'; })],
+      ['overdispersed counts, Poisson GEE', variant(absencesPoisson, (d) => { d.analysis.method = 'gee'; })],
+      ['Poisson counts (no overdispersion expected)', variant(absencesPoisson, (d) => { d.assumptions.dispersion!.value = 0; })],
     ],
   },
   'skewed-outcome': {
@@ -259,6 +266,7 @@ const CASES: Record<string, RuleCases> = {
       ['classroom demo: 8% by the end of the year', classroom, { key: 'attrition', severity: 'warning' }],
       ['sleep demo: 10% from night 5', sleep, { severity: 'warning' }],
       ['sleep with a mixed model under MAR: advice', variant(sleep, (d) => { d.analysis.missingData = 'mixed-model-mar'; }), { severity: 'advice' }],
+      ['counts of absences: 8% lose follow-up time', absencesPoisson, { severity: 'warning' }],
     ],
     silent: [
       ['no attrition', simple],
@@ -319,6 +327,31 @@ describe.each(RULES.map((r) => [r.id, r] as const))('%s', (id, rule) => {
   it('never raises anything more severe than its own severity', () => {
     const rank = { blocker: 0, warning: 1, advice: 2 };
     for (const [, d] of cases.fires) for (const f of rule.check(d)) expect(rank[f.severity]).toBeGreaterThanOrEqual(rank[rule.severity]);
+  });
+});
+
+describe('count outcomes read as counts', () => {
+  it('a Poisson model of overdispersed counts: the variance factor 1 + κμ from the rate and follow-up', () => {
+    const f = runChecks(absencesPoisson).findings.find((x) => x.key === 'overdispersion')!;
+    expect(f.found).toContain('overdispersion of 0.5 between pupils');
+    // μ = 0.5 days a month × 6 months = 3; 1 + 0.5 × 3 = 2.5; √2.5 = 1.58.
+    expect(f.why).toContain('1 + 0.5 × 3 = 2.5 times the mean');
+    expect(f.why).toContain('by up to a factor of 1.58');
+    expect(f.why).toContain('A random intercept for classroom does not cover this');
+    expect(f.numbers).toEqual({ dispersion: 0.5, meanCount: 3, varianceFactor: 2.5 });
+  });
+  it('a clustered count: cluster-level analysis of event rates, a GLMM with its family, the follow-up time as offset', () => {
+    const d = variant(absencesPoisson, (x) => { x.analysis = { ...x.analysis, method: 'glm', randomIntercepts: [], unitOfAnalysisLevelId: 'pupil' }; });
+    const unit = runChecks(d).findings.find((x) => x.ruleId === 'unit-of-analysis')!;
+    expect(unit.todo).toContain('a generalised linear mixed model (negative-binomial family, log link)');
+    expect(unit.todo).toContain('a t-test on the 20 classroom event rates');
+    expect(unit.model).toBe('days_absent ~ programme + baseline_score + school + offset(log(follow_up_time)) + (1 | classroom)');
+    expect(runChecks(d).findings.find((x) => x.ruleId === 'shared-environment')!.todo).toContain('analyse classroom event rates');
+  });
+  it('attrition of a count: what is lost is follow-up time', () => {
+    const f = runChecks(absencesPoisson).findings.find((x) => x.ruleId === 'attrition')!;
+    expect(f.why).toContain('What is lost is follow-up time');
+    expect(f.todo).toContain('Record each pupil’s follow-up time until it leaves');
   });
 });
 

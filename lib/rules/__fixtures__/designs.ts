@@ -35,6 +35,19 @@ export const simple = parse({
   analysis: { method: 't-test', unitOfAnalysisLevelId: 'person' },
 });
 
+/**
+ * Days absent per pupil, classrooms randomised, planned as a Poisson mixed model with a random
+ * intercept for classroom, with counts expected to be overdispersed (0.5 at 3 days per pupil).
+ */
+export const absencesPoisson = variant(classroom, (d) => {
+  d.outcome.name = 'Days absent';
+  d.outcome.type = 'count';
+  d.occasions.list = [{ label: 'End of year', time: 36, baseline: false, attrition: 0.08 }];
+  const source = { kind: 'expert', certainty: 'medium' } as const;
+  Object.assign(d.assumptions, { baselineRate: { value: 0.5, source }, rateRatio: { value: 0.75, source }, followUpTime: { value: 6, source }, dispersion: { value: 0.5, source }, betweenClusterCv: { value: 0.25, source } });
+  d.analysis = { ...d.analysis, method: 'glmm', glmFamily: 'poisson', randomIntercepts: ['classroom'], unitOfAnalysisLevelId: 'classroom' };
+});
+
 /** Volunteers randomised between schedules (parallel groups), 8 nights each, t-test on nights. */
 export const parallelNights = variant(sleep, (d) => {
   d.assignment.levelId = 'volunteer';
