@@ -10,6 +10,7 @@ import {
   absencesPoisson,
   classroomNoPlan,
   empty,
+  falls,
   greenhouse,
   longitudinal,
   miceInCages,
@@ -381,25 +382,41 @@ describe('demo designs', () => {
     for (const id of ['repeated-measures', 'crossover', 'spatial-serial', 'analysis-mismatch']) expect(ids).toContain(id);
     expect(runChecks(sleep).findings.find((f) => f.ruleId === 'spatial-serial')!.key).toBe('night');
   });
-  it('the three demo designs trigger different findings', () => {
-    const sets = [classroom, greenhouse, sleep].map(signature);
-    expect(new Set(sets).size).toBe(3);
+  it('falls raises the clustering of residents in care homes and the Poisson model of overdispersed counts', () => {
+    const findings = runChecks(falls).findings;
+    const unit = findings.find((f) => f.ruleId === 'unit-of-analysis')!;
+    expect([unit.key, unit.severity]).toEqual(['care-home', 'blocker']);
+    expect(unit.found).toContain('40 care homes (20 per arm)');
+    expect(unit.todo).toContain('negative-binomial family');
+    expect(unit.todo).toContain('care home event rates');
+    const over = findings.find((f) => f.key === 'overdispersion')!;
+    expect(over.severity).toBe('warning');
+    // μ = 1.8 falls a resident-year × 1 year; 1 + 0.8 × 1.8 = 2.44.
+    expect(over.why).toContain('1 + 0.8 × 1.8 = 2.44 times the mean');
+    expect(findings.find((f) => f.ruleId === 'attrition')!.why).toContain('What is lost is follow-up time');
+    expect(runChecks(falls).recommendation.model).toBe('falls ~ programme + mobility + offset(log(follow_up_time)) + (1 | care_home)');
+  });
+  it('the four demo designs trigger different findings', () => {
+    const sets = [classroom, greenhouse, sleep, falls].map(signature);
+    expect(new Set(sets).size).toBe(4);
     const c = ruleIds(classroom);
     const g = ruleIds(greenhouse);
     const s = ruleIds(sleep);
-    expect(c.has('pseudoreplication') || c.has('crossover')).toBe(false);
-    expect(g.has('crossover') || g.has('repeated-measures')).toBe(false);
-    expect(s.has('pseudoreplication') || s.has('unit-of-analysis')).toBe(false);
+    const f = ruleIds(falls);
+    expect(c.has('pseudoreplication') || c.has('crossover') || c.has('outcome-family')).toBe(false);
+    expect(g.has('crossover') || g.has('repeated-measures') || g.has('outcome-family')).toBe(false);
+    expect(s.has('pseudoreplication') || s.has('unit-of-analysis') || s.has('outcome-family')).toBe(false);
+    expect(f.has('pseudoreplication') || f.has('crossover') || f.has('repeated-measures') || f.has('skewed-outcome')).toBe(false);
   });
   it('findings are sorted blocker → warning → advice', () => {
     const rank = { blocker: 0, warning: 1, advice: 2 };
-    for (const d of [classroom, greenhouse, sleep, empty]) {
+    for (const d of [classroom, greenhouse, sleep, falls, empty]) {
       const r = runChecks(d).findings.map((f) => rank[f.severity]);
       expect(r).toEqual([...r].sort((a, b) => a - b));
     }
   });
   it('keys are unique within a rule', () => {
-    for (const d of [classroom, greenhouse, sleep]) {
+    for (const d of [classroom, greenhouse, sleep, falls]) {
       const keys = runChecks(d).findings.map((f) => `${f.ruleId}:${f.key}`);
       expect(new Set(keys).size).toBe(keys.length);
     }

@@ -1,8 +1,8 @@
 /**
- * Designs the rule tests share: the three demo designs (db/demo/designs.ts) and small variants
+ * Designs the rule tests share: the four demo designs (db/demo/designs.ts) and small variants
  * of them, each made to have, or not to have, one problem. All invented.
  */
-import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
+import { CLASSROOM_DESIGN, FALLS_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
 import { designSchema, type Design, type DesignInput } from '@/lib/design/schema';
 
 export const parse = (d: DesignInput): Design => designSchema.parse(d);
@@ -17,6 +17,7 @@ export function variant(base: Design, edit: (d: Design) => void): Design {
 export const classroom = parse(CLASSROOM_DESIGN);
 export const greenhouse = parse(GREENHOUSE_DESIGN);
 export const sleep = parse(SLEEP_DESIGN);
+export const falls = parse(FALLS_DESIGN);
 export const empty = parse({});
 export const outcomeOnly = parse({ outcome: { name: 'Blood pressure', type: 'continuous', shape: 'symmetric' } });
 
