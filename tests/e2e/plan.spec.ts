@@ -115,7 +115,7 @@ test('falls demo: the Plan shows the rate-ratio inputs and the care homes per ar
     await expect(plan.input(/^Follow-up time/)).toHaveValue('1');
     await expect(plan.input(/^Overdispersion between participants/)).toHaveValue('0.8');
     await expect(plan.input('Between-cluster coefficient of variation of the rate')).toHaveValue('0.3');
-    await expect(plan.input('Residents per care home analysed')).toHaveValue('22');
+    await expect(plan.inputs.getByRole('spinbutton', { name: /^Residents per care home/ })).toHaveValue('22');
     await expect(plan.assumptions).toContainText('Harrow Vale care-home falls audit 2023');
     await expect(plan.assumptions).toContainText('Falls of residents in six pilot care homes');
     await expect(plan.caution).toBeVisible();
