@@ -1,21 +1,31 @@
 /**
- * Seeds the invented demo scenario (db/demo) when the database has no users yet; otherwise it
- * does nothing, so `npm start` can run it every time. Demo accounts share DEMO_PASSWORD, which
- * `npm start` generates into .env.local on first start. Reads DATABASE_URL.
+ * Seeds the invented demo scenario (db/demo), so `npm start` can run it every time:
+ * - into a database with no users: the demo accounts, the demo workspace and every demo study;
+ * - into one seeded before: the demo studies it does not have yet (one added to the demo since),
+ *   in the demo workspace, owned by the demo admin, with those of their demo members who are
+ *   still in the workspace. A demo study counts as there when the workspace's activity log
+ *   records a study created under its demo title, so a demo study that was renamed or archived
+ *   is not added again. Nothing happens when the demo admin's account or the demo workspace is
+ *   gone (a database of the end-to-end tests, or one where the team removed the demo).
+ * Demo accounts share DEMO_PASSWORD, which `npm start` generates into .env.local on first start.
+ * Reads DATABASE_URL.
  */
 import bcrypt from 'bcryptjs';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import { sql, type Kysely } from 'kysely';
+import { sql, type Kysely, type Transaction } from 'kysely';
 import { createDb } from './client';
 import type { Database } from './schema';
 import { logActivity } from './repositories/activity';
 import { insertRevision, insertStudy, upsertStudyMember } from './repositories/studies';
-import { insertUser, setPasswordHash } from './repositories/users';
-import { insertWorkspace, upsertWorkspaceMember } from './repositories/workspaces';
-import { DEMO_ADMINS, DEMO_STUDIES, DEMO_WORKSPACE } from './demo/studies';
+import { findUserByEmail, insertUser, setPasswordHash } from './repositories/users';
+import { findMembership, insertWorkspace, lockWorkspace, upsertWorkspaceMember } from './repositories/workspaces';
+import { DEMO_ADMINS, DEMO_STUDIES, DEMO_WORKSPACE, type DemoStudy } from './demo/studies';
 import { designSchema } from '../lib/design/schema';
 import { runChecks } from '../lib/rules/registry';
+import { logger } from '../lib/log';
+
+const log = logger('seed');
 
 interface DemoAccount {
   email: string;
@@ -27,9 +37,26 @@ export function demoAccounts(): DemoAccount[] {
   return JSON.parse(readFileSync(path.join(__dirname, 'demo', 'accounts.json'), 'utf8')) as DemoAccount[];
 }
 
-export async function seedDemo(db: Kysely<Database>, password: string): Promise<boolean> {
+/** What a seed did: created the whole demo, or added the demo studies named (none when it had them all). */
+export type SeedResult = { created: true } | { created: false; added: string[] };
+
+type Trx = Transaction<Database>;
+
+/** One demo study, owned by `owner`, with the members `ids` knows; its first revision holds the design and its checks. */
+async function insertDemoStudy(trx: Trx, workspaceId: string, owner: string, s: DemoStudy, ids: Map<string, string>) {
+  const study = await insertStudy(trx, { workspaceId, title: s.title, description: s.description, createdBy: owner });
+  for (const [email, role] of Object.entries(s.members)) {
+    const id = ids.get(email);
+    if (id) await upsertStudyMember(trx, study.id, id, role);
+  }
+  const design = designSchema.parse(s.design);
+  await insertRevision(trx, { studyId: study.id, number: 1, design, checks: runChecks(design), authorId: owner, note: 'Study created' });
+  await logActivity(trx, { workspaceId, studyId: study.id, actorId: owner, action: 'study.created', details: { title: s.title } });
+}
+
+export async function seedDemo(db: Kysely<Database>, password: string, studies: DemoStudy[] = DEMO_STUDIES): Promise<SeedResult> {
   const { rows } = await sql<{ n: string }>`select count(*) as n from "User"`.execute(db);
-  if (Number(rows[0]?.n ?? 0) > 0) return false;
+  if (Number(rows[0]?.n ?? 0) > 0) return { created: false, added: await addMissingDemoStudies(db, studies) };
   const hash = await bcrypt.hash(password, 10);
   await db.transaction().execute(async (trx) => {
     const ids = new Map<string, string>();
@@ -41,15 +68,43 @@ export async function seedDemo(db: Kysely<Database>, password: string): Promise<
     const owner = ids.get(DEMO_ADMINS[0]!)!;
     const ws = await insertWorkspace(trx, { name: DEMO_WORKSPACE, createdBy: owner });
     for (const [email, id] of ids) await upsertWorkspaceMember(trx, ws.id, id, DEMO_ADMINS.includes(email) ? 'admin' : 'member');
-    for (const s of DEMO_STUDIES) {
-      const study = await insertStudy(trx, { workspaceId: ws.id, title: s.title, description: s.description, createdBy: owner });
-      for (const [email, role] of Object.entries(s.members)) await upsertStudyMember(trx, study.id, ids.get(email)!, role);
-      const design = designSchema.parse(s.design);
-      await insertRevision(trx, { studyId: study.id, number: 1, design, checks: runChecks(design), authorId: owner, note: 'Study created' });
-      await logActivity(trx, { workspaceId: ws.id, studyId: study.id, actorId: owner, action: 'study.created', details: { title: s.title } });
-    }
+    for (const s of studies) await insertDemoStudy(trx, ws.id, owner, s, ids);
   });
-  return true;
+  return { created: true };
+}
+
+/** The titles of the demo studies added to a database seeded before (see the file's comment). */
+async function addMissingDemoStudies(db: Kysely<Database>, studies: DemoStudy[]): Promise<string[]> {
+  const admin = await findUserByEmail(db, DEMO_ADMINS[0]!);
+  if (!admin) return [];
+  const ws = await db
+    .selectFrom('workspaces')
+    .select('id')
+    .where('name', '=', DEMO_WORKSPACE)
+    .where('created_by', '=', admin.id)
+    .orderBy('created_at')
+    .executeTakeFirst();
+  if (!ws) return [];
+  return db.transaction().execute(async (trx) => {
+    if (!(await lockWorkspace(trx, ws.id, 'update'))) return [];
+    if ((await findMembership(trx, ws.id, admin.id)) === undefined) return [];
+    const seeded = await trx
+      .selectFrom('activity_log')
+      .select(sql<string>`details->>'title'`.as('title'))
+      .where('workspace_id', '=', ws.id)
+      .where('action', '=', 'study.created')
+      .execute();
+    const had = new Set(seeded.map((r) => r.title));
+    const missing = studies.filter((s) => !had.has(s.title));
+    if (missing.length === 0) return [];
+    const ids = new Map<string, string>();
+    for (const email of new Set(missing.flatMap((s) => Object.keys(s.members)))) {
+      const u = await findUserByEmail(trx, email);
+      if (u && (await findMembership(trx, ws.id, u.id)) !== undefined) ids.set(email, u.id);
+    }
+    for (const s of missing) await insertDemoStudy(trx, ws.id, admin.id, s, ids);
+    return missing.map((s) => s.title);
+  });
 }
 
 async function main() {
@@ -60,7 +115,9 @@ async function main() {
   const db = createDb(url, { max: 2 });
   try {
     const seeded = await seedDemo(db, password);
-    console.log(seeded ? '[seed] demo scenario created' : '[seed] database already has users; nothing seeded');
+    if (seeded.created) log.info('demo scenario created');
+    else if (seeded.added.length > 0) log.info(`added ${seeded.added.length === 1 ? 'a demo study' : `${seeded.added.length} demo studies`} to the demo workspace: ${seeded.added.join('; ')}`);
+    else log.info('database already has users and no demo study to add; nothing seeded');
   } finally {
     await db.destroy();
   }
@@ -68,7 +125,7 @@ async function main() {
 
 if (process.argv[1]?.endsWith('seed.ts')) {
   main().catch((err) => {
-    console.error('[seed] failed:', err instanceof Error ? err.message : err);
+    log.error(`failed: ${err instanceof Error ? err.message : String(err)}`);
     process.exit(1);
   });
 }

@@ -1,8 +1,9 @@
 /**
- * Designs of the three invented demo studies (PRODUCT.md, "Demo scenario"). All numbers and
+ * Designs of the four invented demo studies (PRODUCT.md, "Demo scenario"). All numbers and
  * sources here are invented for the demo; none describes a real study. Each design is built to
  * trigger different checks: a unit-of-analysis error (classroom), pseudoreplication in a shared
- * environment (greenhouse) and repeated measures in a cross-over (sleep timing).
+ * environment (greenhouse), repeated measures in a cross-over (sleep timing), and a count outcome
+ * in a cluster-randomised trial planned as a Poisson regression on residents (falls).
  */
 import type { DesignInput } from '@/lib/design/schema';
 
@@ -131,4 +132,54 @@ export const SLEEP_DESIGN: DesignInput = {
     effect: { value: 20, source: { kind: 'expert', certainty: 'medium' } },
   },
   analysis: { method: 't-test', unitOfAnalysisLevelId: 'night' },
+};
+
+/**
+ * Falls in care homes: whole care homes are randomised, falls are counted per resident over a
+ * year. The count numbers are those the Assumptions step asks for (rates per resident-year, so
+ * the follow-up time is in years). The ICC of a resident's fall count between homes agrees with
+ * the between-home CV and the overdispersion: k²μ² / (k²μ² + μ + κμ²) with μ = 1.8 falls, k = 0.3,
+ * κ = 0.8 is 0.06.
+ */
+export const FALLS_DESIGN: DesignInput = {
+  outcome: {
+    name: 'Falls',
+    unit: 'falls per resident',
+    type: 'count',
+    shape: 'right-skewed',
+    primaryOutcomes: 1,
+    secondaryOutcomes: ['Falls with injury', 'Hospital admissions after a fall'],
+    explanatoryVariables: [
+      { id: 'programme', name: 'Falls-prevention programme', role: 'treatment', kind: 'categorical' },
+      { id: 'mobility', name: 'Mobility score at the start', role: 'covariate', kind: 'continuous' },
+    ],
+  },
+  structure: {
+    levels: [
+      { id: 'care-home', name: 'Care home', kind: 'grouping', groupingType: 'site', count: 40, sharedEnvironment: true },
+      { id: 'resident', name: 'Resident', kind: 'independent', count: 30, countCv: 0.35 },
+    ],
+  },
+  assignment: {
+    kind: 'randomised',
+    variableName: 'Falls-prevention programme',
+    levelId: 'care-home',
+    arms: [
+      { name: 'Falls-prevention programme', allocation: 1 },
+      { name: 'Usual care', allocation: 1 },
+    ],
+  },
+  occasions: {
+    timeUnit: 'months',
+    list: [{ label: 'End of follow-up', time: 12, baseline: false, attrition: 0.25 }],
+  },
+  assumptions: {
+    baselineRate: { value: 1.8, source: invented('Harrow Vale care-home falls audit 2023, falls per resident-year') },
+    rateRatio: { value: 0.7, source: { kind: 'expert', citation: 'Smallest reduction the care-home managers consider worth the staff time', certainty: 'medium' } },
+    followUpTime: { value: 1, source: { kind: 'expert', citation: 'The protocol follows each resident for one year', certainty: 'high' } },
+    dispersion: { value: 0.8, source: { kind: 'pilot', citation: 'Falls of residents in six pilot care homes, 2024 (negative binomial fit)', certainty: 'low' } },
+    betweenClusterCv: { value: 0.3, source: invented('County care-home falls register, rates per home', 'low') },
+    iccs: [{ levelId: 'care-home', value: 0.06, source: invented('County care-home falls register, rates per home', 'low') }],
+  },
+  analysis: { method: 'glm', glmFamily: 'poisson', unitOfAnalysisLevelId: 'resident' },
 };

@@ -1,10 +1,10 @@
 /**
  * The invented demo of PRODUCT.md: a research team at the fictional Harrow Vale Institute with
- * three draft studies. All names, e-mail addresses and studies are made up.
+ * four draft studies. All names, e-mail addresses and studies are made up.
  */
 import type { DesignInput } from '@/lib/design/schema';
 import type { StudyRole } from '../schema';
-import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from './designs';
+import { CLASSROOM_DESIGN, FALLS_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from './designs';
 
 export const DEMO_WORKSPACE = 'Harrow Vale Institute';
 
@@ -44,5 +44,12 @@ export const DEMO_STUDIES: DemoStudy[] = [
       'Volunteers follow two sleep-timing schedules; reaction time is measured on each of 8 nights per volunteer. The nights of one volunteer are repeated measures, not independent units.',
     members: { [PRIYA]: 'owner', [LENA]: 'consultant', [SAM]: 'writer' },
     design: SLEEP_DESIGN,
+  },
+  {
+    title: 'Falls-prevention programme, randomised by care home',
+    description:
+      'Care homes are randomised to a falls-prevention programme (staff training, medication review, safer rooms) or usual care; falls of each resident are counted over a year of follow-up. The care home is the unit of randomisation, the resident the unit of measurement, and the outcome a count of events per resident-year.',
+    members: { [PRIYA]: 'owner', [TOM]: 'editor', [LENA]: 'consultant', [ADA]: 'viewer' },
+    design: FALLS_DESIGN,
   },
 ];

@@ -5,7 +5,7 @@
  * consumers read the design only through the facts. Then the facts themselves for a few shapes.
  */
 import { describe, expect, it } from 'vitest';
-import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
+import { CLASSROOM_DESIGN, FALLS_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
 import { planFromDesign } from '@/lib/plan/from-design';
 import { runChecks } from '@/lib/rules/registry';
 import { specFromDesign } from '@/lib/sim/from-design';
@@ -136,6 +136,7 @@ const DESIGNS: [string, DesignInput][] = [
   ['classroom demo', CLASSROOM_DESIGN],
   ['greenhouse demo', GREENHOUSE_DESIGN],
   ['sleep-timing demo', SLEEP_DESIGN],
+  ['falls-prevention demo', FALLS_DESIGN],
   ...Object.entries(SHAPES),
 ];
 

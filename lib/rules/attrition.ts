@@ -13,6 +13,9 @@
  *   are valid under missing at random (MAR); complete-case analysis and unweighted GEE need the
  *   stronger missing completely at random (Diggle et al. 2002; Liang & Zeger 1986).
  * - recruitment for the same analysable number, N/(1 − a) (SPIRIT 2013 item 14 asks for it).
+ * A count of events measured once over a follow-up is a rate: a unit that leaves early keeps the
+ * events and the time it was followed (the model's offset), so the text says what is lost is
+ * follow-up time, and that the bias comes from leaving related to the risk of the event.
  */
 import { DIGGLE_2002, LIANG_ZEGER_1986, SPIRIT_2013 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
@@ -47,7 +50,11 @@ export const attrition: Rule = {
       (N !== undefined ? `: about ${num(Math.round(lost!))} of ${count(N, unit!.level)}, leaving about ${num(Math.round(complete!))}.` : '.') +
       (plan === 'complete-case' ? ' The plan analyses complete cases.' : plan === 'not-planned' ? ' The plan does not say how missing outcomes will be handled.' : '');
     const multi = several && (repeatedLevel || f.followUps.length >= 2);
-    const why = multi
+    const rate = design.outcome.type === 'count' && !multi;
+    const one = unit ? noun(unit.level) : 'unit';
+    const why = rate
+      ? `The outcome is a count of events over the follow-up: a ${one} who leaves early keeps the events counted and the time followed until then, and a rate analysis with the follow-up time as offset uses both. What is lost is follow-up time, so the study gathers fewer events than planned; and if leaving is related to the risk of the event, the rates of those who stay are biased.`
+      : multi
       ? `A complete-case analysis drops every ${unit ? noun(unit.level) : 'unit'} with any missing measurement, keeping ${pct(1 - a)} of them; a mixed model uses every measurement taken — about ${pct(used)} of them — and is valid if the loss is missing at random (MAR) given what is in the model. ` +
         `Complete-case analysis, and GEE without weights, need the stronger assumption that loss is unrelated to anything measured (${DIGGLE_2002.short}; ${LIANG_ZEGER_1986.short}). If loss depends on the outcome itself, every analysis is biased, and a sensitivity analysis is needed.`
       : `Lost ${who} have no outcome, and no analysis recovers it. If the loss is related to the outcome, results from the rest are biased; under missing at random (MAR) given ${f.baselines.length > 0 ? 'the baseline and ' : ''}the other variables in the model, multiple imputation or a likelihood-based model removes that bias.`;
@@ -61,7 +68,9 @@ export const attrition: Rule = {
         why,
         todo:
           (recruit !== undefined ? `Recruit for the loss: ${num(N!)} / (1 − ${a}) = ${num(recruit)} ${who} to keep ${num(N!)} analysable${f.eu?.groupsObservations && !f.withinUnit ? `, and more ${noun(f.eu.level, true)} if whole ${noun(f.eu.level, true)} can drop out` : ''}. ` : '') +
-          `${multi ? 'Plan a mixed model that uses all measurements under MAR' : `Plan how missing outcomes will be handled (multiple imputation using ${f.baselines.length > 0 ? 'the baseline and ' : ''}other measured variables)`}, record reasons for loss, and pre-specify a sensitivity analysis for loss that depends on the outcome.`,
+          (rate
+            ? `Record each ${one}’s follow-up time until it leaves and analyse events per unit of follow-up time, record reasons for loss, and pre-specify a sensitivity analysis for loss related to the risk of the event.`
+            : `${multi ? 'Plan a mixed model that uses all measurements under MAR' : `Plan how missing outcomes will be handled (multiple imputation using ${f.baselines.length > 0 ? 'the baseline and ' : ''}other measured variables)`}, record reasons for loss, and pre-specify a sensitivity analysis for loss that depends on the outcome.`),
         numbers: numbers({ finalAttrition: a, units: N, unitsLost: lost, completeCases: complete, measurementsUsedByMixedModel: multi ? used : undefined, recruitmentForSameN: recruit }),
         citations: [DIGGLE_2002, LIANG_ZEGER_1986, SPIRIT_2013],
         levelIds: unit ? [unit.level.id] : undefined,

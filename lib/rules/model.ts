@@ -7,7 +7,9 @@
  *
  * Choices (standard practice; the references are in the recommendation): binary and proportion
  * outcomes → binomial family with logit link, counts → Poisson with log link (negative binomial
- * when overdispersed), positive right-skewed continuous outcomes → log scale; Kenward–Roger df
+ * when the Assumptions step gives an overdispersion above 0) and the log of each unit's follow-up
+ * time as an offset, so that the effect is a rate ratio and units followed for less time weigh
+ * less; positive right-skewed continuous outcomes → log scale; Kenward–Roger df
  * below about 40 experimental units, Satterthwaite above, between-within df for a GLMM.
  */
 import type { Analysis, Design } from '@/lib/design/schema';
@@ -36,6 +38,9 @@ export interface ModelPlan {
 
 const cache = new WeakMap<Design, ModelPlan>();
 
+/** The offset of a count model: events per unit of follow-up time. */
+export const COUNT_OFFSET = 'offset(log(follow_up_time))';
+
 export function modelPlan(design: Design): ModelPlan {
   const hit = cache.get(design);
   if (hit) return hit;
@@ -56,7 +61,7 @@ export function familyFor(design: Design): { family: NonNullable<Analysis['glmFa
     case 'proportion':
       return { family: 'binomial', link: 'logit' };
     case 'count':
-      return { family: 'poisson', link: 'log' };
+      return { family: (design.assumptions.dispersion?.value ?? 0) > 0 ? 'negative-binomial' : 'poisson', link: 'log' };
     default:
       return undefined;
   }
@@ -138,6 +143,7 @@ function buildPlan(f: DesignFacts): ModelPlan {
     else fixed.push(blockName);
     blockTerm = blockName;
   }
+  if (d.outcome.type === 'count') fixed.push(COUNT_OFFSET);
 
   const slopeLevel = trajectory && occasions >= 3 && f.subject && levels.includes(f.subject) ? f.subject : undefined;
   const random = randomPart(levels, slopeLevel, crossed);

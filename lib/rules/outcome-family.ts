@@ -5,6 +5,13 @@
  * or GEE (which take a family). Warning when a plan is given, advice while it is not.
  * A wrong family inside a GLM is the blocker of `analysis-mismatch`.
  *
+ * `overdispersion` (warning): a count outcome planned with a Poisson GLM or GLMM and model-based
+ * standard errors while the Assumptions step expects overdispersion κ > 0. A negative binomial
+ * count with mean μ has variance μ + κμ² = μ(1 + κμ), so the Poisson model takes the counts for
+ * 1 + κμ times as precise as they are (μ = baseline rate × follow-up time when both are given).
+ * A random intercept for clusters does not cover it: it models differences between clusters, not
+ * between the units inside one. Robust (sandwich) standard errors and GEE do.
+ *
  * The remedy: a generalised linear model with the family and link of the outcome — binomial
  * with logit link for binary outcomes and for k-of-n proportions, Poisson with log link for
  * counts (negative binomial or an observation-level random effect when overdispersed), beta
@@ -12,12 +19,13 @@
  * Paik 2003); with clustering a GLMM (Bates et al. 2015) or GEE (Liang & Zeger 1986), whose
  * effects are cluster-specific and population-averaged respectively.
  */
-import { BATES_2015, FLEISS_2003, LIANG_ZEGER_1986, MCCULLAGH_NELDER_1989 } from '@/lib/citations';
+import { BATES_2015, FLEISS_2003, LIANG_ZEGER_1986, MCCULLAGH_NELDER_1989, ZHU_LAKKIS_2014 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { familyFor, modelPlan, randomLevels } from './model';
 import { outcomeName, plannedMethod } from './phrases';
-import { cap, noun } from './text';
-import type { Rule } from './types';
+import { cap, dec, noun, numbers } from './text';
+import type { Finding, Rule } from './types';
+import type { Design } from '@/lib/design/schema';
 
 const ID = 'outcome-family';
 
@@ -38,7 +46,7 @@ export const outcomeFamily: Rule = {
     const type = design.outcome.type;
     if (type !== 'binary' && type !== 'count' && type !== 'proportion') return [];
     const m = design.analysis.method;
-    if (m === 'glm' || m === 'glmm' || m === 'gee') return [];
+    if (m === 'glm' || m === 'glmm' || m === 'gee') return type === 'count' ? overdispersion(design) : [];
     const f = designFacts(design);
     const fam = familyFor(design)!;
     const clustered = randomLevels(f);
@@ -62,3 +70,37 @@ export const outcomeFamily: Rule = {
     ];
   },
 };
+
+/** A Poisson model with model-based standard errors for counts the Assumptions step expects to be overdispersed (see the file's comment). */
+function overdispersion(design: Design): Finding[] {
+  const a = design.analysis;
+  const kappa = design.assumptions.dispersion?.value ?? 0;
+  if (a.method === 'gee' || a.glmFamily !== 'poisson' || a.standardErrors !== 'model' || !(kappa > 0)) return [];
+  const f = designFacts(design);
+  const unit = f.bottom ? noun(f.bottom.level) : 'unit';
+  const rate = design.assumptions.baselineRate?.value;
+  const time = design.assumptions.followUpTime?.value;
+  const mean = rate !== undefined && time !== undefined ? rate * time : undefined;
+  const factor = mean !== undefined ? 1 + kappa * mean : undefined;
+  const clusters = randomLevels(f).filter((l) => l !== f.bottom);
+  const size =
+    factor !== undefined
+      ? `With about ${dec(mean!, 2)} ${outcomeName(design)} per ${unit} over the follow-up (the baseline rate ${dec(rate!, 3)} × follow-up ${dec(time!, 3)}), the variance is 1 + ${dec(kappa, 3)} × ${dec(mean!, 2)} = ${dec(factor, 2)} times the mean, so the Poisson model takes the counts for ${dec(factor, 2)} times as precise as they are: its standard errors are too small (by up to a factor of ${dec(Math.sqrt(factor), 2)}) and its p-values too low.`
+      : `The variance is then 1 + ${dec(kappa, 3)} × the mean count times the mean, so the Poisson model takes the counts for more precise than they are: its standard errors are too small and its p-values too low.`;
+  return [
+    {
+      ruleId: ID,
+      key: 'overdispersion',
+      severity: 'warning',
+      title: 'The plan uses a Poisson model, but the counts are expected to be overdispersed',
+      found: `${cap(plannedMethod(design))} has the Poisson family, which assumes that the variance of ${outcomeName(design)} equals its mean; the Assumptions step expects an overdispersion of ${dec(kappa, 3)} between ${f.bottom ? noun(f.bottom.level, true) : 'units'}.`,
+      why:
+        `In a negative binomial model the variance of a count with mean μ is μ + κμ², here with κ = ${dec(kappa, 3)}. ${size}` +
+        (clusters.length > 0 ? ` A random intercept for ${clusters.map((l) => noun(l.level)).join(' and ')} does not cover this: it models differences between ${noun(clusters[0]!.level, true)}, not between the ${noun(f.bottom!.level, true)} of one ${noun(clusters[0]!.level)}.` : ''),
+      todo: `Use the negative binomial family (or add an observation-level random effect to the Poisson model): \`${modelPlan(design).formula}\`, with the log of each ${unit}’s follow-up time as the offset, and report the rate ratio with its confidence interval.`,
+      model: modelPlan(design).formula,
+      numbers: numbers({ dispersion: kappa, meanCount: mean, varianceFactor: factor }),
+      citations: [MCCULLAGH_NELDER_1989, ZHU_LAKKIS_2014, ...(clusters.length > 0 ? [BATES_2015] : [])],
+    },
+  ];
+}

@@ -48,6 +48,17 @@ export function assignedVerb(design: Design): string {
   return design.assignment.kind === 'randomised' || design.assignment.kind === undefined ? 'is assigned' : 'varies';
 }
 
+/** What a cluster-level analysis compares: "means", "event rates" for counts, "proportions" for yes-or-no and k-of-n outcomes. */
+export function clusterSummaries(design: Design): string {
+  const t = design.outcome.type;
+  return t === 'count' ? 'event rates' : t === 'binary' || t === 'proportion' ? 'proportions' : 'means';
+}
+
+/** "a mixed model", or "a generalised linear mixed model (poisson family, log link)" when the outcome needs a family. */
+export function mixedModelName(plan: { family?: string | undefined; link?: string | undefined }): string {
+  return plan.family ? `a generalised linear mixed model (${plan.family} family, ${plan.link} link)` : 'a mixed model';
+}
+
 /** "20 classrooms (10 per arm)". */
 export function unitsWithArms(f: DesignFacts, L: LevelInfo, perArm: number | undefined): string {
   return perArm !== undefined && !f.withinUnit && f.design.assignment.arms.length >= 2 ? `${count(L.total, L.level)} (${num(perArm)} per arm)` : count(L.total, L.level);

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analysisSchema, type Design } from '@/lib/design/schema';
-import { classroom, empty, greenhouse, longitudinal, miceInCages, simple, sleep, twins, variant } from './__fixtures__/designs';
+import { absencesPoisson, classroom, empty, greenhouse, longitudinal, miceInCages, simple, sleep, twins, variant } from './__fixtures__/designs';
 import { runChecks } from './registry';
 
 const rec = (d: Design) => runChecks(d).recommendation;
@@ -71,9 +71,17 @@ describe('model notation', () => {
     const r = rec(variant(simple, (d) => { d.outcome.type = 'binary'; }));
     expect([r.method, r.family, r.link]).toEqual(['glm', 'binomial', 'logit']);
   });
-  it('count outcome in classrooms: GLMM, Poisson, log link, between-within df', () => {
+  it('count outcome in classrooms: GLMM, Poisson, log link, between-within df, follow-up time as offset', () => {
     const r = rec(variant(classroom, (d) => { d.outcome.type = 'count'; }));
     expect([r.method, r.family, r.link, r.dfMethod]).toEqual(['glmm', 'poisson', 'log', 'between-within']);
+    expect(r.model).toBe('reading_score ~ programme + baseline_score + school + offset(log(follow_up_time)) + (1 | classroom)');
+    expect(r.adjustments.some((a) => a.includes('follow-up time as an offset'))).toBe(true);
+  });
+  it('overdispersed counts: the negative binomial family, and adopting it clears the overdispersion warning', () => {
+    const r = rec(absencesPoisson);
+    expect([r.method, r.family]).toEqual(['glmm', 'negative-binomial']);
+    expect(r.adjustments.some((a) => a.startsWith('Negative binomial family, as the Assumptions step expects overdispersion (0.5)'))).toBe(true);
+    expect(runChecks(adopt(absencesPoisson)).findings.some((f) => f.key === 'overdispersion')).toBe(false);
   });
   it('independent units with unequal variance: linear regression with HC3', () => {
     const r = rec(variant(simple, (d) => { d.outcome.unequalVarianceExpected = true; }));

@@ -71,6 +71,11 @@ export function recommend(design: Design, findings: readonly Finding[]): Recomme
     citations.push(SENN_2002);
   }
   if (plan.logScale) adjustments.push(`Analyse ${name} on the log scale and report the back-transformed effect as a ratio with its confidence interval (a gamma model with log link is the alternative).`);
+  if (design.outcome.type === 'count') {
+    const who = f.bottom ? noun(f.bottom.level, true) : 'units';
+    adjustments.push(`The log of each ${f.bottom ? noun(f.bottom.level) : 'unit'}’s follow-up time as an offset: the effect is a rate ratio, and ${who} followed for less time count for the time they were followed.`);
+  }
+  if (plan.family === 'negative-binomial') adjustments.push(`Negative binomial family, as the Assumptions step expects overdispersion (${design.assumptions.dispersion!.value}): a Poisson model would understate the standard errors.`);
   if (plan.family === 'poisson') adjustments.push('Check for overdispersion; use a negative binomial model (or an observation-level random effect) if the variance clearly exceeds the mean.');
   if (plan.timeModel === 'spline') adjustments.push('Model time with a natural cubic spline (3 degrees of freedom), fixed in the protocol.');
   if (plan.slopeLevel) adjustments.push(`Random slope for time at the ${noun(plan.slopeLevel.level)} level, as the trajectory is of interest.`);

@@ -7,8 +7,10 @@ import type { Design } from '@/lib/design/schema';
 import {
   classroom,
   classroomMixed,
+  absencesPoisson,
   classroomNoPlan,
   empty,
+  falls,
   greenhouse,
   longitudinal,
   miceInCages,
@@ -164,12 +166,18 @@ const CASES: Record<string, RuleCases> = {
     fires: [
       ['binary outcome, t-test', variant(simple, (d) => { d.outcome.type = 'binary'; }), { key: 'binary', severity: 'warning' }],
       ['count outcome in classrooms', variant(classroom, (d) => { d.outcome.type = 'count'; }), { key: 'count' }],
+      ['overdispersed counts, Poisson mixed model', absencesPoisson, { key: 'overdispersion', severity: 'warning' }],
+      ['overdispersed counts, Poisson GLM without rates given', variant(absencesPoisson, (d) => { d.analysis.method = 'glm'; delete d.assumptions.baselineRate; }), { key: 'overdispersion' }],
       ['proportion, no plan yet', variant(outcomeOnly, (d) => { d.outcome.type = 'proportion'; }), { key: 'proportion', severity: 'advice' }],
     ],
     silent: [
       ['continuous outcome', simple],
       ['binary outcome with a GLM', variant(simple, (d) => { d.outcome.type = 'binary'; d.analysis.method = 'glm'; d.analysis.glmFamily = 'binomial'; })],
       ['binary outcome with GEE', variant(simple, (d) => { d.outcome.type = 'binary'; d.analysis.method = 'gee'; })],
+      ['overdispersed counts, negative binomial mixed model', variant(absencesPoisson, (d) => { d.analysis.glmFamily = 'negative-binomial'; })],
+      ['overdispersed counts, Poisson with CR2 standard errors', variant(absencesPoisson, (d) => { d.analysis.standardErrors = 'cr2'; })],
+      ['overdispersed counts, Poisson GEE', variant(absencesPoisson, (d) => { d.analysis.method = 'gee'; })],
+      ['Poisson counts (no overdispersion expected)', variant(absencesPoisson, (d) => { d.assumptions.dispersion!.value = 0; })],
     ],
   },
   'skewed-outcome': {
@@ -259,6 +267,7 @@ const CASES: Record<string, RuleCases> = {
       ['classroom demo: 8% by the end of the year', classroom, { key: 'attrition', severity: 'warning' }],
       ['sleep demo: 10% from night 5', sleep, { severity: 'warning' }],
       ['sleep with a mixed model under MAR: advice', variant(sleep, (d) => { d.analysis.missingData = 'mixed-model-mar'; }), { severity: 'advice' }],
+      ['counts of absences: 8% lose follow-up time', absencesPoisson, { severity: 'warning' }],
     ],
     silent: [
       ['no attrition', simple],
@@ -322,6 +331,31 @@ describe.each(RULES.map((r) => [r.id, r] as const))('%s', (id, rule) => {
   });
 });
 
+describe('count outcomes read as counts', () => {
+  it('a Poisson model of overdispersed counts: the variance factor 1 + κμ from the rate and follow-up', () => {
+    const f = runChecks(absencesPoisson).findings.find((x) => x.key === 'overdispersion')!;
+    expect(f.found).toContain('overdispersion of 0.5 between pupils');
+    // μ = 0.5 days a month × 6 months = 3; 1 + 0.5 × 3 = 2.5; √2.5 = 1.58.
+    expect(f.why).toContain('1 + 0.5 × 3 = 2.5 times the mean');
+    expect(f.why).toContain('by up to a factor of 1.58');
+    expect(f.why).toContain('A random intercept for classroom does not cover this');
+    expect(f.numbers).toEqual({ dispersion: 0.5, meanCount: 3, varianceFactor: 2.5 });
+  });
+  it('a clustered count: cluster-level analysis of event rates, a GLMM with its family, the follow-up time as offset', () => {
+    const d = variant(absencesPoisson, (x) => { x.analysis = { ...x.analysis, method: 'glm', randomIntercepts: [], unitOfAnalysisLevelId: 'pupil' }; });
+    const unit = runChecks(d).findings.find((x) => x.ruleId === 'unit-of-analysis')!;
+    expect(unit.todo).toContain('a generalised linear mixed model (negative-binomial family, log link)');
+    expect(unit.todo).toContain('a t-test on the 20 classroom event rates');
+    expect(unit.model).toBe('days_absent ~ programme + baseline_score + school + offset(log(follow_up_time)) + (1 | classroom)');
+    expect(runChecks(d).findings.find((x) => x.ruleId === 'shared-environment')!.todo).toContain('analyse classroom event rates');
+  });
+  it('attrition of a count: what is lost is follow-up time', () => {
+    const f = runChecks(absencesPoisson).findings.find((x) => x.ruleId === 'attrition')!;
+    expect(f.why).toContain('What is lost is follow-up time');
+    expect(f.todo).toContain('Record each pupil’s follow-up time until it leaves');
+  });
+});
+
 describe('demo designs', () => {
   const ruleIds = (d: Design) => new Set(runChecks(d).findings.map((f) => f.ruleId));
   const signature = (d: Design) => runChecks(d).findings.map((f) => `${f.ruleId}:${f.key}:${f.severity}`).sort().join('|');
@@ -348,25 +382,41 @@ describe('demo designs', () => {
     for (const id of ['repeated-measures', 'crossover', 'spatial-serial', 'analysis-mismatch']) expect(ids).toContain(id);
     expect(runChecks(sleep).findings.find((f) => f.ruleId === 'spatial-serial')!.key).toBe('night');
   });
-  it('the three demo designs trigger different findings', () => {
-    const sets = [classroom, greenhouse, sleep].map(signature);
-    expect(new Set(sets).size).toBe(3);
+  it('falls raises the clustering of residents in care homes and the Poisson model of overdispersed counts', () => {
+    const findings = runChecks(falls).findings;
+    const unit = findings.find((f) => f.ruleId === 'unit-of-analysis')!;
+    expect([unit.key, unit.severity]).toEqual(['care-home', 'blocker']);
+    expect(unit.found).toContain('40 care homes (20 per arm)');
+    expect(unit.todo).toContain('negative-binomial family');
+    expect(unit.todo).toContain('care home event rates');
+    const over = findings.find((f) => f.key === 'overdispersion')!;
+    expect(over.severity).toBe('warning');
+    // μ = 1.8 falls a resident-year × 1 year; 1 + 0.8 × 1.8 = 2.44.
+    expect(over.why).toContain('1 + 0.8 × 1.8 = 2.44 times the mean');
+    expect(findings.find((f) => f.ruleId === 'attrition')!.why).toContain('What is lost is follow-up time');
+    expect(runChecks(falls).recommendation.model).toBe('falls ~ programme + mobility + offset(log(follow_up_time)) + (1 | care_home)');
+  });
+  it('the four demo designs trigger different findings', () => {
+    const sets = [classroom, greenhouse, sleep, falls].map(signature);
+    expect(new Set(sets).size).toBe(4);
     const c = ruleIds(classroom);
     const g = ruleIds(greenhouse);
     const s = ruleIds(sleep);
-    expect(c.has('pseudoreplication') || c.has('crossover')).toBe(false);
-    expect(g.has('crossover') || g.has('repeated-measures')).toBe(false);
-    expect(s.has('pseudoreplication') || s.has('unit-of-analysis')).toBe(false);
+    const f = ruleIds(falls);
+    expect(c.has('pseudoreplication') || c.has('crossover') || c.has('outcome-family')).toBe(false);
+    expect(g.has('crossover') || g.has('repeated-measures') || g.has('outcome-family')).toBe(false);
+    expect(s.has('pseudoreplication') || s.has('unit-of-analysis') || s.has('outcome-family')).toBe(false);
+    expect(f.has('pseudoreplication') || f.has('crossover') || f.has('repeated-measures') || f.has('skewed-outcome')).toBe(false);
   });
   it('findings are sorted blocker → warning → advice', () => {
     const rank = { blocker: 0, warning: 1, advice: 2 };
-    for (const d of [classroom, greenhouse, sleep, empty]) {
+    for (const d of [classroom, greenhouse, sleep, falls, empty]) {
       const r = runChecks(d).findings.map((f) => rank[f.severity]);
       expect(r).toEqual([...r].sort((a, b) => a - b));
     }
   });
   it('keys are unique within a rule', () => {
-    for (const d of [classroom, greenhouse, sleep]) {
+    for (const d of [classroom, greenhouse, sleep, falls]) {
       const keys = runChecks(d).findings.map((f) => `${f.ruleId}:${f.key}`);
       expect(new Set(keys).size).toBe(keys.length);
     }

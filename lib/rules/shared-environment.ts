@@ -13,7 +13,7 @@
 import { HURLBERT_1984, LAZIC_2010 } from '@/lib/citations';
 import { accountsFor, designFacts, unitsPerArm } from '@/lib/design/facts';
 import { modelPlan } from './model';
-import { assignedVerb, treatmentName, unitsWithArms } from './phrases';
+import { assignedVerb, clusterSummaries, treatmentName, unitsWithArms } from './phrases';
 import { cap, count, noun, num, numbers } from './text';
 import type { Finding, Rule } from './types';
 import type { Level } from '@/lib/design/schema';
@@ -75,7 +75,7 @@ export const sharedEnvironment: Rule = {
             `Anything else that happens to one ${noun(L.level)} affects all its ${noun(child.level, true)} at once and cannot be told apart from the treatment except by comparing ${noun(L.level, true)}.`,
           todo: handled
             ? `The plan accounts for this. Plan the number of ${noun(L.level, true)}, not of ${noun(child.level, true)}, and keep ${noun(L.level, true)} in the same conditions apart from the treatment.`
-            : `Count ${noun(L.level, true)} as n: analyse ${noun(L.level)} means or use a random intercept for ${noun(L.level)} (\`${model}\`), and plan the number of ${noun(L.level, true)} from the design effect.`,
+            : `Count ${noun(L.level, true)} as n: analyse ${noun(L.level)} ${clusterSummaries(design)} or use a random intercept for ${noun(L.level)} (\`${model}\`), and plan the number of ${noun(L.level, true)} from the design effect.`,
           model,
           numbers: numbers({ experimentalUnits: L.total, unitsPerArm: perArm, unitsInside: child.perParent, observations: f.totalObs }),
           citations: [HURLBERT_1984, LAZIC_2010],

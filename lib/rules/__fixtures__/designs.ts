@@ -1,8 +1,8 @@
 /**
- * Designs the rule tests share: the three demo designs (db/demo/designs.ts) and small variants
+ * Designs the rule tests share: the four demo designs (db/demo/designs.ts) and small variants
  * of them, each made to have, or not to have, one problem. All invented.
  */
-import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
+import { CLASSROOM_DESIGN, FALLS_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
 import { designSchema, type Design, type DesignInput } from '@/lib/design/schema';
 
 export const parse = (d: DesignInput): Design => designSchema.parse(d);
@@ -17,6 +17,7 @@ export function variant(base: Design, edit: (d: Design) => void): Design {
 export const classroom = parse(CLASSROOM_DESIGN);
 export const greenhouse = parse(GREENHOUSE_DESIGN);
 export const sleep = parse(SLEEP_DESIGN);
+export const falls = parse(FALLS_DESIGN);
 export const empty = parse({});
 export const outcomeOnly = parse({ outcome: { name: 'Blood pressure', type: 'continuous', shape: 'symmetric' } });
 
@@ -33,6 +34,19 @@ export const simple = parse({
   assignment: { kind: 'randomised', levelId: 'person', arms: [{ name: 'Drug', allocation: 1 }, { name: 'Placebo', allocation: 1 }] },
   occasions: { list: [{ label: 'Week 12', time: 12 }] },
   analysis: { method: 't-test', unitOfAnalysisLevelId: 'person' },
+});
+
+/**
+ * Days absent per pupil, classrooms randomised, planned as a Poisson mixed model with a random
+ * intercept for classroom, with counts expected to be overdispersed (0.5 at 3 days per pupil).
+ */
+export const absencesPoisson = variant(classroom, (d) => {
+  d.outcome.name = 'Days absent';
+  d.outcome.type = 'count';
+  d.occasions.list = [{ label: 'End of year', time: 36, baseline: false, attrition: 0.08 }];
+  const source = { kind: 'expert', certainty: 'medium' } as const;
+  Object.assign(d.assumptions, { baselineRate: { value: 0.5, source }, rateRatio: { value: 0.75, source }, followUpTime: { value: 6, source }, dispersion: { value: 0.5, source }, betweenClusterCv: { value: 0.25, source } });
+  d.analysis = { ...d.analysis, method: 'glmm', glmFamily: 'poisson', randomIntercepts: ['classroom'], unitOfAnalysisLevelId: 'classroom' };
 });
 
 /** Volunteers randomised between schedules (parallel groups), 8 nights each, t-test on nights. */
