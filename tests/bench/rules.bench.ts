@@ -3,7 +3,7 @@
  * gets a fresh copy of the design, so the per-design caches in lib/rules start empty, as they do
  * when a revision is saved.
  */
-import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
+import { CLASSROOM_DESIGN, FALLS_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
 import { designSchema, type Design } from '@/lib/design/schema';
 import { runChecks } from '@/lib/rules/registry';
 import type { Benchmark } from './run';
@@ -12,6 +12,7 @@ const DESIGNS: [string, Design][] = [
   ['classroom', designSchema.parse(CLASSROOM_DESIGN)],
   ['greenhouse', designSchema.parse(GREENHOUSE_DESIGN)],
   ['sleep', designSchema.parse(SLEEP_DESIGN)],
+  ['falls', designSchema.parse(FALLS_DESIGN)],
 ];
 
 export const benchmarks: Benchmark[] = DESIGNS.map(([name, design]) => ({
