@@ -6,6 +6,7 @@
  */
 import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
+import { scenarioApplies } from '@/lib/sim/analyses';
 import type { Scenario, SimulationSpec, SimulationSpecInput, Violation } from '@/lib/validation/simulations';
 import { VIOLATIONS } from './words';
 
@@ -28,6 +29,7 @@ export const runFormSchema = z.object({
       'unequal-variance': z.object({ on: z.boolean(), sdRatio: n('the SD ratio').min(0.05, 'The SD ratio is at least 0.05.').max(20, 'The SD ratio can be at most 20.') }),
       nonlinear: z.object({ on: z.boolean(), strength: n('the rise of the curve').min(-10, 'The rise is at least −10 SD.').max(10, 'The rise can be at most 10 SD.') }),
       serial: z.object({ on: z.boolean(), ar: n('the AR(1) correlation').min(-0.99, 'ρ is at least −0.99.').max(0.99, 'ρ can be at most 0.99.') }),
+      'carry-over': z.object({ on: z.boolean(), percent: n('the share of the effect carried over').min(-1000, 'The share is at least −1,000%.').max(1000, 'The share can be at most 1,000%.') }),
     })
     .refine((s) => VIOLATIONS.some((v) => s[v].on), { message: 'Choose at least one scenario.', path: ['none', 'on'] }),
   analyses: z.array(z.enum(ANALYSIS_NAMES), { error: 'Choose at least one analysis.' }).min(1, 'Choose at least one analysis.'),
@@ -50,6 +52,7 @@ export function formDefaults(spec: SimulationSpec): RunFormValues {
   const unequal = has('unequal-variance');
   const nonlinear = has('nonlinear');
   const serial = has('serial');
+  const carry = has('carry-over');
   return {
     scenarios: {
       none: { on: Boolean(has('none')) },
@@ -63,6 +66,7 @@ export function formDefaults(spec: SimulationSpec): RunFormValues {
       'unequal-variance': { on: Boolean(unequal), sdRatio: unequal?.violation === 'unequal-variance' ? unequal.sdRatio : 2 },
       nonlinear: { on: Boolean(nonlinear), strength: nonlinear?.violation === 'nonlinear' ? nonlinear.strength : 1 },
       serial: { on: Boolean(serial), ar: serial?.violation === 'serial' ? serial.ar : 0.5 },
+      'carry-over': { on: Boolean(carry), percent: carry?.violation === 'carry-over' ? carry.fraction * 100 : 50 },
     },
     analyses: [...spec.analyses],
     replicates: Math.min(MAX_TAB_REPLICATES, Math.max(MIN_REPLICATES, spec.replicates)),
@@ -88,8 +92,13 @@ export function scenarioFromForm(v: Violation, s: RunFormValues['scenarios'], ha
     case 'serial':
       return { violation: 'serial', ar: s.serial.ar };
     case 'carry-over':
-      return { violation: 'carry-over', fraction: 0.5 };
+      return { violation: 'carry-over', fraction: s['carry-over'].percent / 100 };
   }
+}
+
+/** The scenarios the form offers for `base`: those that apply to its data (lib/sim/analyses.ts). */
+export function offeredViolations(base: SimulationSpec): Violation[] {
+  return VIOLATIONS.filter((v) => scenarioApplies(v, base));
 }
 
 /** The specification for a run: the design's `base` with the form's scenarios, analyses, replicates and seed. */
@@ -98,7 +107,7 @@ export function toSpec(base: SimulationSpec, v: RunFormValues): SimulationSpecIn
     design: base.design,
     truth: base.truth,
     alpha: base.alpha,
-    scenarios: VIOLATIONS.filter((x) => v.scenarios[x].on).map((x) => scenarioFromForm(x, v.scenarios, base.design.occasions !== undefined)),
+    scenarios: offeredViolations(base).filter((x) => v.scenarios[x].on).map((x) => scenarioFromForm(x, v.scenarios, base.design.occasions !== undefined)),
     analyses: ANALYSIS_NAMES.filter((a) => v.analyses.includes(a)),
     replicates: v.replicates,
     seed: v.seed,

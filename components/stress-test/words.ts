@@ -6,7 +6,7 @@
 import type { AnalysisName } from '@/lib/models/types';
 import type { Scenario, Violation } from '@/lib/validation/simulations';
 
-export const VIOLATIONS = ['none', 'skewed', 'heavy-tailed', 'outliers', 'unequal-variance', 'nonlinear', 'serial'] as const satisfies readonly Violation[];
+export const VIOLATIONS = ['none', 'skewed', 'heavy-tailed', 'outliers', 'unequal-variance', 'nonlinear', 'serial', 'carry-over'] as const satisfies readonly Violation[];
 
 export const VIOLATION_TITLES: Record<Violation, string> = {
   none: 'Assumptions hold',

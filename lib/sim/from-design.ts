@@ -410,3 +410,18 @@ export function specFromDesign(design: Design): SpecFromDesign {
   spec.analyses = offered.filter((x) => wanted.has(x));
   return { ok: true, spec, offered };
 }
+
+/**
+ * What the specification's size per arm counts, in the design's words: "classrooms per arm",
+ * "volunteers per sequence" (a cross-over), "classrooms per arm in each school" (blocks), or
+ * "units per arm" when the design does not name them.
+ */
+export function sizeWords(design: Design, spec: SimulationSpecInput): string {
+  const f = designFacts(design);
+  const d = spec.design;
+  if (d.crossover) return `${f.eu ? plural(f.eu) : 'units'} per sequence`;
+  const A = f.assignment;
+  if (!A) return d.clustersPerArm !== undefined ? 'clusters per arm' : 'units per arm';
+  const above = f.levels[A.index - 1];
+  return `${plural(A)} per arm${d.blocks !== undefined && above ? ` in each ${lower(above)}` : ''}`;
+}

@@ -8,21 +8,16 @@ import { Alert } from '@/components/ui/alert';
 import { canStudy } from '@/lib/auth/permissions';
 import { currentActor, type Actor } from '@/lib/auth/session';
 import { getDesign } from '@/lib/data/designs';
-import { designFacts } from '@/lib/design/facts';
 import { defaultSimulationSpec, getSimulation, listStudySimulations } from '@/lib/data/simulations';
 import { getStudy } from '@/lib/data/studies';
 import { AppError } from '@/lib/errors';
 import type { SimulationDto } from '@/lib/jobs/dto';
 import { load } from '@/lib/page-guard';
 import { offeredAnalyses } from '@/lib/sim/analyses';
+import { sizeWords } from '@/lib/sim/from-design';
 import type { SimulationSpec } from '@/lib/validation/simulations';
 
 export const metadata: Metadata = { title: 'Stress test' };
-
-/** "classroom" → "classrooms"; names that already end in s stay. */
-function plural(name: string): string {
-  return name.endsWith('s') ? name : `${name}s`;
-}
 
 const notFoundAsNull = (e: unknown) => {
   if (e instanceof AppError && e.code === 'not_found') return null;
@@ -59,10 +54,7 @@ export default async function StressTestPage({ params, searchParams }: { params:
   const shown = await shownRun(actor, typeof runParam === 'string' ? runParam : undefined, runs, defaults.spec);
   const initialRun = shown && shown.studyId === studyId ? (shown as typeof shown & { spec: SimulationSpec }) : null;
   const canRun = canStudy(study.role, 'simulation.run') && study.status !== 'archived';
-  const top = designFacts(state.design).assignment;
-  const clustered = defaults.spec?.design.clustersPerArm !== undefined;
-  const clusterName = clustered && top ? plural(top.level.name.toLowerCase()) : 'clusters';
-  const sizeLabel = clustered ? `${clusterName} per arm` : 'units per arm';
+  const sizeLabel = defaults.spec ? sizeWords(state.design, defaults.spec) : 'units per arm';
 
   return (
     <div className="space-y-6">
