@@ -3,7 +3,7 @@ import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/des
 import { designSchema, type DesignInput } from '@/lib/design/schema';
 import { SHAPES } from '@/lib/design/test-shapes';
 import { simulationSpecSchema } from '@/lib/validation/simulations';
-import { specFromDesign } from './from-design';
+import { describeSimulation, sizeWords, specFromDesign } from './from-design';
 
 const parse = (d: DesignInput) => designSchema.parse(d);
 
@@ -290,5 +290,36 @@ describe('every shape the wizard accepts, with the numbers the Plan reads', () =
 
   it.each(Object.entries(SHAPES))('%s: a specification the engine accepts', (_name, design) => {
     specOf(design);
+  });
+});
+
+describe('what the tab says is simulated, in the design’s words', () => {
+  const words = (design: DesignInput) => {
+    const d = parse(design);
+    const { spec } = specOf(design);
+    return { size: sizeWords(d, spec), text: describeSimulation(d, spec) };
+  };
+
+  it('the sleep demo: the two orders of the schedules over the 8 nights', () => {
+    expect(words(SLEEP_DESIGN)).toEqual({
+      size: 'volunteers per sequence',
+      text: [
+        'Simulated from the design: 12 volunteers in each of two orders, each measured on 8 nights — Early schedule on nights 1–4, then Late schedule on nights 5–8; or Late schedule on nights 1–4, then Early schedule on nights 5–8. Every analysis adjusts for the night.',
+      ],
+    });
+  });
+
+  it('classrooms within schools, and a binary outcome with its scale', () => {
+    expect(words(SHAPES['three levels, treatment at the middle'])).toEqual({
+      size: 'classrooms per arm in each school',
+      text: ['Simulated from the design: 2 classrooms per arm in each of 6 schools, 25 pupils each.'],
+    });
+    expect(words(SHAPES['binary outcome, clustered']).text).toEqual([
+      'Simulated from the design: 8 clinics per arm, 12 patients each.',
+      'The effect is a log odds ratio of -0.539 (a proportion of 0.3 without the intervention and 0.2 with it); bias and CI width are on the log-odds scale.',
+    ]);
+    expect(words(SHAPES['count outcome, individually randomised']).text[1]).toBe(
+      'The effect is a log rate ratio of -0.2877 (rate ratio 0.75; a mean count of 1 per unit over the follow-up without the intervention); bias and CI width are on the log scale.',
+    );
   });
 });

@@ -425,3 +425,57 @@ export function sizeWords(design: Design, spec: SimulationSpecInput): string {
   const above = f.levels[A.index - 1];
   return `${plural(A)} per arm${d.blocks !== undefined && above ? ` in each ${lower(above)}` : ''}`;
 }
+
+/** "nights 1–4", "night 5": a run of consecutive occasions, counted from 1. */
+function span(L: LevelInfo | undefined, from: number, to: number): string {
+  const name = L ? lower(L) : 'period';
+  return from === to ? `${name} ${from}` : `${name.endsWith('s') ? name : `${name}s`} ${from}–${to}`;
+}
+
+/** "Early schedule on nights 1–4, then Late schedule on nights 5–8": a sequence in the arms' names. */
+function sequenceWords(sequence: string, arms: string[], L: LevelInfo | undefined): string {
+  const runs: string[] = [];
+  for (let i = 0; i < sequence.length; ) {
+    let j = i;
+    while (j + 1 < sequence.length && sequence[j + 1] === sequence[i]) j++;
+    runs.push(`${arms[sequence[i] === 'A' ? 0 : 1]} on ${span(L, i + 1, j + 1)}`);
+    i = j + 1;
+  }
+  return runs.join(', then ');
+}
+
+/**
+ * What a specification simulates, in the design's words, for the Stress test tab: the units and
+ * how the arms fall on them (in a cross-over, the two orders of the arms), and for binary and
+ * count outcomes the scale of the effect, on which bias and CI width are reported.
+ */
+export function describeSimulation(design: Design, spec: SimulationSpecInput): string[] {
+  const f = designFacts(design);
+  const d = spec.design;
+  const t = spec.truth;
+  const arms = design.assignment.arms.map((a) => a.name);
+  const out: string[] = [];
+  const perArm = typeof d.unitsPerArm === 'number' ? `${d.unitsPerArm}` : d.unitsPerArm ? `${d.unitsPerArm[0]} and ${d.unitsPerArm[1]}` : '';
+  if (d.crossover && f.eu && arms.length >= 2) {
+    const inner = f.levels[f.eu.index + 1];
+    const [s1, s2] = d.crossover.sequences ?? defaultSequences(d.crossover.periods);
+    out.push(
+      `Simulated from the design: ${perArm} ${plural(f.eu)} in each of two orders, each measured on ${d.crossover.periods} ${inner ? plural(inner) : 'periods'} — ${sequenceWords(s1, arms, inner)}; or ${sequenceWords(s2, arms, inner)}. Every analysis adjusts for the ${inner ? lower(inner) : 'period'}.`,
+    );
+  } else if (f.assignment) {
+    const A = f.assignment;
+    const members = f.levels[A.index + 1];
+    const within = d.blocks !== undefined && A.index > 0 ? ` in each of ${d.blocks} ${plural(f.levels[A.index - 1]!)}` : '';
+    const what = d.clustersPerArm !== undefined ? `${d.clustersPerArm} ${plural(A)} per arm${within}, ${d.clusterSize} ${members ? plural(members) : 'members'} each` : `${perArm} ${plural(A)} per arm${within}`;
+    const occasions = d.occasions !== undefined ? `, measured ${d.occasions} times` : '';
+    out.push(`Simulated from the design: ${what}${occasions}.${d.target === 'treat:time' ? ' The effect is the difference in slopes over time between the arms.' : ''}`);
+  }
+  const base = t.baseline;
+  if (t.family === 'binary' && base !== undefined) {
+    const p2 = 1 / (1 + Math.exp(-(Math.log(base / (1 - base)) + t.effect)));
+    out.push(`The effect is a log odds ratio of ${nice(t.effect)} (a proportion of ${nice(base)} without the intervention and ${nice(p2)} with it); bias and CI width are on the log-odds scale.`);
+  } else if (t.family === 'count' && base !== undefined) {
+    out.push(`The effect is a log rate ratio of ${nice(t.effect)} (rate ratio ${nice(Math.exp(t.effect))}; a mean count of ${nice(base)} per unit over the follow-up without the intervention); bias and CI width are on the log scale.`);
+  }
+  return out;
+}

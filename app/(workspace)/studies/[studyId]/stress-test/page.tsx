@@ -14,7 +14,7 @@ import { AppError } from '@/lib/errors';
 import type { SimulationDto } from '@/lib/jobs/dto';
 import { load } from '@/lib/page-guard';
 import { offeredAnalyses } from '@/lib/sim/analyses';
-import { sizeWords } from '@/lib/sim/from-design';
+import { describeSimulation, sizeWords } from '@/lib/sim/from-design';
 import type { SimulationSpec } from '@/lib/validation/simulations';
 
 export const metadata: Metadata = { title: 'Stress test' };
@@ -69,6 +69,12 @@ export default async function StressTestPage({ params, searchParams }: { params:
             effect), and whether its 95% confidence intervals hold the true effect 95% of the time. Every figure carries its Monte Carlo SE (Morris, White &
             Crowther 2019, Stat Med 38:2074).
           </p>
+          {defaults.spec &&
+            describeSimulation(state.design, defaults.spec).map((s) => (
+              <p key={s} className="text-sm" data-testid="simulated-design">
+                {s}
+              </p>
+            ))}
           <p className="text-sm text-muted">
             The defaults come from the{' '}
             <Link href={`/studies/${studyId}/design`} className="text-brand underline">
