@@ -27,7 +27,7 @@ function num(x: number): string {
 export function describeScenario(s: Scenario): string {
   switch (s.violation) {
     case 'none':
-      return 'Assumptions hold (normal errors, constant variance)';
+      return 'Assumptions hold (data as the design describes them)';
     case 'skewed':
       return `Right-skewed errors (log-normal with σ of the log ${num(s.sigmaLog)}, same SD)`;
     case 'heavy-tailed':

@@ -455,9 +455,12 @@ export function describeSimulation(design: Design, spec: SimulationSpecInput): s
   const t = spec.truth;
   const arms = design.assignment.arms.map((a) => a.name);
   const out: string[] = [];
+  /** The level one simulated observation belongs to: a period's night, a cluster's member, or the unit. */
+  let row: LevelInfo | undefined = f.assignment;
   const perArm = typeof d.unitsPerArm === 'number' ? `${d.unitsPerArm}` : d.unitsPerArm ? `${d.unitsPerArm[0]} and ${d.unitsPerArm[1]}` : '';
   if (d.crossover && f.eu && arms.length >= 2) {
     const inner = f.levels[f.eu.index + 1];
+    row = inner;
     const [s1, s2] = d.crossover.sequences ?? defaultSequences(d.crossover.periods);
     out.push(
       `Simulated from the design: ${perArm} ${plural(f.eu)} in each of two orders, each measured on ${d.crossover.periods} ${inner ? plural(inner) : 'periods'} — ${sequenceWords(s1, arms, inner)}; or ${sequenceWords(s2, arms, inner)}. Every analysis adjusts for the ${inner ? lower(inner) : 'period'}.`,
@@ -465,6 +468,7 @@ export function describeSimulation(design: Design, spec: SimulationSpecInput): s
   } else if (f.assignment) {
     const A = f.assignment;
     const members = f.levels[A.index + 1];
+    if (d.clustersPerArm !== undefined) row = members;
     const within = d.blocks !== undefined && A.index > 0 ? ` in each of ${d.blocks} ${plural(f.levels[A.index - 1]!)}` : '';
     const what = d.clustersPerArm !== undefined ? `${d.clustersPerArm} ${plural(A)} per arm${within}, ${d.clusterSize} ${members ? plural(members) : 'members'} each` : `${perArm} ${plural(A)} per arm${within}`;
     const occasions = d.occasions !== undefined ? `, measured ${d.occasions} times` : '';
@@ -475,7 +479,7 @@ export function describeSimulation(design: Design, spec: SimulationSpecInput): s
     const p2 = 1 / (1 + Math.exp(-(Math.log(base / (1 - base)) + t.effect)));
     out.push(`The effect is a log odds ratio of ${nice(t.effect)} (a proportion of ${nice(base)} without the intervention and ${nice(p2)} with it); bias and CI width are on the log-odds scale.`);
   } else if (t.family === 'count' && base !== undefined) {
-    out.push(`The effect is a log rate ratio of ${nice(t.effect)} (rate ratio ${nice(Math.exp(t.effect))}; a mean count of ${nice(base)} per unit over the follow-up without the intervention); bias and CI width are on the log scale.`);
+    out.push(`The effect is a log rate ratio of ${nice(t.effect)} (rate ratio ${nice(Math.exp(t.effect))}; a mean count of ${nice(base)} per ${row ? lower(row) : 'unit'} over the follow-up without the intervention); bias and CI width are on the log scale.`);
   }
   return out;
 }
