@@ -38,6 +38,8 @@ export const runFormSchema = z.object({
     .int('Replicates must be a whole number.')
     .min(MIN_REPLICATES, `At least ${MIN_REPLICATES} replicates.`)
     .max(MAX_TAB_REPLICATES, `At most ${MAX_TAB_REPLICATES.toLocaleString('en-GB')} replicates from this tab.`),
+  /** SD of the units' random slopes over time (designs whose effect is a difference in slopes); 0 = parallel trends within an arm. */
+  slopeSd: n('the SD of the slopes').min(0, 'The SD of the slopes is at least 0.').max(1e6, 'The SD of the slopes can be at most 1,000,000.'),
   seed: z.number({ error: 'Enter the seed as a whole number.' }).int('The seed is a whole number.').min(0, 'The seed is at least 0.').max(Number.MAX_SAFE_INTEGER, 'The seed is too large.'),
 });
 
@@ -70,6 +72,7 @@ export function formDefaults(spec: SimulationSpec): RunFormValues {
     },
     analyses: [...spec.analyses],
     replicates: Math.min(MAX_TAB_REPLICATES, Math.max(MIN_REPLICATES, spec.replicates)),
+    slopeSd: spec.truth.randomSlopeSd,
     seed: spec.seed,
   };
 }
@@ -105,7 +108,7 @@ export function offeredViolations(base: SimulationSpec): Violation[] {
 export function toSpec(base: SimulationSpec, v: RunFormValues): SimulationSpecInput {
   return {
     design: base.design,
-    truth: base.truth,
+    truth: base.design.target === 'treat:time' ? { ...base.truth, randomSlopeSd: v.slopeSd } : base.truth,
     alpha: base.alpha,
     scenarios: offeredViolations(base).filter((x) => v.scenarios[x].on).map((x) => scenarioFromForm(x, v.scenarios, base.design.occasions !== undefined)),
     analyses: ANALYSIS_NAMES.filter((a) => v.analyses.includes(a)),

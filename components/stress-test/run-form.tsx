@@ -125,6 +125,18 @@ export function RunForm({ base, analyses, pending, onRun }: RunFormProps) {
         )}
       </fieldset>
 
+      {base.design.target === 'treat:time' && (
+        <TextField
+          label="SD of the units' slopes over time"
+          type="number"
+          min={0}
+          step="any"
+          help="How much each unit's own trend differs from its arm's, in outcome units per time unit. The design does not give it; 0 (the Plan's assumption) means parallel trends within an arm."
+          error={errors.slopeSd?.message}
+          {...register('slopeSd', numberField)}
+        />
+      )}
+
       <div className="grid gap-4 sm:grid-cols-2">
         <TextField
           label="Replicates per scenario"
