@@ -5,47 +5,21 @@
  * scenario started from the study (its design, not a specification sent) completes through
  * pg-boss with a worker in this process, with every measure of every analysis the design chose.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { DEMO_STUDIES } from '@/db/demo/studies';
-import { db } from '@/lib/db';
 import type { DesignInput } from '@/lib/design/schema';
 import { SHAPES } from '@/lib/design/test-shapes';
-import { getBoss, stopBoss } from '@/lib/jobs/boss';
-import { inlineEngine } from '@/lib/jobs/engine';
-import { startWorker, type RunningWorker } from '@/lib/jobs/worker';
 import { METRIC_NAMES } from '@/lib/sim/metrics';
 import { simulationSpecSchema } from '@/lib/validation/simulations';
 import * as runs from '@/app/api/v1/simulations/route';
-import * as run from '@/app/api/v1/simulations/[simulationId]/route';
 import * as studySpec from '@/app/api/v1/studies/[studyId]/simulations/spec/route';
 import * as design from '@/app/api/v1/studies/[studyId]/design/route';
-import { ctx, makeWorld, request, type TestUser } from '../support/fixtures';
+import { ctx, makeWorld, request } from '../support/fixtures';
+import { useInlineWorker, waitUntilEnded } from '../support/sim-worker';
 
 const REPLICATES = 200;
 
-let worker: RunningWorker | undefined;
-
-beforeAll(async () => {
-  await getBoss();
-  worker = await startWorker({ db: db(), engine: inlineEngine, concurrency: 1, log: () => {} });
-});
-
-afterAll(async () => {
-  await worker?.pause();
-  await stopBoss({ timeout: 5_000 });
-});
-
-async function waitUntilEnded(user: TestUser, id: string, timeoutMs = 120_000) {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const res = await run.GET(request('GET', `/api/v1/simulations/${id}`, { user }), ctx({ simulationId: id }));
-    const body = await res.json();
-    expect(res.status).toBe(200);
-    if (!['queued', 'running'].includes(body.status)) return body;
-    if (Date.now() > deadline) throw new Error(`run ${id} still ${body.status} after ${timeoutMs} ms`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
+useInlineWorker();
 
 const DESIGNS: [string, DesignInput][] = [
   ...DEMO_STUDIES.map((s): [string, DesignInput] => [`demo: ${s.title}`, s.design]),
@@ -75,7 +49,7 @@ describe.each(DESIGNS)('from the design: %s', (_name, input) => {
     const started = await runs.POST(request('POST', '/api/v1/simulations', { user: owner, body: { studyId: w.studyId, replicates: REPLICATES } }), ctx({}));
     const created = await started.json();
     expect(started.status, JSON.stringify(created)).toBe(202);
-    const done = await waitUntilEnded(owner, created.id);
+    const done = await waitUntilEnded(owner, created.id, 120_000);
     expect(done.status, done.error ?? '').toBe('done');
     expect(done.spec).toMatchObject({ design: spec.design, truth: spec.truth, analyses: spec.analyses, replicates: REPLICATES });
     expect(done.progress.replicatesDone).toBe(REPLICATES * spec.scenarios.length);
