@@ -8,7 +8,8 @@
  */
 import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
-import { formatBound, REPLICATES, SCENARIO_RANGES, SEED, type Range, type Scenario, type SimulationSpec, type SimulationSpecInput, type Violation } from '@/lib/sim/spec';
+import { scenarioApplies } from '@/lib/sim/analyses';
+import { formatBound, REPLICATES, SCENARIO_RANGES, SEED, SLOPE_SD, type Range, type Scenario, type SimulationSpec, type SimulationSpecInput, type Violation } from '@/lib/sim/spec';
 import { VIOLATIONS } from './words';
 
 /** The tab's replicates: within the engine's range, narrowed so that a run stays interactive. */
@@ -43,6 +44,7 @@ export const runFormSchema = z.object({
       'unequal-variance': z.object({ on: z.boolean(), sdRatio: rangeField(R['unequal-variance'].sdRatio, 'The SD ratio') }),
       nonlinear: z.object({ on: z.boolean(), strength: rangeField(R.nonlinear.strength, 'The rise of the curve', { unit: ' SD' }) }),
       serial: z.object({ on: z.boolean(), ar: rangeField(R.serial.ar, 'The AR(1) correlation ρ') }),
+      'carry-over': z.object({ on: z.boolean(), percent: rangeField(R['carry-over'].fraction, 'The share of the effect carried over', { times: 100, unit: '%' }) }),
     })
     .refine((s) => VIOLATIONS.some((v) => s[v].on), { message: 'Choose at least one scenario.', path: ['none', 'on'] }),
   analyses: z.array(z.enum(ANALYSIS_NAMES), { error: 'Choose at least one analysis.' }).min(1, 'Choose at least one analysis.'),
@@ -51,6 +53,8 @@ export const runFormSchema = z.object({
     .int('Replicates must be a whole number.')
     .min(MIN_REPLICATES, `At least ${MIN_REPLICATES} replicates.`)
     .max(MAX_TAB_REPLICATES, `At most ${MAX_TAB_REPLICATES.toLocaleString('en-GB')} replicates from this tab.`),
+  /** SD of the units' random slopes over time (designs whose effect is a difference in slopes); 0 = parallel trends within an arm. */
+  slopeSd: rangeField(SLOPE_SD, 'The SD of the slopes'),
   seed: z.number({ error: 'Enter the seed as a whole number.' }).int('The seed is a whole number.').min(SEED.min, `The seed is at least ${SEED.min}.`).max(SEED.max, 'The seed is too large.'),
 });
 
@@ -65,6 +69,7 @@ export function formDefaults(spec: SimulationSpec): RunFormValues {
   const unequal = has('unequal-variance');
   const nonlinear = has('nonlinear');
   const serial = has('serial');
+  const carry = has('carry-over');
   return {
     scenarios: {
       none: { on: Boolean(has('none')) },
@@ -78,9 +83,11 @@ export function formDefaults(spec: SimulationSpec): RunFormValues {
       'unequal-variance': { on: Boolean(unequal), sdRatio: unequal?.violation === 'unequal-variance' ? unequal.sdRatio : R['unequal-variance'].sdRatio.default },
       nonlinear: { on: Boolean(nonlinear), strength: nonlinear?.violation === 'nonlinear' ? nonlinear.strength : R.nonlinear.strength.default },
       serial: { on: Boolean(serial), ar: serial?.violation === 'serial' ? serial.ar : R.serial.ar.default },
+      'carry-over': { on: Boolean(carry), percent: (carry?.violation === 'carry-over' ? carry.fraction : R['carry-over'].fraction.default) * 100 },
     },
     analyses: [...spec.analyses],
     replicates: Math.min(MAX_TAB_REPLICATES, Math.max(MIN_REPLICATES, spec.replicates)),
+    slopeSd: spec.truth.randomSlopeSd,
     seed: spec.seed,
   };
 }
@@ -103,17 +110,22 @@ export function scenarioFromForm(v: Violation, s: RunFormValues['scenarios'], ha
     case 'serial':
       return { violation: 'serial', ar: s.serial.ar };
     case 'carry-over':
-      return { violation: 'carry-over', fraction: R['carry-over'].fraction.default };
+      return { violation: 'carry-over', fraction: s['carry-over'].percent / 100 };
   }
+}
+
+/** The scenarios the form offers for `base`: those that apply to its data (lib/sim/analyses.ts). */
+export function offeredViolations(base: SimulationSpec): Violation[] {
+  return VIOLATIONS.filter((v) => scenarioApplies(v, base));
 }
 
 /** The specification for a run: the design's `base` with the form's scenarios, analyses, replicates and seed. */
 export function toSpec(base: SimulationSpec, v: RunFormValues): SimulationSpecInput {
   return {
     design: base.design,
-    truth: base.truth,
+    truth: base.design.target === 'treat:time' ? { ...base.truth, randomSlopeSd: v.slopeSd } : base.truth,
     alpha: base.alpha,
-    scenarios: VIOLATIONS.filter((x) => v.scenarios[x].on).map((x) => scenarioFromForm(x, v.scenarios, base.design.occasions !== undefined)),
+    scenarios: offeredViolations(base).filter((x) => v.scenarios[x].on).map((x) => scenarioFromForm(x, v.scenarios, base.design.occasions !== undefined)),
     analyses: ANALYSIS_NAMES.filter((a) => v.analyses.includes(a)),
     replicates: v.replicates,
     seed: v.seed,

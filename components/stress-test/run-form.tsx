@@ -6,8 +6,8 @@ import type { AnalysisName } from '@/lib/models/types';
 import { formatBound, SCENARIO_RANGES, type SimulationSpec, type SimulationSpecInput, type Violation } from '@/lib/sim/spec';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
-import { formDefaults, MAX_TAB_REPLICATES, MIN_REPLICATES, runFormSchema, scenarioFromForm, toSpec, type RunFormValues } from './run-form-schema';
-import { ANALYSIS_TITLES, describeScenario, formatRate, rateMcse, VIOLATION_TITLES, VIOLATIONS } from './words';
+import { formDefaults, MAX_TAB_REPLICATES, MIN_REPLICATES, offeredViolations, runFormSchema, scenarioFromForm, toSpec, type RunFormValues } from './run-form-schema';
+import { ANALYSIS_TITLES, describeScenario, formatRate, rateMcse, VIOLATION_TITLES } from './words';
 
 export interface RunFormProps {
   /** The specification from the design (lib/sim/from-design.ts), with defaults applied. */
@@ -47,7 +47,7 @@ export function RunForm({ base, analyses, pending, onRun }: RunFormProps) {
 
       <fieldset className="space-y-3" aria-describedby={scenarioError ? 'scenario-error' : undefined}>
         <legend className="text-sm font-bold">Scenarios: which assumption the simulated data break</legend>
-        {VIOLATIONS.filter((v) => v !== 'serial' || hasOccasions).map((v) => (
+        {offeredViolations(base).map((v) => (
           <div key={v} className="rounded-md border border-line/70 p-3">
             <label className="flex items-start gap-2 text-sm">
               <input type="checkbox" className="mt-1" {...register(`scenarios.${v}.on`)} />
@@ -89,6 +89,16 @@ export function RunForm({ base, analyses, pending, onRun }: RunFormProps) {
                 {v === 'serial' && (
                   <TextField label="AR(1) correlation of neighbouring occasions (ρ)" type="number" step="0.1" error={errors.scenarios?.serial?.ar?.message} {...register('scenarios.serial.ar', numberField)} />
                 )}
+                {v === 'carry-over' && (
+                  <TextField
+                    label="Share of the effect carried into the next period (%)"
+                    type="number"
+                    step="10"
+                    help="After a period of the second arm, this share of its effect is still present in the next period; the analyses adjust for period but not for carry-over."
+                    error={errors.scenarios?.['carry-over']?.percent?.message}
+                    {...register('scenarios.carry-over.percent', numberField)}
+                  />
+                )}
               </div>
             )}
           </div>
@@ -114,6 +124,18 @@ export function RunForm({ base, analyses, pending, onRun }: RunFormProps) {
           </p>
         )}
       </fieldset>
+
+      {base.design.target === 'treat:time' && (
+        <TextField
+          label="SD of the units' slopes over time"
+          type="number"
+          min={0}
+          step="any"
+          help="How much each unit's own trend differs from its arm's, in outcome units per time unit. The design does not give it; 0 (the Plan's assumption) means parallel trends within an arm."
+          error={errors.slopeSd?.message}
+          {...register('slopeSd', numberField)}
+        />
+      )}
 
       <div className="grid gap-4 sm:grid-cols-2">
         <TextField

@@ -6,7 +6,7 @@
 import type { AnalysisName } from '@/lib/models/types';
 import type { Scenario, Violation } from '@/lib/sim/spec';
 
-export const VIOLATIONS = ['none', 'skewed', 'heavy-tailed', 'outliers', 'unequal-variance', 'nonlinear', 'serial'] as const satisfies readonly Violation[];
+export const VIOLATIONS = ['none', 'skewed', 'heavy-tailed', 'outliers', 'unequal-variance', 'nonlinear', 'serial', 'carry-over'] as const satisfies readonly Violation[];
 
 export const VIOLATION_TITLES: Record<Violation, string> = {
   none: 'Assumptions hold',
@@ -27,7 +27,7 @@ function num(x: number): string {
 export function describeScenario(s: Scenario): string {
   switch (s.violation) {
     case 'none':
-      return 'Assumptions hold (normal errors, constant variance)';
+      return 'Assumptions hold (data as the design describes them)';
     case 'skewed':
       return `Right-skewed errors (log-normal with σ of the log ${num(s.sigmaLog)}, same SD)`;
     case 'heavy-tailed':

@@ -5,140 +5,19 @@
  * consumers read the design only through the facts. Then the facts themselves for a few shapes.
  */
 import { describe, expect, it } from 'vitest';
-import { CLASSROOM_DESIGN, FALLS_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
+import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/designs';
+import { DEMO_STUDIES } from '@/db/demo/studies';
 import { planFromDesign } from '@/lib/plan/from-design';
 import { runChecks } from '@/lib/rules/registry';
 import { specFromDesign } from '@/lib/sim/from-design';
 import { designFacts, smallestArm, unitsByArm, unitsPerArm, type DesignFacts } from './facts';
 import { iccLevels } from './progress';
 import { designSchema, type Design, type DesignInput } from './schema';
+import { shape, SHAPES, SRC as src } from './test-shapes';
 
 const parse = (d: DesignInput): Design => designSchema.parse(d);
 
-type LevelInput = NonNullable<NonNullable<DesignInput['structure']>['levels']>[number];
-
-const arms2 = [
-  { name: 'Intervention', allocation: 1 },
-  { name: 'Control', allocation: 1 },
-];
-const src = { kind: 'expert', certainty: 'low' } as const;
-
-/** A design with the given levels, assignment and assumptions; continuous outcome unless given. */
-function shape(levels: LevelInput[], assignedTo: string, extra: Partial<DesignInput> = {}): DesignInput {
-  return {
-    outcome: { name: 'Score', type: 'continuous', shape: 'symmetric' },
-    structure: { levels },
-    assignment: { kind: 'randomised', levelId: assignedTo, arms: arms2 },
-    assumptions: { outcomeSd: { value: 10, source: src }, effect: { value: 4, source: src }, iccs: [] },
-    ...extra,
-  };
-}
-
-const SHAPES: Record<string, DesignInput> = {
-  'two-level cluster trial': shape(
-    [
-      { id: 'practice', name: 'Practice', kind: 'grouping', count: 16, countCv: 0.3 },
-      { id: 'patient', name: 'Patient', kind: 'independent', count: 30, countCv: 0.4 },
-    ],
-    'practice',
-    { assumptions: { outcomeSd: { value: 8, source: src }, effect: { value: 2, source: src }, iccs: [{ levelId: 'practice', value: 0.05, source: src }] } },
-  ),
-  'three levels, treatment at the top': shape(
-    [
-      { id: 'school', name: 'School', kind: 'grouping', count: 12 },
-      { id: 'classroom', name: 'Classroom', kind: 'grouping', count: 3, countCv: 0.2 },
-      { id: 'pupil', name: 'Pupil', kind: 'independent', count: 20, countCv: 0.25 },
-    ],
-    'school',
-    {
-      assumptions: {
-        outcomeSd: { value: 10, source: src },
-        effect: { value: 3, source: src },
-        iccs: [
-          { levelId: 'school', value: 0.05, source: src },
-          { levelId: 'classroom', value: 0.1, source: src },
-        ],
-      },
-    },
-  ),
-  'three levels, treatment at the middle': shape(
-    [
-      { id: 'school', name: 'School', kind: 'grouping', count: 6 },
-      { id: 'classroom', name: 'Classroom', kind: 'grouping', count: 4 },
-      { id: 'pupil', name: 'Pupil', kind: 'independent', count: 25 },
-    ],
-    'classroom',
-    {
-      assignment: { kind: 'randomised', levelId: 'classroom', arms: arms2, blocking: { kind: 'stratified', factor: 'School', inAnalysis: true } },
-      assumptions: {
-        outcomeSd: { value: 10, source: src },
-        effect: { value: 3, source: src },
-        iccs: [
-          { levelId: 'school', value: 0.05, source: src },
-          { levelId: 'classroom', value: 0.12, source: src },
-        ],
-      },
-    },
-  ),
-  'AB/BA cross-over': shape(
-    [
-      { id: 'patient', name: 'Patient', kind: 'independent', count: 30 },
-      { id: 'period', name: 'Period', kind: 'repeated', count: 2 },
-    ],
-    'period',
-    {
-      assignment: { kind: 'randomised', levelId: 'period', arms: arms2, crossover: { enabled: true, periods: 2, carryoverPossible: false } },
-      occasions: { list: [{ label: 'Period 1', time: 1 }, { label: 'Period 2', time: 2 }] },
-      assumptions: { outcomeSd: { value: 12, source: src }, effect: { value: 5, source: src }, iccs: [{ levelId: 'patient', value: 0.6, source: src }] },
-    },
-  ),
-  'within-subject comparison over 8 occasions': shape(
-    [
-      { id: 'volunteer', name: 'Volunteer', kind: 'independent', count: 20 },
-      { id: 'session', name: 'Session', kind: 'repeated', count: 8 },
-    ],
-    'session',
-    {
-      occasions: { list: [1, 2, 3, 4, 5, 6, 7, 8].map((t) => ({ label: `Session ${t}`, time: t })) },
-      assumptions: { outcomeSd: { value: 30, source: src }, effect: { value: 10, source: src }, iccs: [{ levelId: 'volunteer', value: 0.5, source: src }] },
-    },
-  ),
-  'individually randomised, baseline and follow-up': shape([{ id: 'patient', name: 'Patient', kind: 'independent', count: 120 }], 'patient', {
-    occasions: { list: [{ label: 'Baseline', time: 0, baseline: true }, { label: 'Week 12', time: 12, attrition: 0.1 }] },
-    assumptions: { outcomeSd: { value: 10, source: src }, effect: { value: 3, source: src }, occasionCorrelation: { value: 0.6, source: src }, iccs: [] },
-    analysis: { method: 'ancova', unitOfAnalysisLevelId: 'patient', adjustsForBaseline: true },
-  }),
-  'count outcome, clustered': shape(
-    [
-      { id: 'village', name: 'Village', kind: 'grouping', count: 24 },
-      { id: 'household', name: 'Household', kind: 'independent', count: 15, countCv: 0.3 },
-    ],
-    'village',
-    {
-      outcome: { name: 'Malaria episodes', type: 'count', shape: 'right-skewed' },
-      assumptions: { outcomeSd: { value: 1.5, source: src }, effect: { value: 0.5, source: src }, iccs: [{ levelId: 'village', value: 0.04, source: src }] },
-    },
-  ),
-  'binary outcome, clustered': shape(
-    [
-      { id: 'clinic', name: 'Clinic', kind: 'grouping', count: 20 },
-      { id: 'patient', name: 'Patient', kind: 'independent', count: 40 },
-    ],
-    'clinic',
-    {
-      outcome: { name: 'Smoking cessation', type: 'binary' },
-      assumptions: { effect: { value: 0.1, source: src }, iccs: [{ levelId: 'clinic', value: 0.02, source: src }] },
-    },
-  ),
-};
-
-const DESIGNS: [string, DesignInput][] = [
-  ['classroom demo', CLASSROOM_DESIGN],
-  ['greenhouse demo', GREENHOUSE_DESIGN],
-  ['sleep-timing demo', SLEEP_DESIGN],
-  ['falls-prevention demo', FALLS_DESIGN],
-  ...Object.entries(SHAPES),
-];
+const DESIGNS: [string, DesignInput][] = [...DEMO_STUDIES.map((s): [string, DesignInput] => [`demo: ${s.title}`, s.design]), ...Object.entries(SHAPES)];
 
 /**
  * The same design with the counts in `which` given as study totals: every level, or only the
@@ -242,7 +121,7 @@ describe('a total that does not split evenly between the parents', () => {
 });
 
 describe('the facts of each shape', () => {
-  const facts = (name: string) => designFacts(parse(SHAPES[name] ?? (name === 'greenhouse' ? GREENHOUSE_DESIGN : name === 'sleep' ? SLEEP_DESIGN : CLASSROOM_DESIGN)));
+  const facts = (name: string) => designFacts(parse((SHAPES as Record<string, DesignInput>)[name] ?? (name === 'greenhouse' ? GREENHOUSE_DESIGN : name === 'sleep' ? SLEEP_DESIGN : CLASSROOM_DESIGN)));
 
   it.each([
     ['classroom', 'classroom', 'classroom', false, undefined, ['classroom']],
@@ -272,8 +151,16 @@ describe('the facts of each shape', () => {
   });
 
   it('reads the outcome family and its parameters', () => {
-    expect(facts('count outcome, clustered').outcome).toMatchObject({ type: 'count', family: 'count', sd: { value: 1.5 }, effect: { value: 0.5 } });
-    expect(facts('binary outcome, clustered').outcome).toMatchObject({ type: 'binary', family: 'binary', effect: { value: 0.1 } });
+    expect(facts('count outcome, clustered').outcome).toMatchObject({
+      type: 'count',
+      family: 'count',
+      baselineRate: { value: 0.5 },
+      rateRatio: { value: 0.75 },
+      followUpTime: { value: 2 },
+      dispersion: { value: 0.5 },
+      betweenClusterCv: { value: 0.3 },
+    });
+    expect(facts('binary outcome, clustered').outcome).toMatchObject({ type: 'binary', family: 'binary', controlProportion: { value: 0.3 }, proportionEffect: { measure: 'difference', value: -0.1 } });
     expect(designFacts(parse({})).outcome).toEqual({ family: 'continuous' });
   });
 

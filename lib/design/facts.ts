@@ -20,12 +20,16 @@
  *   treatment varies within it (cross-over, or occasions of one unit assigned to arms);
  * - the observational unit (the bottom level) and the subject of repeated measures;
  * - occasions: baselines and follow-ups in time order, their times, the largest attrition;
- * - the outcome: its family (the type, continuous when none is given) and its parameters (SD,
- *   effect, each with its source);
+ * - the outcome: its family (the type, continuous when none is given) and its parameters, each
+ *   with its source: SD and effect (continuous); control proportion and effect as stated
+ *   (binary); baseline rate, rate ratio, follow-up time, overdispersion and between-cluster CV
+ *   (counts) — the Plan and the stress test both read these;
+ * - whether whole clusters are randomised (`clusterRandomised`), which decides the count and
+ *   binary calculations, the simulation's clusters and the numbers the Assumptions step asks for;
  * - ICCs per level (shares of the total variance) and which levels need one;
  * - whether the planned analysis accounts for the dependence a level creates.
  */
-import type { Analysis, Design, Level, Outcome, Source } from './schema';
+import type { Analysis, Assumptions, Design, Level, Outcome, Source } from './schema';
 
 /** An assumed number with where it came from. */
 export interface Sourced {
@@ -66,6 +70,20 @@ export interface OutcomeFacts {
   sd?: Sourced;
   /** The smallest difference worth detecting, in the outcome's units. */
   effect?: Sourced;
+  /** Binary: the proportion expected without the intervention. */
+  controlProportion?: Sourced;
+  /** Binary: the effect as the Assumptions step states it (second proportion, difference, risk ratio or odds ratio). */
+  proportionEffect?: NonNullable<Assumptions['proportionEffect']>;
+  /** Counts: events per unit of follow-up time without the intervention. */
+  baselineRate?: Sourced;
+  /** Counts: the rate ratio worth detecting. */
+  rateRatio?: Sourced;
+  /** Counts: follow-up time of each unit, in the time unit of the rate. */
+  followUpTime?: Sourced;
+  /** Counts: negative-binomial dispersion between units (variance = mean + dispersion × mean²); 0 for Poisson counts. */
+  dispersion?: Sourced;
+  /** Counts: coefficient of variation of the true rates between clusters. */
+  betweenClusterCv?: Sourced;
 }
 
 export interface CrossoverFacts {
@@ -185,13 +203,21 @@ function computeFacts(design: Design): DesignFacts {
   })();
 
   const o = design.outcome;
+  const as = design.assumptions;
   const outcome: OutcomeFacts = {
     ...(o.type ? { type: o.type } : {}),
     family: o.type ?? 'continuous',
     ...(o.shape ? { shape: o.shape } : {}),
     ...(o.positiveOnly !== undefined ? { positiveOnly: o.positiveOnly } : {}),
-    ...(design.assumptions.outcomeSd ? { sd: sourced(design.assumptions.outcomeSd) } : {}),
-    ...(design.assumptions.effect ? { effect: sourced(design.assumptions.effect) } : {}),
+    ...(as.outcomeSd ? { sd: sourced(as.outcomeSd) } : {}),
+    ...(as.effect ? { effect: sourced(as.effect) } : {}),
+    ...(as.controlProportion ? { controlProportion: sourced(as.controlProportion) } : {}),
+    ...(as.proportionEffect ? { proportionEffect: { measure: as.proportionEffect.measure, value: as.proportionEffect.value, source: as.proportionEffect.source } } : {}),
+    ...(as.baselineRate ? { baselineRate: sourced(as.baselineRate) } : {}),
+    ...(as.rateRatio ? { rateRatio: sourced(as.rateRatio) } : {}),
+    ...(as.followUpTime ? { followUpTime: sourced(as.followUpTime) } : {}),
+    ...(as.dispersion ? { dispersion: sourced(as.dispersion) } : {}),
+    ...(as.betweenClusterCv ? { betweenClusterCv: sourced(as.betweenClusterCv) } : {}),
   };
 
   const a = design.analysis;
@@ -257,6 +283,20 @@ export function unitsByArm(f: DesignFacts, L: LevelInfo): number[] {
     left--;
   }
   return out;
+}
+
+/**
+ * Whole clusters are randomised: the experimental unit holds several observations of members
+ * below it that are not repeated measurements over time (pupils of a classroom, plants of a
+ * tray), and the treatment does not vary within it. Decides the Plan's count and binary
+ * calculations, the stress test's clusters and whether the Assumptions step asks for the
+ * variation of rates between clusters.
+ */
+export function clusterRandomised(f: DesignFacts): boolean {
+  const E = f.eu;
+  if (!E || f.withinUnit) return false;
+  const below = f.levels[E.index + 1];
+  return below !== undefined && E.groupsObservations && below.level.kind !== 'repeated';
 }
 
 /** Units of level L in the smallest arm; undefined with fewer than two arms. */

@@ -2,7 +2,7 @@
  * Which wizard steps are complete: enough of each part for the checks and the calculations to
  * use it. "started" means something is filled in but not enough yet.
  */
-import { designFacts } from './facts';
+import { clusterRandomised as wholeClustersRandomised, designFacts } from './facts';
 import type { Assumptions, Design, DesignPart, Level } from './schema';
 
 export type StepState = 'complete' | 'started' | 'empty';
@@ -42,9 +42,7 @@ export function outcomeAssumptions(d: Design): (keyof Assumptions)[] {
   return ['outcomeSd', 'effect'];
 }
 
-/** Whether the level of assignment holds members below it that are not repeated measurements (whole clusters randomised). */
+/** Whether whole clusters are randomised (lib/design/facts.ts `clusterRandomised`, the reading the Plan uses). */
 export function clusterRandomised(d: Design): boolean {
-  const f = designFacts(d);
-  const below = f.assignment ? f.levels[f.assignment.index + 1] : undefined;
-  return below !== undefined && below.level.kind !== 'repeated';
+  return wholeClustersRandomised(designFacts(d));
 }

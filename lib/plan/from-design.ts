@@ -50,7 +50,7 @@
 import { COHEN_1988, DIGGLE_2002, DONNER_KLAR_2000, FLEISS_2003, FRISON_POCOCK_1992, HAYES_BENNETT_1999, narrative, SENN_2002, VICKERS_ALTMAN_2001, ZHU_LAKKIS_2014 } from '@/lib/citations';
 import type { Assumptions, Design, Level, Source } from '@/lib/design/schema';
 import { DESIGN_STEPS } from '@/lib/design/schema';
-import { designFacts, iccOf, sizeCv, smallestArm, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
+import { clusterRandomised as wholeClustersRandomised, designFacts, iccOf, sizeCv, smallestArm, type DesignFacts, type LevelInfo, type OutcomeFacts } from '@/lib/design/facts';
 import { cap, dec, noun, num } from '@/lib/rules/text';
 import { outcomeName } from '@/lib/rules/phrases';
 import type { Recommendation } from '@/lib/rules/types';
@@ -318,7 +318,7 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
   armsNotes(b, f, false);
   const planned = smallestArm(f, E);
 
-  if (binary) return planForBinaryOutcome(b, d.assumptions, { clustered: true, planned });
+  if (binary) return planForBinaryOutcome(b, f.outcome, { clustered: true, planned });
 
   const hasEffect = effect(b, f, 'delta', 'Smallest difference worth detecting');
   const solveFor = chooseUnknown(b, hasEffect, 'clustersPerArm', 'delta', planned, 2);
@@ -428,7 +428,7 @@ function independent(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary
     b.set('ratio', tidy(shares[1]! / shares[0]!), `Allocation ratio (${d.assignment.arms[1]!.name} : ${d.assignment.arms[0]!.name})`, design('Assignment step'));
     b.labels.size = `${noun(E.level, true)} in ${d.assignment.arms[0]!.name}`;
   }
-  if (binary) return planForBinaryOutcome(b, d.assumptions, { clustered: false, planned });
+  if (binary) return planForBinaryOutcome(b, f.outcome, { clustered: false, planned });
   b.rationale.push(`${cap(noun(E.level, true))} are assigned to the arms and measured once each, independently: the calculation is the two-sample t test (${COHEN_1988.short}).`);
   const above = f.levels.slice(0, E.index).filter((l) => l.groupsObservations);
   if (above.length > 0) {
@@ -489,7 +489,7 @@ const EFFECT_NAMES: Record<NonNullable<Assumptions['proportionEffect']>['measure
  * proportions (the ICC, cluster size and its CV already set by the caller), with the control
  * proportion and the effect in the form the Assumptions step gives it.
  */
-function planForBinaryOutcome(b: Builder, a: Assumptions, read: OutcomeSizing) {
+function planForBinaryOutcome(b: Builder, a: OutcomeFacts, read: OutcomeSizing) {
   const kind = read.clustered ? ('cluster-proportions' as const) : ('two-proportions' as const);
   const sizeInput = read.clustered ? 'clustersPerArm' : 'nPerGroup';
   b.rationale.push(
@@ -515,7 +515,7 @@ function planForBinaryOutcome(b: Builder, a: Assumptions, read: OutcomeSizing) {
  * the baseline rate, rate ratio, follow-up time, overdispersion and — for clusters — the
  * variation of rates between clusters that the Assumptions step gives.
  */
-function planForCountOutcome(b: Builder, a: Assumptions, read: OutcomeSizing) {
+function planForCountOutcome(b: Builder, a: OutcomeFacts, read: OutcomeSizing) {
   const kind = read.clustered ? ('cluster-rates' as const) : ('two-rates' as const);
   const sizeInput = read.clustered ? 'clustersPerArm' : 'nPerGroup';
   b.rationale.push(
@@ -523,7 +523,7 @@ function planForCountOutcome(b: Builder, a: Assumptions, read: OutcomeSizing) {
       ? `The outcome is a count of events and whole clusters are randomised: clusters per arm by ${narrative(HAYES_BENNETT_1999)}, from the variation of the rates between clusters and the person-time followed in each.`
       : `The outcome is a count of events over each unit’s follow-up: the Wald test on the log rate ratio, for Poisson or negative binomial counts (${ZHU_LAKKIS_2014.short}).`,
   );
-  const sourced = (input: string, value: Assumptions['baselineRate'], name: string, missing: string) => {
+  const sourced = (input: string, value: OutcomeFacts['baselineRate'], name: string, missing: string) => {
     if (value) b.set(input, value.value, name, fromSource(value.source));
     else b.need(input, `${missing} (Assumptions step).`, 'assumptions');
   };
@@ -645,10 +645,10 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
 
   const below = f.levels[E.index + 1];
   const measuredOverTime = below?.level.kind === 'repeated' || (!below && f.followUps.length + f.baselines.length >= 2);
-  const clusterRandomised = below !== undefined && E.groupsObservations && below.level.kind !== 'repeated';
+  const clusterRandomised = wholeClustersRandomised(f);
   if (count) {
     if (measuredOverTime) b.notes.push('The counts of all occasions are taken together: one rate per unit over its whole follow-up time.');
-    const r = planForCountOutcome(b, d.assumptions, countSizing(b, d, f, E, clusterRandomised));
+    const r = planForCountOutcome(b, f.outcome, countSizing(b, d, f, E, clusterRandomised));
     return done(r.kind, r.solveFor);
   }
   if (clusterRandomised) {

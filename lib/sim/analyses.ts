@@ -22,7 +22,7 @@
  * produced, lib/sim/from-design.ts), so the Stress test tab and the API agree.
  */
 import { ANALYSIS_NAMES, type AnalysisName } from '@/lib/models/types';
-import type { SimulationSpecInput } from './spec';
+import type { SimulationSpecInput, Violation } from './spec';
 
 type Family = NonNullable<SimulationSpecInput['truth']['family']>;
 
@@ -64,4 +64,20 @@ export function analysisApplies(analysis: AnalysisName, spec: SimulationSpecInpu
 /** The analyses that apply to `spec`'s data, in the engine's order. */
 export function offeredAnalyses(spec: SimulationSpecInput): AnalysisName[] {
   return ANALYSIS_NAMES.filter((a) => analysisApplies(a, spec));
+}
+
+/**
+ * Does the scenario `violation` apply to the data `spec` simulates (the engine's rules,
+ * lib/sim/spec.ts)? Binary and count outcomes take only `none` and, in a cross-over,
+ * `carry-over` (the other scenarios change normal errors); `carry-over` needs a cross-over;
+ * `serial` needs occasions outside a cross-over.
+ */
+export function scenarioApplies(violation: Violation, spec: SimulationSpecInput): boolean {
+  const gaussian = (spec.truth.family ?? 'gaussian') === 'gaussian';
+  const crossover = spec.design.crossover !== undefined;
+  if (violation === 'none') return true;
+  if (violation === 'carry-over') return crossover;
+  if (!gaussian) return false;
+  if (violation === 'serial') return spec.design.occasions !== undefined && !crossover;
+  return true;
 }

@@ -28,6 +28,9 @@ import { rawText } from '@/lib/text-schema';
 export const MAX_REPLICATES = 100_000;
 export const MAX_ROWS = 50_000;
 export const MAX_SCENARIOS = 20;
+/** The most periods of a cross-over and occasions of a unit that are simulated. */
+export const MAX_PERIODS = 20;
+export const MAX_OCCASIONS = 100;
 export const MAX_GENERATED_OBSERVATIONS = 500_000_000;
 
 /**
@@ -46,6 +49,8 @@ export interface Range {
 export const REPLICATES = { min: 10, max: MAX_REPLICATES, default: 1000 } as const satisfies Range;
 export const SEED = { min: 0, max: Number.MAX_SAFE_INTEGER, default: 1 } as const satisfies Range;
 export const ALPHA = { min: 0, minOpen: true, max: 0.5, default: 0.05 } as const satisfies Range;
+/** SD of the units' random slopes over time. */
+export const SLOPE_SD = { min: 0, max: 1e6, default: 0 } as const satisfies Range;
 
 /** The number parameters of each scenario; `why` completes the message for a value at or below an open `min`. */
 export const SCENARIO_RANGES = {
@@ -98,7 +103,7 @@ export const simulationDesignSchema = z
     /** Independent units per arm when there are no clusters: one number, or [arm 1, arm 2]. */
     unitsPerArm: unitsPerArm.optional(),
     /** Occasions at which each unit is measured (repeated measures). */
-    occasions: whole('occasions', 2, 100).optional(),
+    occasions: whole('occasions', 2, MAX_OCCASIONS).optional(),
     /** Times of the occasions, increasing; 0, 1, 2, … by default. */
     times: z.array(num('times[]'), { error: 'times is a list of numbers.' }).optional(),
     /** The effect of interest: the difference between arms, or (with occasions) the difference in slopes over time. */
@@ -116,7 +121,7 @@ export const simulationDesignSchema = z
      */
     crossover: z
       .object({
-        periods: whole('crossover.periods', 2, 20),
+        periods: whole('crossover.periods', 2, MAX_PERIODS),
         /**
          * The two sequences, as letters A (arm 1) and B (arm 2), one per period, e.g.
          * ["AB", "BA"] or ["ABBA", "BAAB"]. Default: ABBA… repeated to the number of periods and
@@ -201,7 +206,7 @@ export const simulationTruthSchema = z.object({
   /** Correlation of two occasions of one unit beyond its cluster (the unit's share of the remaining variance). */
   occasionCorrelation: num('occasionCorrelation').min(0, 'occasionCorrelation is at least 0.').lt(1, 'occasionCorrelation must be below 1.').default(0),
   /** SD of the units' random slopes over time. */
-  randomSlopeSd: between('randomSlopeSd', 0, 1e6).default(0),
+  randomSlopeSd: between('randomSlopeSd', SLOPE_SD.min, SLOPE_SD.max).default(SLOPE_SD.default),
   /**
    * SD of the clusters' random slopes over time (clusters with occasions): each cluster's units
    * share a trend beyond their own, so a difference in slopes between arms of clusters is judged

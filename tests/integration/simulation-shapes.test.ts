@@ -6,40 +6,14 @@
  * within-subject design of 8 occasions, and two levels of clustering with the treatment at the
  * lower one — 200 replicates each (100 per scenario where there are two).
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { getBoss, stopBoss } from '@/lib/jobs/boss';
-import { inlineEngine } from '@/lib/jobs/engine';
-import { startWorker, type RunningWorker } from '@/lib/jobs/worker';
-import { db } from '@/lib/db';
+import { describe, expect, it } from 'vitest';
 import { METRIC_NAMES } from '@/lib/sim/metrics';
 import type { SimulationSpecInput } from '@/lib/sim/spec';
 import * as runs from '@/app/api/v1/simulations/route';
-import * as run from '@/app/api/v1/simulations/[simulationId]/route';
-import { ctx, makeUser, request, type TestUser } from '../support/fixtures';
+import { ctx, makeUser, request } from '../support/fixtures';
+import { useInlineWorker, waitUntilEnded } from '../support/sim-worker';
 
-let worker: RunningWorker | undefined;
-
-beforeAll(async () => {
-  await getBoss();
-  worker = await startWorker({ db: db(), engine: inlineEngine, concurrency: 1, log: () => {} });
-});
-
-afterAll(async () => {
-  await worker?.pause();
-  await stopBoss({ timeout: 5_000 });
-});
-
-async function waitUntilEnded(user: TestUser, id: string, timeoutMs = 60_000) {
-  const deadline = Date.now() + timeoutMs;
-  for (;;) {
-    const res = await run.GET(request('GET', `/api/v1/simulations/${id}`, { user }), ctx({ simulationId: id }));
-    const body = await res.json();
-    expect(res.status).toBe(200);
-    if (!['queued', 'running'].includes(body.status)) return body;
-    if (Date.now() > deadline) throw new Error(`run ${id} still ${body.status} after ${timeoutMs} ms`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
-}
+useInlineWorker();
 
 const SHAPES: [string, SimulationSpecInput][] = [
   [

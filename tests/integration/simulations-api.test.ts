@@ -351,7 +351,7 @@ describe('runs on a study', () => {
     expect(body.missing.join('; ')).toMatch(/levels of the structure/);
   });
 
-  it('derives the demo designs: a complete specification where the stress test simulates the shape, one sentence where it does not yet', async () => {
+  it('derives the demo designs: a complete specification where the stress test simulates the shape, one sentence where it does not', async () => {
     const w = await makeWorld();
     const derive = async (d: typeof CLASSROOM_DESIGN, baseRevision: number) => {
       const saved = await design.PUT(request('PUT', `/api/v1/studies/${w.studyId}/design`, { user: w.byRole.owner, body: { baseRevision, design: d } }), ctx({ studyId: w.studyId }));
@@ -366,11 +366,14 @@ describe('runs on a study', () => {
     expect(greenhouse.spec.analyses).toEqual(['ols', 'ols-hc3', 'cluster-robust', 'cluster-means', 'mixed']);
 
     const sleep = await derive(SLEEP_DESIGN, 2);
-    expect(sleep).toMatchObject({ revision: 3, spec: null, missing: [] });
-    expect(sleep.unsupported).toEqual([expect.stringMatching(/^Each volunteer receives both arms in turn \(a 2-period cross-over\): the stress test does not yet simulate/)]);
+    expect(sleep).toMatchObject({ revision: 3, missing: [], unsupported: [], spec: { design: { unitsPerArm: 12, crossover: { periods: 8, sequences: ['AAAABBBB', 'BBBBAAAA'] } } } });
+
+    const threeArms = await derive({ ...SLEEP_DESIGN, assignment: { ...SLEEP_DESIGN.assignment, arms: [...SLEEP_DESIGN.assignment!.arms!, { name: 'Free schedule', allocation: 1 }] } }, 3);
+    expect(threeArms).toMatchObject({ revision: 4, spec: null, missing: [] });
+    expect(threeArms.unsupported).toEqual([expect.stringMatching(/^The design has 3 arms: the stress test compares two/)]);
     const r = await post(w.byRole.owner, { studyId: w.studyId });
     expect(r.status).toBe(400);
-    expect(r.body.error.message).toBe(sleep.unsupported[0]);
+    expect(r.body.error.message).toBe(threeArms.unsupported[0]);
   });
 });
 

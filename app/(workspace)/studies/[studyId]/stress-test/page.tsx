@@ -9,21 +9,16 @@ import { canStudy } from '@/lib/auth/permissions';
 import { currentActor, type Actor } from '@/lib/auth/session';
 import { getDesign } from '@/lib/data/designs';
 import { MORRIS_2019 } from '@/lib/citations';
-import { designFacts } from '@/lib/design/facts';
 import { defaultSimulationSpec, getSimulation, listStudySimulations } from '@/lib/data/simulations';
 import { getStudy } from '@/lib/data/studies';
 import { AppError } from '@/lib/errors';
 import type { SimulationDto } from '@/lib/api/simulations';
 import { load } from '@/lib/page-guard';
 import { offeredAnalyses } from '@/lib/sim/analyses';
+import { describeSimulation, sizeWords } from '@/lib/sim/from-design';
 import type { SimulationSpec } from '@/lib/sim/spec';
 
 export const metadata: Metadata = { title: 'Stress test' };
-
-/** "classroom" → "classrooms"; names that already end in s stay. */
-function plural(name: string): string {
-  return name.endsWith('s') ? name : `${name}s`;
-}
 
 const notFoundAsNull = (e: unknown) => {
   if (e instanceof AppError && e.code === 'not_found') return null;
@@ -60,10 +55,7 @@ export default async function StressTestPage({ params, searchParams }: { params:
   const shown = await shownRun(actor, typeof runParam === 'string' ? runParam : undefined, runs, defaults.spec);
   const initialRun = shown && shown.studyId === studyId ? (shown as typeof shown & { spec: SimulationSpec }) : null;
   const canRun = canStudy(study.role, 'simulation.run') && study.status !== 'archived';
-  const top = designFacts(state.design).assignment;
-  const clustered = defaults.spec?.design.clustersPerArm !== undefined;
-  const clusterName = clustered && top ? plural(top.level.name.toLowerCase()) : 'clusters';
-  const sizeLabel = clustered ? `${clusterName} per arm` : 'units per arm';
+  const sizeLabel = defaults.spec ? sizeWords(state.design, defaults.spec) : 'units per arm';
 
   return (
     <div className="space-y-6">
@@ -77,6 +69,12 @@ export default async function StressTestPage({ params, searchParams }: { params:
             often each finds the planned effect (power), how often it finds an effect that is not there (false-positive rate, from a paired run at zero
             effect), and whether its 95% confidence intervals hold the true effect 95% of the time. Every figure carries its Monte Carlo SE ({MORRIS_2019.short}).
           </p>
+          {defaults.spec &&
+            describeSimulation(state.design, defaults.spec).map((s) => (
+              <p key={s} className="text-sm" data-testid="simulated-design">
+                {s}
+              </p>
+            ))}
           <p className="text-sm text-muted">
             The defaults come from the{' '}
             <Link href={`/studies/${studyId}/design`} className="text-brand underline">
