@@ -7,6 +7,7 @@
 import { expect, test } from '@playwright/test';
 import { CalculatorPage } from './pages/calculator-page';
 import { expectNoSeriousA11yViolations } from './support/axe';
+import { expectSolveForKeepsInputs } from './support/solve-for-cycle';
 import { distinctClientHeaders } from './support/test-data';
 
 test.use({ extraHTTPHeaders: distinctClientHeaders() });
@@ -48,6 +49,26 @@ test.describe('calculators, signed out', () => {
     await expect(calc.status).toContainText('Standard deviation');
     await expect(calc.field('Standard deviation')).toHaveAttribute('aria-invalid', 'true');
     await expectNoSeriousA11yViolations(page, 'Two group means calculator with an error');
+  });
+
+  test('switching what to solve for never rewrites an input (every cycle of the choice)', async ({ page }) => {
+    const calc = new CalculatorPage(page);
+    await calc.goto('two-group-means', 'Two group means');
+    await calc.solveFor('sample size');
+    await calc.set('Difference in means', '3');
+    await calc.set('Standard deviation', '10');
+    await calc.set('Power', '0.8');
+    await expect(calc.answer('Sample size per group')).toHaveText('176');
+    const seen = await expectSolveForKeepsInputs(calc.inputs);
+    expect(seen.power).toBe('0.8');
+    expect(seen.delta).toBe('3');
+    await calc.solveFor('sample size');
+    await expect(calc.field('Power')).toHaveValue('0.8');
+    await expect(calc.answer('Sample size per group')).toHaveText('176');
+
+    await calc.goto('cluster-means', 'Cluster-randomised means');
+    const cluster = await expectSolveForKeepsInputs(calc.inputs);
+    expect(cluster.power).toBe('0.8');
   });
 
   test('cluster-randomised means shows clusters per arm', async ({ page }) => {
