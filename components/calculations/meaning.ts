@@ -76,12 +76,25 @@ function sizePhrase(kind: CalculationKind, r: Record<string, ResultValue>): stri
   }
 }
 
+const MULTIPLICITY_WORDS: Record<string, string> = { bonferroni: 'Bonferroni', holm: 'the first step of Holm’s procedure' };
+
+/**
+ * The significance level the test is planned at: the adjusted one when several outcomes share
+ * alpha ("alpha 0.025, i.e. 0.05 shared by 2 outcomes by Bonferroni"), never the nominal one alone.
+ */
+export function levelPhrase(r: Record<string, ResultValue>): string {
+  const adjusted = num(r.alphaAdjusted);
+  if (adjusted === undefined || adjusted === num(r.alpha)) return `alpha ${show(r.alpha)}`;
+  const how = MULTIPLICITY_WORDS[String(r.multiplicity)] ?? String(r.multiplicity);
+  return `alpha ${show(adjusted)} for each outcome (${show(r.alpha)} shared by ${show(r.outcomes)} outcomes, ${how})`;
+}
+
 const SIZE_KEYS = new Set(['nPerGroup', 'n', 'clustersPerArm', 'clusterSize']);
 
 export function meaning(output: CalculationOutput): string {
   const r = output.result;
   const { kind, solvedFor } = output;
-  const test = `${r.sides === 1 ? 'one-sided' : 'two-sided'} test at alpha ${show(r.alpha)}`;
+  const test = `${r.sides === 1 ? 'one-sided' : 'two-sided'} test at ${levelPhrase(r)}`;
   if (kind === 'design-effect') {
     const ess = num(r.effectiveSampleSize);
     return (
@@ -93,6 +106,7 @@ export function meaning(output: CalculationOutput): string {
   if (kind === 'optimal-allocation') {
     const best = `Clusters of ${show(r.clusterSizeInteger)} units give the most information for the money (the unrounded optimum is ${show(r.clusterSize)})`;
     const powerPart = num(r.power) !== undefined ? `, with ${pct(r.power)} power to detect ${effectPhrase(kind, r)} by a ${test}` : '';
+    if (num(r.clustersPerArm) === undefined) return `${best}. Give a budget to see the clusters it pays for, or a difference, SD and target power to see the budget they need.`;
     if (solvedFor === 'budget') return `${best}; ${show(r.clustersPerArm)} clusters per arm reach the target power for a budget of ${show(r.budget)}${powerPart}.`;
     return `${best}; a budget of ${show(r.budget)} pays for ${show(r.clustersPerArm)} clusters per arm${powerPart}.`;
   }

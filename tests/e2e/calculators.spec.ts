@@ -71,6 +71,25 @@ test.describe('calculators, signed out', () => {
     expect(cluster.power).toBe('0.8');
   });
 
+  test('two proportions opens with independent units; the best cluster size needs only the ICC and the costs', async ({ page }) => {
+    const calc = new CalculatorPage(page);
+    await calc.goto('two-proportions', 'Two proportions');
+    await expect(calc.field('Intracluster correlation (ICC)')).toHaveValue('');
+    await expect(calc.field('Units per cluster')).toHaveValue('');
+    // R 4.2.2: ceiling(power.prop.test(p1 = 0.55, p2 = 0.7, power = 0.8)$n) = 163.
+    await expect(calc.answer('Sample size per group')).toHaveText('163');
+
+    await calc.goto('optimal-allocation', 'Cluster size under a budget');
+    await calc.set('Intracluster correlation (ICC)', '0.15');
+    await calc.set('Cost per cluster', '1200');
+    await calc.set('Cost per unit', '40');
+    await calc.set('Budget', '');
+    // Raudenbush 1997: √(1200/40 × 0.85/0.15) = 13.04 → 13 (R 4.2.2, fixtures/generate_one_answer.R).
+    await expect(calc.answer('Best whole cluster size')).toHaveText('13');
+    await expect(calc.status).toHaveCount(0);
+    await expectNoSeriousA11yViolations(page, 'Cluster size under a budget, costs only');
+  });
+
   test('cluster-randomised means shows clusters per arm', async ({ page }) => {
     const calc = new CalculatorPage(page);
     await calc.goto('cluster-means', 'Cluster-randomised means');
