@@ -111,10 +111,16 @@ export function meaning(output: CalculationOutput): string {
     return `${best}; a budget of ${show(r.budget)} pays for ${show(r.clustersPerArm)} clusters per arm${powerPart}.`;
   }
   if (!solvedFor) return '';
-  if (output.feasibility === 'unreachable') return 'The target cannot be reached within the allowed range; the nearest achievable value is shown, and the warning below says what would help.';
-  if (output.feasibility === 'already-met') return 'The target power is already reached at the smallest allowed size; the warning below gives the power there.';
   const effect = effectPhrase(kind, r);
   const size = sizePhrase(kind, r);
+  if (output.feasibility === 'already-met') {
+    return `The target power of ${pct(r.targetPower)} is already met with ${size}, the smallest allowed: a ${test} has ${pct(r.power)} power to detect ${effect}.`;
+  }
+  if (output.feasibility === 'unreachable') {
+    return SIZE_KEYS.has(solvedFor)
+      ? `The target power of ${pct(r.targetPower)} is not reached even with ${size}, the largest allowed (power ${pct(r.power)}); the warning below says what would help.`
+      : `No effect in the allowed range reaches the target power of ${pct(r.targetPower)} with ${size}; the nearest gives ${pct(r.power)}. The warning below says what would help.`;
+  }
   if (solvedFor === 'power') return `With ${size}, a ${test} has ${pct(r.power)} power to detect ${effect}.`;
   if (SIZE_KEYS.has(solvedFor)) {
     return `With ${size}, a ${test} has ${pct(r.power)} power to detect ${effect}; the target was ${pct(r.targetPower)}.`;

@@ -42,3 +42,14 @@ describe('the budget card names one optimum', () => {
     expect(sentence).not.toMatch(/about \d+/);
   });
 });
+
+describe('a clear answer at the limits', () => {
+  it('a difference of 1e9 with SD 1: "already met with 2 per group"', () => {
+    const sentence = meaning(run({ kind: 'two-group-means', delta: 1e9, sd: 1, power: 0.8 }));
+    expect(sentence).toMatch(/^The target power of 80.0% is already met with 2 per group, the smallest allowed/);
+  });
+
+  it('a difference of 1e-9: not reached even with the largest size allowed', () => {
+    expect(meaning(run({ kind: 'two-group-means', delta: 1e-9, sd: 1, power: 0.8 }))).toMatch(/not reached even with 10,000,000 per group, the largest allowed/);
+  });
+});
