@@ -55,9 +55,7 @@ test.describe('calculators, signed out', () => {
     const calc = new CalculatorPage(page);
     await calc.goto('two-group-means', 'Two group means');
     await calc.solveFor('sample size');
-    await calc.set('Difference in means', '3');
-    await calc.set('Standard deviation', '10');
-    await calc.set('Power', '0.8');
+    await calc.setAll({ 'Difference in means': '3', 'Standard deviation': '10', Power: '0.8' });
     await expect(calc.answer('Sample size per group')).toHaveText('176');
     const seen = await expectSolveForKeepsInputs(calc.inputs);
     expect(seen.power).toBe('0.8');
@@ -80,10 +78,7 @@ test.describe('calculators, signed out', () => {
     await expect(calc.answer('Sample size per group')).toHaveText('163');
 
     await calc.goto('optimal-allocation', 'Cluster size under a budget');
-    await calc.set('Intracluster correlation (ICC)', '0.15');
-    await calc.set('Cost per cluster', '1200');
-    await calc.set('Cost per unit', '40');
-    await calc.set('Budget', '');
+    await calc.setAll({ 'Intracluster correlation (ICC)': '0.15', 'Cost per cluster': '1200', 'Cost per unit': '40', Budget: '' });
     // Raudenbush 1997: √(1200/40 × 0.85/0.15) = 13.04 → 13 (R 4.2.2, fixtures/generate_one_answer.R).
     await expect(calc.answer('Best whole cluster size')).toHaveText('13');
     await expect(calc.status).toHaveCount(0);
