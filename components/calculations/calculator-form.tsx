@@ -59,6 +59,8 @@ function asInput(field: FieldSpec | undefined, value: unknown): unknown {
   return Number(value.toPrecision(4));
 }
 
+const isEmpty = (v: unknown) => v === undefined || v === null || v === '' || (typeof v === 'number' && Number.isNaN(v));
+
 const parseTimes = (v: unknown) => {
   if (Array.isArray(v)) return v;
   const text = String(v ?? '').trim();
@@ -132,8 +134,9 @@ export function CalculatorForm({ kind }: { kind: CalculationKind }) {
 
   function chooseUnknown(next: string) {
     if (next === solveFor) return;
-    // The value just solved for becomes an input: start it from the answer.
-    if (solveFor && output) {
+    // The value just solved for becomes an input. It keeps what the user typed there before;
+    // only a field that was never filled starts from the answer (never overwrite an input).
+    if (solveFor && output && isEmpty(form.getValues(solveFor))) {
       const value = asInput(info.fields.find((f) => f.name === solveFor), output.result[solveFor]);
       if (value !== undefined) form.setValue(solveFor, value);
     }

@@ -359,7 +359,7 @@ export const KINDS: readonly KindInfo[] = [
       f.icc('Intracluster correlation, above 0 and below 1.'),
       { name: 'costPerCluster', label: 'Cost per cluster', help: 'Cost of recruiting one more cluster, in any currency.', input: 'number' },
       { name: 'costPerUnit', label: 'Cost per unit', help: 'Cost of measuring one more unit in a cluster, in the same currency.', input: 'number' },
-      { name: 'budget', label: 'Budget', help: 'Money available for both arms.', input: 'number', modes: ['budget'] },
+      { name: 'budget', label: 'Budget', help: 'Money available for both arms. Optional: the ICC and the two costs alone give the best cluster size.', input: 'number', modes: ['budget'] },
       f.delta('The smallest difference in means worth detecting. Optional with a budget: it gives the power the budget buys.'),
       f.sd('Total standard deviation of the outcome among units. Optional with a budget.'),
       { name: 'alpha', label: 'Significance level (alpha)', help: 'The false-positive rate of the test, e.g. 0.05.', input: 'number' },

@@ -76,12 +76,25 @@ function sizePhrase(kind: CalculationKind, r: Record<string, ResultValue>): stri
   }
 }
 
+const MULTIPLICITY_WORDS: Record<string, string> = { bonferroni: 'Bonferroni', holm: 'the first step of Holm’s procedure' };
+
+/**
+ * The significance level the test is planned at: the adjusted one when several outcomes share
+ * alpha ("alpha 0.025, i.e. 0.05 shared by 2 outcomes by Bonferroni"), never the nominal one alone.
+ */
+export function levelPhrase(r: Record<string, ResultValue>): string {
+  const adjusted = num(r.alphaAdjusted);
+  if (adjusted === undefined || adjusted === num(r.alpha)) return `alpha ${show(r.alpha)}`;
+  const how = MULTIPLICITY_WORDS[String(r.multiplicity)] ?? String(r.multiplicity);
+  return `alpha ${show(adjusted)} for each outcome (${show(r.alpha)} shared by ${show(r.outcomes)} outcomes, ${how})`;
+}
+
 const SIZE_KEYS = new Set(['nPerGroup', 'n', 'clustersPerArm', 'clusterSize']);
 
 export function meaning(output: CalculationOutput): string {
   const r = output.result;
   const { kind, solvedFor } = output;
-  const test = `${r.sides === 1 ? 'one-sided' : 'two-sided'} test at alpha ${show(r.alpha)}`;
+  const test = `${r.sides === 1 ? 'one-sided' : 'two-sided'} test at ${levelPhrase(r)}`;
   if (kind === 'design-effect') {
     const ess = num(r.effectiveSampleSize);
     return (
@@ -93,14 +106,21 @@ export function meaning(output: CalculationOutput): string {
   if (kind === 'optimal-allocation') {
     const best = `Clusters of ${show(r.clusterSizeInteger)} units give the most information for the money (the unrounded optimum is ${show(r.clusterSize)})`;
     const powerPart = num(r.power) !== undefined ? `, with ${pct(r.power)} power to detect ${effectPhrase(kind, r)} by a ${test}` : '';
+    if (num(r.clustersPerArm) === undefined) return `${best}. Give a budget to see the clusters it pays for, or a difference, SD and target power to see the budget they need.`;
     if (solvedFor === 'budget') return `${best}; ${show(r.clustersPerArm)} clusters per arm reach the target power for a budget of ${show(r.budget)}${powerPart}.`;
     return `${best}; a budget of ${show(r.budget)} pays for ${show(r.clustersPerArm)} clusters per arm${powerPart}.`;
   }
   if (!solvedFor) return '';
-  if (output.feasibility === 'unreachable') return 'The target cannot be reached within the allowed range; the nearest achievable value is shown, and the warning below says what would help.';
-  if (output.feasibility === 'already-met') return 'The target power is already reached at the smallest allowed size; the warning below gives the power there.';
   const effect = effectPhrase(kind, r);
   const size = sizePhrase(kind, r);
+  if (output.feasibility === 'already-met') {
+    return `The target power of ${pct(r.targetPower)} is already met with ${size}, the smallest allowed: a ${test} has ${pct(r.power)} power to detect ${effect}.`;
+  }
+  if (output.feasibility === 'unreachable') {
+    return SIZE_KEYS.has(solvedFor)
+      ? `The target power of ${pct(r.targetPower)} is not reached even with ${size}, the largest allowed (power ${pct(r.power)}); the warning below says what would help.`
+      : `No effect in the allowed range reaches the target power of ${pct(r.targetPower)} with ${size}; the nearest gives ${pct(r.power)}. The warning below says what would help.`;
+  }
   if (solvedFor === 'power') return `With ${size}, a ${test} has ${pct(r.power)} power to detect ${effect}.`;
   if (SIZE_KEYS.has(solvedFor)) {
     return `With ${size}, a ${test} has ${pct(r.power)} power to detect ${effect}; the target was ${pct(r.targetPower)}.`;

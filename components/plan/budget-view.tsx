@@ -4,11 +4,12 @@ import { useMemo, useState } from 'react';
 import { CartesianGrid, Label, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { RAUDENBUSH_1997 } from '@/lib/citations';
 import { formatNumber } from '@/components/calculations/format';
+import { costSummary } from './cost-summary';
 import { ResultPanel } from '@/components/calculations/result-panel';
 import { Alert } from '@/components/ui/alert';
 import { axisStyle, CHART, chartMargin, sizeAxis } from './chart-style';
 import { TextField } from '@/components/ui/field';
-import { costCurve, costCurveSizes, niceTicks, type CostPoint } from '@/lib/plan/sensitivity';
+import { costCurve, costCurveSizes, niceTicks } from '@/lib/plan/sensitivity';
 import { calculate } from '@/lib/stats/calculations';
 import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import { clustersGrid } from '@/lib/stats/calculations/sensitivity';
@@ -28,13 +29,6 @@ const { ink: INK, brand: BRAND } = CHART;
 
 function toNumber(v: string): number | undefined {
   return v.trim() === '' ? undefined : Number(v);
-}
-
-export function costSummary(points: CostPoint[], optimum: number, memberWord: string): string {
-  const ok = points.filter((p): p is CostPoint & { cost: number; clustersPerArm: number } => p.cost !== null);
-  if (ok.length === 0) return 'No cluster size shown reaches the target power.';
-  const best = ok.reduce((a, b) => (b.cost < a.cost ? b : a));
-  return `The total cost of reaching the target is lowest with about ${best.clusterSize} ${memberWord} (${best.clustersPerArm} per arm, ${formatNumber(best.cost, 6)} in all); the formula’s optimum is ${formatNumber(optimum)}. The curve is flat near its minimum, so sizes close to it cost almost the same.`;
 }
 
 /**
@@ -68,7 +62,8 @@ export default function BudgetView({ request, clusterWord, memberWord }: BudgetV
     }
     try {
       const output: CalculationOutput = calculate(parsed.data);
-      const optimum = Number(output.result.clusterSize);
+      // One optimum on the card: the best whole cluster size of the calculation shown above.
+      const optimum = Number(output.result.clusterSizeInteger);
       const sizes = costCurveSizes(optimum);
       const grid = clusterMeansSchema.parse({ ...request, cv: 0, solveFor: undefined });
       const cells = clustersGrid(grid, [request.icc], sizes);
@@ -125,7 +120,7 @@ export default function BudgetView({ request, clusterWord, memberWord }: BudgetV
                   </XAxis>
                   <YAxis tickFormatter={(v: number) => formatNumber(v, 3)} {...axisStyle} width={64} />
                   <Tooltip formatter={(v) => [formatNumber(Number(v), 6), 'Total cost']} labelFormatter={(l) => `${l} ${memberWord}`} />
-                  <ReferenceLine x={Math.max(1, Math.round(computed.optimum))} stroke={BRAND} strokeDasharray="4 3">
+                  <ReferenceLine x={computed.optimum} stroke={BRAND} strokeDasharray="4 3">
                     <Label value="optimum" position="top" fill={BRAND} fontSize={12} />
                   </ReferenceLine>
                   <Line type="monotone" dataKey="cost" stroke={BRAND} strokeWidth={2.5} dot={false} isAnimationActive={false} />

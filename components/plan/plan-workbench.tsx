@@ -143,7 +143,9 @@ export function PlanWorkbench({ studyId, revision, draft, canSave, saved }: Plan
   function chooseUnknown(next: string) {
     if (next === solveFor) return;
     save.reset();
-    if (solveFor && computed.ok) {
+    // The quantity just solved for becomes an input again: it keeps what the user typed there;
+    // only an empty field starts from the answer (solving never rewrites an input).
+    if (solveFor && computed.ok && String(values[solveFor] ?? '').trim() === '') {
       const v = computed.output.result[solveFor];
       if (typeof v === 'number' && Number.isFinite(v)) setValues((x) => ({ ...x, [solveFor]: String(Number.isInteger(v) ? v : Number(v.toPrecision(4))) }));
     }

@@ -37,8 +37,8 @@ export const CALCULATION_EXAMPLES: Record<CalculationKind, CalculationExample> =
     request: { kind: 'longitudinal-slopes', slopeDifference: 3, sd: 60, rho: 0.6, times: [1, 2, 3, 4, 5, 6, 7, 8], nPerGroup: 40, alpha: 0.05 },
   },
   'two-proportions': {
-    summary: 'Reading programme: pupils per group to raise the share reading at the expected level from 55% to 70%, classrooms of 25, ICC 0.05',
-    request: { kind: 'two-proportions', p1: 0.55, p2: 0.7, icc: 0.05, clusterSize: 25, alpha: 0.05, power: 0.8 },
+    summary: 'Reading programme, pupils randomised one by one: pupils per group to raise the share reading at the expected level from 55% to 70%',
+    request: { kind: 'two-proportions', p1: 0.55, p2: 0.7, alpha: 0.05, power: 0.8 },
   },
   'cluster-proportions': {
     summary: 'Reading programme randomised by classroom: classrooms per arm to raise the share reading at the expected level from 55% to 70%, about 25 pupils per class (CV 0.3), ICC 0.05',

@@ -132,6 +132,8 @@ export interface DesignFacts {
   iccLevels: LevelInfo[];
   /** An analysis method or unit of analysis has been chosen. */
   planGiven: boolean;
+  /** The analysis plan works on the log of the outcome. */
+  analysedOnLogScale: boolean;
   /** The level the analysis counts as n, if stated. */
   unitOfAnalysis?: LevelInfo;
 }
@@ -242,6 +244,7 @@ function computeFacts(design: Design): DesignFacts {
     outcome,
     iccLevels: levels.filter((l) => l !== bottom && l.groupsObservations),
     planGiven: a.method !== undefined || a.unitOfAnalysisLevelId !== undefined,
+    analysedOnLogScale: a.transformation === 'log',
     unitOfAnalysis: byId(a.unitOfAnalysisLevelId),
   };
 }

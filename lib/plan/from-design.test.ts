@@ -242,3 +242,21 @@ describe('count and binary outcomes are planned with their own parameters', () =
     expect(out.result.clustersPerArm).toBe(17);
   });
 });
+
+describe('the scale of the analysis (issue 11 point 12)', () => {
+  it('sleep demo: the recommended analysis is on log(reaction time); the Plan says it plans on the raw scale in ms and what that means', () => {
+    const rec = runChecks(sleep, { onRuleError: () => {} }).recommendation;
+    expect(rec.model).toMatch(/^log\(reaction_time\)/);
+    const got = draft(sleep);
+    const note = got.notes.find((n) => n.includes('raw scale'));
+    expect(note).toBeDefined();
+    expect(note).toContain('works on log(reaction time); this calculation plans on the raw scale (ms)');
+    expect(note).toContain('the SD of log(reaction time) in a pilot and the effect as a ratio');
+    // The inputs stay those of the design, in ms.
+    expect(got.inputs).toMatchObject({ delta: 20 });
+  });
+
+  it('an outcome analysed as it is gets no such note', () => {
+    expect(draft(classroom).notes.join(' ')).not.toContain('raw scale');
+  });
+});

@@ -138,8 +138,33 @@ class Builder {
   }
 }
 
+/**
+ * The scale of the analysis. When the recommended (or planned) analysis works on the log of a
+ * continuous outcome, the Plan still plans on the raw scale, with the SD and the difference in
+ * the outcome's own units as the design gives them, and says so. Converting them would need the
+ * outcome's mean and a distribution (a lognormal: SD of the log = √log(1 + CV²), the difference
+ * as the ratio 1 + δ/μ), and the design gives no mean: an invented one would be a number nobody
+ * chose. To first order (the delta method) the two scales give the same standardised effect,
+ * δ/σ ≈ log(1 + δ/μ)/√log(1 + σ²/μ²) when σ/μ and δ/μ are small, so the raw-scale size holds
+ * for moderate skew; the note says when it stops holding.
+ */
+function scaleOfAnalysis(b: Builder, f: DesignFacts, rec: Recommendation | undefined) {
+  if (f.outcome.family !== 'continuous') return;
+  const logScale = rec ? rec.analysisPatch.transformation === 'log' : f.analysedOnLogScale;
+  if (!logScale) return;
+  const name = outcomeName(f.design);
+  const unit = f.design.outcome.unit ? ` (${f.design.outcome.unit})` : '';
+  b.notes.push(
+    `The recommended analysis works on log(${name}); this calculation plans on the raw scale${unit}, with the SD and the difference as given. ` +
+      `On the log scale the difference becomes a ratio (about 1 + difference / mean) and the SD about SD / mean, so the standardised effect, and with it the size, ` +
+      `is nearly the same while the SD is small beside the mean. When the SD is more than about half the mean (common practice, not a sourced threshold), ` +
+      `plan instead from the SD of log(${name}) in a pilot and the effect as a ratio.`,
+  );
+}
+
 /** Significance level, power, attrition and multiplicity: shared by every kind. */
 function common(b: Builder, d: Design, f: DesignFacts, rec: Recommendation | undefined) {
+  scaleOfAnalysis(b, f, rec);
   b.set('alpha', d.assumptions.alpha, 'Significance level (alpha)', design('Assumptions step'));
   b.set('power', d.assumptions.power, 'Target power', design('Assumptions step'));
   const last = f.occasions.at(-1);

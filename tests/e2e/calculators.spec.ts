@@ -7,6 +7,7 @@
 import { expect, test } from '@playwright/test';
 import { CalculatorPage } from './pages/calculator-page';
 import { expectNoSeriousA11yViolations } from './support/axe';
+import { expectSolveForKeepsInputs } from './support/solve-for-cycle';
 import { distinctClientHeaders } from './support/test-data';
 
 test.use({ extraHTTPHeaders: distinctClientHeaders() });
@@ -48,6 +49,40 @@ test.describe('calculators, signed out', () => {
     await expect(calc.status).toContainText('Standard deviation');
     await expect(calc.field('Standard deviation')).toHaveAttribute('aria-invalid', 'true');
     await expectNoSeriousA11yViolations(page, 'Two group means calculator with an error');
+  });
+
+  test('switching what to solve for never rewrites an input (every cycle of the choice)', async ({ page }) => {
+    const calc = new CalculatorPage(page);
+    await calc.goto('two-group-means', 'Two group means');
+    await calc.solveFor('sample size');
+    await calc.setAll({ 'Difference in means': '3', 'Standard deviation': '10', Power: '0.8' });
+    await expect(calc.answer('Sample size per group')).toHaveText('176');
+    const seen = await expectSolveForKeepsInputs(calc.inputs);
+    expect(seen.power).toBe('0.8');
+    expect(seen.delta).toBe('3');
+    await calc.solveFor('sample size');
+    await expect(calc.field('Power')).toHaveValue('0.8');
+    await expect(calc.answer('Sample size per group')).toHaveText('176');
+
+    await calc.goto('cluster-means', 'Cluster-randomised means');
+    const cluster = await expectSolveForKeepsInputs(calc.inputs);
+    expect(cluster.power).toBe('0.8');
+  });
+
+  test('two proportions opens with independent units; the best cluster size needs only the ICC and the costs', async ({ page }) => {
+    const calc = new CalculatorPage(page);
+    await calc.goto('two-proportions', 'Two proportions');
+    await expect(calc.field('Intracluster correlation (ICC)')).toHaveValue('');
+    await expect(calc.field('Units per cluster')).toHaveValue('');
+    // R 4.2.2: ceiling(power.prop.test(p1 = 0.55, p2 = 0.7, power = 0.8)$n) = 163.
+    await expect(calc.answer('Sample size per group')).toHaveText('163');
+
+    await calc.goto('optimal-allocation', 'Cluster size under a budget');
+    await calc.setAll({ 'Intracluster correlation (ICC)': '0.15', 'Cost per cluster': '1200', 'Cost per unit': '40', Budget: '' });
+    // Raudenbush 1997: √(1200/40 × 0.85/0.15) = 13.04 → 13 (R 4.2.2, fixtures/generate_one_answer.R).
+    await expect(calc.answer('Best whole cluster size')).toHaveText('13');
+    await expect(calc.status).toHaveCount(0);
+    await expectNoSeriousA11yViolations(page, 'Cluster size under a budget, costs only');
   });
 
   test('cluster-randomised means shows clusters per arm', async ({ page }) => {

@@ -15,6 +15,7 @@ import { CLASSROOM_DESIGN, FALLS_DESIGN } from '../../db/demo/designs';
 import { PlanPage } from './pages/plan-page';
 import { WorkspacePage } from './pages/workspace-page';
 import { expectNoSeriousA11yViolations as checkA11y } from './support/axe';
+import { expectSolveForKeepsInputs } from './support/solve-for-cycle';
 import { registerAndSignIn } from './support/flows';
 import { distinctClientHeaders, STRONG_PASSWORD, uniqueEmail } from './support/test-data';
 
@@ -51,6 +52,14 @@ test('classroom design: clusters per arm, live ICC change, saved with its revisi
     await expect.poll(async () => Number(await plan.headline('clustersPerArm').textContent())).toBeLessThan(before);
     await expect.poll(async () => (await plan.curveRows()).join('|')).not.toBe(curveBefore.join('|'));
     await expect(plan.curveSummary).toContainText('classrooms per arm');
+  });
+
+  await test.step('switching what to solve for never rewrites an input (every cycle of the choice)', async () => {
+    const seen = await expectSolveForKeepsInputs(plan.inputs);
+    expect(seen.icc).toBe('0.05');
+    await plan.inputs.getByRole('group', { name: 'Solve for' }).locator('input[value="clustersPerArm"]').check();
+    await expect(plan.inputs.locator('input[name="power"]')).toHaveValue(seen.power!);
+    await expect(plan.headline('clustersPerArm')).toHaveText(/^\d+$/);
   });
 
   await test.step('save: the result is listed with the revision', async () => {

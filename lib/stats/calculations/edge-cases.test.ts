@@ -154,7 +154,6 @@ describe('inputs that do not fit together', () => {
     ['change with no baseline', { kind: 'repeated-measures', delta: 1, sd: 1, rho: 0.5, baselines: 0, analysis: 'change', power: 0.8 }, 'baselines', /at least one baseline/],
     ['equal times', { kind: 'longitudinal-slopes', slopeDifference: 1, sd: 1, rho: 0.5, times: [2, 2, 2], power: 0.8 }, 'times', /must not all be equal/],
     ['ratio leaving group 2 with one unit', { kind: 'two-group-means', delta: 1, sd: 1, nPerGroup: 10, ratio: 0.1 }, 'nPerGroup', /at least 11/],
-    ['optimal allocation without budget or target', { kind: 'optimal-allocation', icc: 0.05, costPerCluster: 100, costPerUnit: 10 }, 'budget', /Give a budget/],
   ])('%s', (_case, input, field, message) => expectInputError(input, field, message));
 
   it('p1 = p2 is fine when solving power: power is the one-tail rate α/2', () => {

@@ -5,8 +5,8 @@
  * Diggle, Heagerty, Liang & Zeger (2002, §2.4): under compound symmetry (correlation ρ between
  * any two measurements of a subject, variance σ²) the variance of a subject's OLS slope is
  * σ²(1 − ρ)/Σ(tⱼ − t̄)², so n = (z₁₋α/2 + z₁₋β)²·2σ²(1 − ρ)/(Σ(tⱼ − t̄)²·δ²) subjects per group
- * by the normal approximation. The achieved power is also given by the t test on the subjects'
- * slopes, df = 2n − 2.
+ * by the normal approximation. The answer is exact: the t test on the subjects' slopes,
+ * df = 2n − 2 (summary-measure.ts).
  *
  * Valid range: the schema's; the times must not all be equal. Σ(tⱼ − t̄)² is computed about the
  * mean (two passes), not from raw sums. Accuracy and bad input: as summary-measure.ts.
@@ -43,10 +43,10 @@ export function longitudinalSlopes(request: LongitudinalSlopesRequest): Calculat
     result: { ...solved.result, rho, times: [...times], sumOfSquaredTimeDeviations: sxx },
     feasibility: solved.feasibility,
     method:
-      `Normal approximation of ${DIGGLE_2002.short} (§2.4) for the difference in OLS slopes, compound symmetry, ${TWO_SIDED(request.sides)}; ` +
-      "'power' is the normal approximation, 'powerT' the noncentral t with df = 2n − 2.",
+      `Variance of the OLS slope by ${DIGGLE_2002.short} (§2.4), compound symmetry; exact power of the ${TWO_SIDED(request.sides)} t test on the subjects' slopes ` +
+      '(noncentral t, df = 2n − 2). The published normal approximation is shown beside it.',
     formula:
-      'n per group = (z for alpha + z for power)² × 2 × sd² × (1 − correlation) / (Σ(time − mean time)² × slope difference²), ' +
+      'Standard error of the slope difference = sd × √(2 × (1 − correlation) / (n × Σ(time − mean time)²)), ' +
       `with Σ(time − mean time)² = ${formatNumber(sxx)} for the ${times.length} times given.`,
     references: fullReferences([DIGGLE_2002, ...solved.references]),
     warnings: [

@@ -7,7 +7,8 @@
  * for a given variance of the treatment effect — is least at
  *   m* = √((c_cluster/c_unit)·(1 − ICC)/ICC).
  * m* is returned unrounded (`clusterSize`) and as the neighbouring whole number (at least 1)
- * with the lower cost per unit of information (`clusterSizeInteger`). Then, at that whole size:
+ * with the lower cost per unit of information (`clusterSizeInteger`): the ICC and the two costs
+ * alone answer it, no budget or effect needed. Then, at that whole size, when given:
  * - with a budget: clusters per arm ⌊budget / (2·(c_cluster + m·c_unit))⌋, and their power when
  *   delta and sd are given (cluster-means.ts, cv 0);
  * - with delta, sd and power: the clusters per arm that reach the power (cluster-means.ts, cv 0)
@@ -65,9 +66,6 @@ export function optimalAllocation(request: OptimalAllocationRequest): Calculatio
   if ((delta === undefined) !== (sd === undefined)) {
     const missing = delta === undefined ? 'delta' : 'sd';
     throw inputError(`For power give both delta and sd: ${missing} is missing.`, [missing]);
-  }
-  if (budget === undefined && !(hasEffect && target !== undefined)) {
-    throw inputError('Give a budget, or delta, sd and power to find the budget they need.', ['budget', 'delta', 'sd', 'power']);
   }
   const warnings: string[] = [...adjusted.warnings];
   const result: Record<string, ResultValue> = {

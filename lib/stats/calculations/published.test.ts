@@ -53,7 +53,7 @@ describe('repeated measures: Frison & Pocock 1992 variance factors', () => {
   it('n by the published normal formula: δ = 0.5σ, ANCOVA with ρ = 0.5 → ⌈2·(1.959964 + 0.841621)²·0.75/0.25⌉ = 48', () => {
     // 2·7.848879·0.75/0.25 = 47.09 → 48 (hand-checked).
     const out = run({ kind: 'repeated-measures', delta: 0.5, sd: 1, rho: 0.5, power: 0.8, analysis: 'ancova' });
-    expect(out.result.nPerGroup).toBe(48);
+    expect(out.result.nPerGroupNormal).toBe(48);
   });
 });
 
@@ -62,7 +62,7 @@ describe('longitudinal slopes: Diggle et al. 2002 §2.4 (hand-checked)', () => {
     // Σ(t − t̄)² = 10; n = 2·(z.975 + z.80)²·σ²(1 − ρ)/(Σ·δ²) = 78.49 → 79.
     const out = run({ kind: 'longitudinal-slopes', slopeDifference: 0.1, sd: 1, rho: 0.5, times: [0, 1, 2, 3, 4], power: 0.8 });
     expect(out.result.sumOfSquaredTimeDeviations).toBe(10);
-    expect(out.result.nPerGroup).toBe(79);
+    expect(out.result.nPerGroupNormal).toBe(79);
   });
 });
 

@@ -118,17 +118,21 @@ describe(`reference values from ${fixture.r}, pwr ${fixture.pwr}`, () => {
     expectNoMismatches(mismatches);
   });
 
-  it(`repeated measures: ${fixture.repeatedMeasures.length} designs, normal and t power, n by the published formula`, () => {
+  // The answer is the t test's (R: pt with ncp, uniroot); the published normal formula rides beside it.
+  it(`repeated measures: ${fixture.repeatedMeasures.length} designs, exact t power, n and delta; the normal approximation beside them`, () => {
     expectNoMismatches(
       fixture.repeatedMeasures.flatMap((row) => {
         const input = { kind: 'repeated-measures', analysis: row.analysis, baselines: row.baselines, followUps: row.followUps, rho: row.rho, sd: row.sd, alpha: row.alpha };
         const byPower = run({ ...input, delta: row.delta, nPerGroup: row.nPerGroup });
         const byN = run({ ...input, delta: row.delta, power: row.targetPower });
+        const byDelta = run({ ...input, nPerGroup: row.nPerGroup, power: row.targetPower });
         return [
           relativeMismatch(`varianceFactor ${label(row)}`, num(byPower.result.varianceFactor), row.factor, 1e-12),
-          relativeMismatch(`power ${label(row)}`, num(byPower.result.power), row.power, POWER_TOLERANCE),
-          relativeMismatch(`powerT ${label(row)}`, num(byPower.result.powerT), row.powerT, POWER_TOLERANCE),
-          exactMismatch(`nPerGroup ${label(row)}`, num(byN.result.nPerGroup), row.nPerGroupNeeded),
+          relativeMismatch(`power ${label(row)}`, num(byPower.result.power), row.powerT, POWER_TOLERANCE),
+          relativeMismatch(`powerNormal ${label(row)}`, num(byPower.result.powerNormal), row.power, POWER_TOLERANCE),
+          exactMismatch(`nPerGroup ${label(row)}`, num(byN.result.nPerGroup), row.nPerGroupNeededT),
+          exactMismatch(`nPerGroupNormal ${label(row)}`, num(byN.result.nPerGroupNormal), row.nPerGroupNeeded),
+          relativeMismatch(`delta ${label(row)}`, num(byDelta.result.delta), row.deltaT, EFFECT_TOLERANCE),
         ];
       }),
     );
@@ -140,10 +144,13 @@ describe(`reference values from ${fixture.r}, pwr ${fixture.pwr}`, () => {
         const input = { kind: 'longitudinal-slopes', times: row.times, rho: row.rho, sd: row.sd, alpha: row.alpha, slopeDifference: row.slopeDifference };
         const byPower = run({ ...input, nPerGroup: row.nPerGroup });
         const byN = run({ ...input, power: row.targetPower });
+        const byEffect = run({ ...input, slopeDifference: undefined, nPerGroup: row.nPerGroup, power: row.targetPower });
         return [
-          relativeMismatch(`power ${label(row)}`, num(byPower.result.power), row.power, POWER_TOLERANCE),
-          relativeMismatch(`powerT ${label(row)}`, num(byPower.result.powerT), row.powerT, POWER_TOLERANCE),
-          exactMismatch(`nPerGroup ${label(row)}`, num(byN.result.nPerGroup), row.nPerGroupNeeded),
+          relativeMismatch(`power ${label(row)}`, num(byPower.result.power), row.powerT, POWER_TOLERANCE),
+          relativeMismatch(`powerNormal ${label(row)}`, num(byPower.result.powerNormal), row.power, POWER_TOLERANCE),
+          exactMismatch(`nPerGroup ${label(row)}`, num(byN.result.nPerGroup), row.nPerGroupNeededT),
+          exactMismatch(`nPerGroupNormal ${label(row)}`, num(byN.result.nPerGroupNormal), row.nPerGroupNeeded),
+          relativeMismatch(`slopeDifference ${label(row)}`, num(byEffect.result.slopeDifference), row.slopeDifferenceT, EFFECT_TOLERANCE),
         ];
       }),
     );

@@ -8,9 +8,9 @@
  *   post    f = (1 + (r − 1)ρ)/r
  *   change  f = (1 + (r − 1)ρ)/r + (1 + (p − 1)ρ)/p − 2ρ
  *   ANCOVA  f = (1 + (r − 1)ρ)/r − pρ²/(1 + (p − 1)ρ)
- * and n = (z₁₋α/2 + z₁₋β)²·2σ²·f/δ² by the normal approximation. The achieved power is also
- * given by the t test with df = 2n − 2 (post, change) or 2n − 3 (ANCOVA, one covariate: the
- * mean of the baselines).
+ * and n = (z₁₋α/2 + z₁₋β)²·2σ²·f/δ² by the normal approximation. The answer is exact: the t test
+ * on the summaries with df = 2n − 2 (post, change) or 2n − 3 (ANCOVA, one covariate: the mean of
+ * the baselines); the normal approximation is given beside it (summary-measure.ts).
  *
  * Valid range: the schema's; change and ANCOVA need at least one baseline. Accuracy: exact
  * arithmetic on the normal quantiles (1e-14) and the noncentral t (1e-10 absolute); tested
@@ -83,10 +83,10 @@ export function repeatedMeasures(request: RepeatedMeasuresRequest): CalculationO
     },
     feasibility: solved.feasibility,
     method:
-      `Normal approximation of ${narrative(FRISON_POCOCK_1992)} for ${ANALYSIS_WORDS[analysis]}, compound symmetry, ${TWO_SIDED(request.sides)}; ` +
-      `'power' is the normal approximation, 'powerT' the noncentral t with df = ${df}.`,
+      `Variance of ${ANALYSIS_WORDS[analysis]} by ${narrative(FRISON_POCOCK_1992)}, compound symmetry; ` +
+      `exact power of the ${TWO_SIDED(request.sides)} t test on it (noncentral t, df = ${df}). The published normal approximation is shown beside it.`,
     formula:
-      `n per group = (z for alpha + z for power)² × 2 × sd² × f / delta², with variance factor f = ${formatNumber(design.factor)} for ` +
+      `Standard error of the difference = sd × √(2f / n), with variance factor f = ${formatNumber(design.factor)} for ` +
       `${baselines} baseline(s), ${followUps} follow-up(s) and correlation ${rho}` +
       (analysis === 'post'
         ? ' (f = (1 + (r − 1)ρ)/r).'

@@ -80,13 +80,13 @@ export function powerCurve(request: CalculationRequest, sizes: readonly number[]
     case 'repeated-measures': {
       const delta = effect('delta', request.delta);
       const design = repeatedMeasuresDesign(request.analysis, request.baselines, request.followUps, request.rho);
-      at = (n) => summaryPower(delta, request.sd, n, design, alpha, request.sides).power;
+      at = (n) => summaryPower(delta, request.sd, n, design, alpha, request.sides).powerT;
       break;
     }
     case 'longitudinal-slopes': {
       const slopeDifference = effect('slopeDifference', request.slopeDifference);
       const design = slopesDesign(request.times, request.rho);
-      at = (n) => summaryPower(slopeDifference, request.sd, n, design, alpha, request.sides).power;
+      at = (n) => summaryPower(slopeDifference, request.sd, n, design, alpha, request.sides).powerT;
       break;
     }
     case 'two-proportions': {

@@ -4,19 +4,23 @@
  * kind derives from its design. The difference of the group means has standard error
  * SE = √(2σ²·f/n).
  *
- * Sizes and effects use the normal approximation as the published formulas do:
- * n = (z₁₋α/sides + z₁₋β)²·2σ²·f/δ², i.e. power Φ(δ/SE − z₁₋α/sides) (one rejection tail). The
- * achieved power is also given by the t test on the summaries (noncentral t, both tails when
- * two-sided) with the kind's degrees of freedom, which is lower for small n.
+ * The answer is exact: power is that of the t test on the summaries (noncentral t, both tails
+ * when two-sided) with the kind's degrees of freedom, the size is the smallest whole n that
+ * reaches the target by it, and the effect the one that gives the target by it. The published
+ * formulas use the normal approximation n = (z₁₋α/sides + z₁₋β)²·2σ²·f/δ², i.e. power
+ * Φ(δ/SE − z₁₋α/sides) (one rejection tail), which ignores that σ is estimated and so asks for
+ * one or two subjects fewer at small n; it is given beside the answer (`powerNormal`,
+ * `nPerGroupNormal`, the effect's `…Normal`), never as the answer. With one follow-up and no
+ * baseline the summary is the outcome itself and the answer is the two-sample t test's.
  *
  * Shared by repeated-measures.ts (Frison & Pocock 1992) and longitudinal-slopes.ts
  * (Diggle et al. 2002).
  */
-import { adjustAlpha, formatNumber, toRecruit } from './adjust';
+import { adjustAlpha, toRecruit } from './adjust';
 import { inputError } from './errors';
-import { sizeFeasibilityWarning, testSettings } from './output';
+import { effectFeasibilityWarning, sizeFeasibilityWarning, testSettings } from './output';
 import { tTestPower, zSum, zTestPower, type Sides } from './power';
-import { findUnknown, presence, requireTargetPower, solveSize } from './solve';
+import { findUnknown, presence, requireTargetPower, solveEffect, solveSize } from './solve';
 import type { Feasibility, ResultValue } from './types';
 import type { Multiplicity } from './adjust';
 import type { Citation } from '@/lib/citations';
@@ -35,7 +39,7 @@ export interface SummaryDesign {
 export interface SummaryPower {
   /** Normal approximation, as published. */
   power: number;
-  /** Noncentral t with the design's degrees of freedom. */
+  /** Noncentral t with the design's degrees of freedom: the exact power, the answer. */
   powerT: number;
 }
 
@@ -86,24 +90,29 @@ export function solveSummary(request: SummaryRequest, effectName: string, effect
   let feasibility: Feasibility = 'ok';
   const extra: Record<string, ResultValue> = {};
 
+  const exactAt = (e: number, size: number) => summaryPower(e, sd, size, design, a, sides).powerT;
   if (solvedFor === 'nPerGroup') {
     const published = (2 * design.factor * (zSum(a, sides, target) * sd) ** 2) / (effect! * effect!);
-    const s = solveSize((size) => summaryPower(effect!, sd, size, design, a, sides).power, target, design.minN, MAX_N_PER_GROUP, published);
+    const s = solveSize((size) => exactAt(effect!, size), target, design.minN, MAX_N_PER_GROUP, published);
     ({ size: n, feasibility } = s);
     warnings.push(...sizeFeasibilityWarning(feasibility, 'subjects per group', s.size, s.power, target));
-    const byT = solveSize((size) => summaryPower(effect!, sd, size, design, a, sides).powerT, target, design.minN, MAX_N_PER_GROUP, published);
-    extra.nPerGroupByT = byT.feasibility === 'unreachable' ? null : byT.size;
-    if (byT.size > n! && byT.feasibility !== 'unreachable') {
+    const byNormal = solveSize((size) => summaryPower(effect!, sd, size, design, a, sides).power, target, design.minN, MAX_N_PER_GROUP, published);
+    extra.nPerGroupNormal = byNormal.feasibility === 'unreachable' ? null : byNormal.size;
+    if (feasibility === 'ok' && byNormal.feasibility === 'ok' && byNormal.size !== n) {
       warnings.push(
-        `By the t distribution the power at ${n} per group is ${formatNumber(summaryPower(effect!, sd, n!, design, a, sides).powerT)}; ` +
-          `${byT.size} per group would reach ${formatNumber(target)} by t.`,
+        `The published normal-approximation formula gives ${byNormal.size} per group; it ignores that the standard deviation is estimated, ` +
+          `so the answer above uses the t distribution: ${n} per group.`,
       );
     }
   } else if (solvedFor === effectName) {
-    // The normal approximation inverts exactly: δ = (z₁₋α/sides + z_power)·SE.
-    effect = zSum(a, sides, target) * sd * Math.sqrt((2 * design.factor) / n!);
+    // The normal approximation inverts exactly, δ = (z₁₋α/sides + z_power)·SE: the start for the exact effect.
+    const normal = zSum(a, sides, target) * sd * Math.sqrt((2 * design.factor) / n!);
+    const s = solveEffect((e) => exactAt(e, n!), target, normal);
+    ({ effect, feasibility } = s);
+    warnings.push(...effectFeasibilityWarning(feasibility, 'difference', s.effect, s.power, target));
+    extra[`${effectName}Normal`] = normal;
   }
-  const { power, powerT } = summaryPower(effect!, sd, n!, design, a, sides);
+  const { power: powerNormal, powerT: power } = summaryPower(effect!, sd, n!, design, a, sides);
   const nRecruit = toRecruit(n!, dropout);
   return {
     solvedFor,
@@ -118,7 +127,7 @@ export function solveSummary(request: SummaryRequest, effectName: string, effect
       ...extra,
       sides,
       ...testSettings({ alpha, alphaAdjusted: a, outcomes, multiplicity, power, targetPower: solvedFor === 'power' ? null : target }),
-      powerT,
+      powerNormal,
       varianceFactor: design.factor,
       standardError: sd * Math.sqrt((2 * design.factor) / n!),
       degreesOfFreedom: design.degreesOfFreedom(n!),

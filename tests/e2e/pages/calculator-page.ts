@@ -34,6 +34,11 @@ export class CalculatorPage {
     await this.field(label).fill(value);
   }
 
+  /** Fills several inputs, by label, in the order given. */
+  async setAll(values: Record<string, string>): Promise<void> {
+    for (const [label, value] of Object.entries(values)) await this.set(label, value);
+  }
+
   /** Picks what to solve for, e.g. "sample size", "power", "clusters per arm". */
   async solveFor(what: string): Promise<void> {
     await this.inputs.getByRole('group', { name: 'Solve for' }).getByRole('radio', { name: what, exact: true }).check();
