@@ -71,10 +71,10 @@ describe('the classroom demo with its pupils given as a study total (500)', () =
     ]);
   });
 
-  it('simulates 25 pupils per classroom, as the Plan plans for (23 analysed after 8% attrition)', () => {
+  it('simulates the 23 pupils per classroom that the Plan analyses (25 planned, 8% lost by the end)', () => {
     const spec = specFromDesign(total);
     if (!spec.ok) throw new Error([...spec.missing, ...spec.unsupported].join('; '));
-    expect(spec.spec.design).toEqual({ arms: 2, clustersPerArm: 10, clusterSize: 25, clusterSizeCv: 0.25 });
+    expect(spec.spec.design).toEqual({ arms: 2, clustersPerArm: 10, clusterSize: 23, clusterSizeCv: 0.25 });
     const plan = planFromDesign(total, runChecks(total).recommendation);
     expect(plan.inputs).toMatchObject({ clusterSize: 23, icc: 0.15 });
     expect(plan.assumptions.find((a) => a.name === 'Pupils per classroom (planned)')?.value).toBe(25);
@@ -93,11 +93,11 @@ describe('a total that does not split evenly between the parents', () => {
     ),
   );
 
-  it('gives the average per parent; the stress test rounds it, the Plan says it uses a whole number', () => {
+  it('gives the average per parent; the stress test and the Plan both use its whole part, and the Plan says so', () => {
     expect(designFacts(d).levels[1]!.perParent).toBeCloseTo(500 / 21, 12);
     const spec = specFromDesign(d);
     if (!spec.ok) throw new Error([...spec.missing, ...spec.unsupported].join('; '));
-    expect(spec.spec.design).toMatchObject({ clustersPerArm: 10, clusterSize: 24 });
+    expect(spec.spec.design).toMatchObject({ clustersPerArm: 10, clusterSize: 23 });
     const plan = planFromDesign(d);
     expect(plan.inputs.clusterSize).toBe(23);
     expect(plan.notes.join(' ')).toMatch(/23\.8 pupils per classroom on average; the calculation uses 23/);

@@ -302,6 +302,17 @@ export function clusterRandomised(f: DesignFacts): boolean {
   return below !== undefined && E.groupsObservations && below.level.kind !== 'repeated';
 }
 
+/**
+ * Units of level L per unit of the level above that are analysed: the number per parent less the
+ * largest attrition of the occasions, rounded down (at least 1). A cluster keeps its members, so
+ * attrition shrinks what each cluster contributes; the Plan's cluster size and the stress test's
+ * simulated clusters are both this number. `dropout` is the attrition the caller uses (the Plan's
+ * input, which it refuses above 90%); by default the design's largest attrition.
+ */
+export function analysedPerParent(f: DesignFacts, L: LevelInfo, dropout = f.maxAttrition): number {
+  return Math.max(1, Math.floor(L.perParent * (1 - (dropout < 1 ? dropout : 0)) + 1e-9));
+}
+
 /** Units of level L in the smallest arm; undefined with fewer than two arms. */
 export function smallestArm(f: DesignFacts, L: LevelInfo): number | undefined {
   if (f.armShares.length < 2) return undefined;

@@ -50,7 +50,7 @@
 import { COHEN_1988, DIGGLE_2002, DONNER_KLAR_2000, FLEISS_2003, FRISON_POCOCK_1992, HAYES_BENNETT_1999, narrative, SENN_2002, VICKERS_ALTMAN_2001, ZHU_LAKKIS_2014 } from '@/lib/citations';
 import type { Assumptions, Design, Level, Source } from '@/lib/design/schema';
 import { DESIGN_STEPS } from '@/lib/design/schema';
-import { clusterRandomised as wholeClustersRandomised, designFacts, iccOf, sizeCv, smallestArm, type DesignFacts, type LevelInfo, type OutcomeFacts } from '@/lib/design/facts';
+import { analysedPerParent, clusterRandomised as wholeClustersRandomised, designFacts, iccOf, sizeCv, smallestArm, type DesignFacts, type LevelInfo, type OutcomeFacts } from '@/lib/design/facts';
 import { cap, dec, noun, num } from '@/lib/rules/text';
 import { outcomeName } from '@/lib/rules/phrases';
 import type { Recommendation } from '@/lib/rules/types';
@@ -329,7 +329,7 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
   // The number per cluster is fixed by the clusters (a class has its pupils): attrition shrinks
   // the number analysed, and the calculation's dropout turns that back into the number recruited.
   const dropout = typeof b.inputs.dropout === 'number' ? b.inputs.dropout : 0;
-  const analysed = Math.max(1, Math.floor(m * (1 - dropout) + 1e-9));
+  const analysed = analysedPerParent(f, member, dropout);
   if (dropout > 0) {
     b.note(`${cap(noun(member.level, true))} per ${noun(E.level)} (planned)`, tidy(m), design('Structure step'));
     b.set('clusterSize', analysed, `${cap(noun(member.level, true))} per ${noun(E.level)} analysed`, derived(`${num(m)} × (1 − ${dec(dropout, 3)}), rounded down`));
@@ -584,7 +584,7 @@ function countSizing(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, cluste
   b.labels.member = `${noun(member.level, true)} per ${noun(E.level)}`;
   armsNotes(b, f, false);
   const dropout = typeof b.inputs.dropout === 'number' ? b.inputs.dropout : 0;
-  const analysed = Math.max(1, Math.floor(member.perParent * (1 - dropout) + 1e-9));
+  const analysed = analysedPerParent(f, member, dropout);
   const name = `${cap(noun(member.level, true))} per ${noun(E.level)}${dropout > 0 ? ' analysed' : ''}`;
   const source = dropout > 0 ? derived(`${num(member.perParent)} × (1 − ${dec(dropout, 3)}), rounded down`) : design('Structure step');
   return { clustered, planned, clusterSize: { value: analysed, name, source } };

@@ -23,8 +23,9 @@
  * - Treatment at the top level, the same for all observations of a unit. The level of
  *   assignment is the cluster when it groups units or groups below it (classrooms of pupils,
  *   trays of plants, schools of classrooms): clustersPerArm = the smaller arm's number (the
- *   specification has one number per arm), clusterSize = members per cluster (rounded when the
- *   counts give an average), clusterSizeCv = the members' count CV. Otherwise units are
+ *   specification has one number per arm), clusterSize = members per cluster analysed, as the Plan
+ *   counts them (`analysedPerParent`: the whole part of the number per cluster less the design's
+ *   largest attrition), clusterSizeCv = the members' count CV. Otherwise units are
  *   independent: unitsPerArm = the units in each arm. A level below the units (nights,
  *   leaves, or the pupils of classrooms in schools) becomes the occasions — for a level of
  *   independent members (pupils) these are sub-samples, so a design with two levels of
@@ -79,7 +80,7 @@
  * one sentence per feature of the design the stress test does not simulate, with what the team
  * can do instead.
  */
-import { clusterRandomised, designFacts, sizeCv, unitsByArm, type DesignFacts, type LevelInfo, type Sourced } from '@/lib/design/facts';
+import { analysedPerParent, clusterRandomised, designFacts, sizeCv, unitsByArm, type DesignFacts, type LevelInfo, type Sourced } from '@/lib/design/facts';
 import type { Design } from '@/lib/design/schema';
 import type { AnalysisName } from '@/lib/models/types';
 import { p2FromEffect } from '@/lib/stats/calculations/proportion-effect';
@@ -284,7 +285,7 @@ function betweenShape(f: DesignFacts, A: LevelInfo, family: Family): ShapeResult
   const byArm = unitsByArm(f, A);
   const perArm = byArm[0] === byArm[1] ? byArm[0]! : ([byArm[0]!, byArm[1]!] as [number, number]);
   const size: Partial<DesignInput> = clustered
-    ? { clustersPerArm: perBlock ?? Math.max(2, Math.min(...byArm)), clusterSize: Math.max(1, Math.round(members.perParent)), clusterSizeCv: sizeCv(f, A.index, members.index) }
+    ? { clustersPerArm: perBlock ?? Math.max(2, Math.min(...byArm)), clusterSize: analysedPerParent(f, members), clusterSizeCv: sizeCv(f, A.index, members.index) }
     : { unitsPerArm: perBlock ?? perArm };
   const overTime = inner === undefined || inner.level.kind === 'repeated';
   const trajectory = family === 'gaussian' && overTime && (f.design.occasions.trajectoryOfInterest || f.design.analysis.randomSlopeForTime) && repeats >= 2;
@@ -464,7 +465,8 @@ export function describeSimulation(design: Design, spec: SimulationSpecInput): s
     const members = f.levels[A.index + 1];
     if (d.clustersPerArm !== undefined) row = members;
     const within = d.blocks !== undefined && A.index > 0 ? ` in each of ${d.blocks} ${plural(f.levels[A.index - 1]!)}` : '';
-    const what = d.clustersPerArm !== undefined ? `${d.clustersPerArm} ${plural(A)} per arm${within}, ${d.clusterSize} ${members ? plural(members) : 'members'} each` : `${perArm} ${plural(A)} per arm${within}`;
+    const lost = members && d.clusterSize !== undefined && d.clusterSize < Math.round(members.perParent) && f.maxAttrition > 0 ? ` analysed in each (${nice(members.perParent)} planned, less the ${nice(f.maxAttrition * 100)}% lost by the last occasion, as the Plan counts them)` : '';
+    const what = d.clustersPerArm !== undefined ? `${d.clustersPerArm} ${plural(A)} per arm${within}, ${d.clusterSize} ${members ? plural(members) : 'members'}${lost || ' each'}` : `${perArm} ${plural(A)} per arm${within}`;
     const occasions = d.occasions !== undefined ? `, measured ${d.occasions} times` : '';
     out.push(`Simulated from the design: ${what}${occasions}.${d.target === 'treat:time' ? ' The effect is the difference in slopes over time between the arms.' : ''}`);
   }

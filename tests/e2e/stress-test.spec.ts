@@ -59,7 +59,7 @@ test('classroom design: a small stress test runs, shows progress, then results a
     await expect(stress.results).toBeVisible({ timeout: 30_000 });
     const rows = await stress.resultRows();
     expect(rows).toHaveLength(4);
-    // Ignoring the classrooms (ICC 0.15, 25 pupils each), ols's false-positive rate is far above 5%.
+    // Ignoring the classrooms (ICC 0.15, 23 pupils analysed in each), ols's false-positive rate is far above 5%.
     const ols = rows.find((r) => / ols /.test(` ${r} `));
     expect(ols, rows.join('\n')).toMatch(/^Assumptions hold .* ols \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
     await expect(stress.summary).toContainText('analysed with ols, the false-positive rate is');

@@ -295,7 +295,7 @@ describe('runs on a study', () => {
     expect(first.status, JSON.stringify(first.body)).toBe(202);
     expect(first.body).toMatchObject({ studyId: w.studyId, revision: 2 });
     expect(first.body.spec).toMatchObject({
-      design: { clustersPerArm: 10, clusterSize: 25, clusterSizeCv: 0.25 },
+      design: { clustersPerArm: 10, clusterSize: 23, clusterSizeCv: 0.25 },
       truth: { effect: 3, sd: 10, icc: 0.15 },
       analyses: ['ols', 'cluster-robust', 'cluster-means', 'mixed'],
       replicates: 10,
