@@ -25,7 +25,7 @@ import type { Analysis, Design } from '@/lib/design/schema';
 import { BATES_2015, DIGGLE_2002, DONNER_KLAR_2000, GELMAN_HILL_2007, HOLM_1979, MCCULLAGH_NELDER_1989, SENN_2002 } from '@/lib/citations';
 import { accountsFor, designFacts, iccOf } from '@/lib/design/facts';
 import { familyFor, modelPlan } from './model';
-import { methodName, outcomeName, plannedMethod, treatmentName } from './phrases';
+import { methodName, modelFor, outcomeName, plannedMethod, treatmentName } from './phrases';
 import { ASK_STATISTICIAN, cap, count, dec, noun, num, numbers } from './text';
 import type { Finding, Rule } from './types';
 
@@ -77,7 +77,7 @@ export const analysisMismatch: Rule = {
           `Measurements of the same ${noun(E.level)} are correlated${icc !== undefined ? ` (ICC ${dec(icc, 3)})` : ''}. An analysis that ignores this gets the error wrong in two ways at once: ` +
           `it counts differences between ${noun(E.level, true)}, which a within-${noun(E.level)} comparison removes, as noise (wasting the design's main advantage), and it treats consecutive measurements under the same arm as independent, which overstates the information in them. ` +
           `Its standard error, its degrees of freedom (${num(naiveDf)} in place of about ${num(designDf)} from ${count(E.total, E.level)}) and its p-value do not describe this design.`,
-        todo: `Analyse within ${noun(E.level, true)}: a mixed model with a random intercept for ${noun(E.level)}${f.crossover ? ' and period as a fixed effect' : ''}, \`${model}\`, counting the ${count(E.total, E.level)} as n. ${ASK_STATISTICIAN}`,
+        todo: `Analyse within ${noun(E.level, true)}: ${modelFor(modelPlan(design), [E])}${f.crossover ? ', with period as a fixed effect' : ''}, \`${model}\`, counting the ${count(E.total, E.level)} as n. ${ASK_STATISTICIAN}`,
         model,
         numbers: numbers({ observations: f.totalObs, experimentalUnits: E.total, naiveDf, designDf, icc }),
         citations: [SENN_2002, DIGGLE_2002, BATES_2015],

@@ -19,6 +19,8 @@ export function AnalysisStep({ value, design, onValid, onDraft, disabled }: Step
       <SelectField label="Planned analysis" {...register('method', asOptional)} error={errorAt(e, 'method')}>
         <option value="">Choose…</option>
         <option value="t-test">t-test comparing the arms</option>
+        <option value="paired-t-test">Paired t-test (differences within pairs or units)</option>
+        <option value="per-occasion-tests">A separate test or ANOVA at each occasion</option>
         <option value="linear-regression">Linear regression (ordinary least squares)</option>
         <option value="ancova">ANCOVA adjusting for baseline</option>
         <option value="mixed-model">Linear mixed model (random effects)</option>
