@@ -178,14 +178,16 @@ function buildPlan(f: DesignFacts): ModelPlan {
   fixed.push(...fixedCrossed);
 
   const blocking = d.assignment.blocking;
-  const blockName = blocking.kind !== 'none' && blocking.factor ? identifier(blocking.factor, 'block') : undefined;
+  const paired = blocking.kind === 'matched' || blocking.kind === 'paired';
+  // An unnamed blocking factor is still in the model, as `block` (or `pair`).
+  const blockName = blocking.kind !== 'none' ? identifier(blocking.factor, paired ? 'pair' : 'block') : undefined;
   let blockTerm: string | undefined;
   let blockEffect: ModelPlan['blockEffect'];
   if (blockName) {
     if (fixedLevels.some((l) => levelTerm(l) === blockName)) blockEffect = 'fixed';
     else if (levels.some((l) => levelTerm(l) === blockName)) blockEffect = 'random';
     else {
-      blockEffect = blocking.kind === 'matched' || blocking.kind === 'paired' ? 'random' : 'fixed';
+      blockEffect = paired ? 'random' : 'fixed';
       (blockEffect === 'random' ? crossed : fixed).push(blockName);
       blockTerm = blockName;
     }

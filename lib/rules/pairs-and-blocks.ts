@@ -81,8 +81,7 @@ function blockingInAnalysis(design: Design): boolean {
   if (b.inAnalysis || a.blockEffect !== undefined) return true;
   if (a.method === undefined) return modelPlan(design).blockEffect !== undefined;
   if (a.method === 'paired-t-test' && (b.kind === 'paired' || b.kind === 'matched')) return true;
-  const name = b.factor ? identifier(b.factor, '') : '';
-  if (!name) return false;
+  const name = identifier(b.factor, b.kind === 'paired' || b.kind === 'matched' ? 'pair' : 'block');
   const f = designFacts(design);
   const level = f.levels.find((l) => identifier(l.level.name, '') === name);
   return level !== undefined && f.planGiven && accountsFor(f, level) && (a.randomIntercepts.includes(level.level.id) || (a.fixedEffectLevels ?? []).includes(level.level.id));

@@ -2,8 +2,8 @@
  * An analysis per occasion: the arms compared by a separate test (t-test or ANOVA) at each
  * follow-up occasion.
  *
- * Triggers: the planned method is `per-occasion-tests` and units are measured at two or more
- * follow-up occasions (warning).
+ * Triggers: the planned method is `per-occasion-tests` and a unit is measured at two or more
+ * follow-up occasions (not a cross-over, whose periods model.ts handles) (warning).
  *
  * Quantified: the number of tests K (the follow-up occasions) and the family-wise error
  * 1 − (1 − α)^K if the treatment does nothing (for independent tests; tests on the same units at
@@ -32,8 +32,9 @@ export const perOccasion: Rule = {
     if (design.analysis.method !== 'per-occasion-tests') return [];
     const f = designFacts(design);
     const K = f.followUps.length;
-    const S = f.subject ?? f.eu;
-    if (K < 2 || !S) return [];
+    const S = f.subject;
+    // The same condition as model.ts's repeated measurements over time (a cross-over compares periods instead).
+    if (K < 2 || !S || f.crossover) return [];
     const alpha = design.assumptions.alpha;
     const fwer = 1 - (1 - alpha) ** K;
     const plan = modelPlan(design);

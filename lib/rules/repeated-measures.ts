@@ -16,7 +16,7 @@
  */
 import { designEffect, effectiveSampleSize } from '@/lib/stats/design-effect';
 import { BATES_2015, DIGGLE_2002, KISH_1965 } from '@/lib/citations';
-import { accountsFor, designFacts, iccOf } from '@/lib/design/facts';
+import { accountsFor, comparedWithin, designFacts, iccOf } from '@/lib/design/facts';
 import { modelPlan } from './model';
 import { modelFor, outcomeName, range, treatmentName } from './phrases';
 import { cap, count, dec, noun, num, numbers } from './text';
@@ -43,7 +43,7 @@ export const repeatedMeasures: Rule = {
     const icc = iccOf(f, S.level.id)?.value;
     const rho = icc ?? design.assumptions.occasionCorrelation?.value;
     const between = !f.withinUnit && f.eu !== undefined && f.eu.index <= S.index;
-    const within = f.withinUnit && f.eu?.index === S.index;
+    const within = comparedWithin(f, S);
 
     let quant: string;
     let nums: Record<string, number>;
