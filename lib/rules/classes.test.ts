@@ -163,6 +163,18 @@ describe('3. an analysis per occasion, and a paired comparison', () => {
     expect(ids(unpaired)).toContain(id);
     expect(ids(paired)).not.toContain(id);
   });
+
+  it.each<[string, Design, boolean]>([
+    ['before and after in a parallel-group trial', variant(perVisitTests, (d) => { d.analysis.method = 'paired-t-test'; }), true],
+    ['one measurement per patient, nothing paired', variant(wizardNames, (d) => { d.analysis.method = 'paired-t-test'; }), true],
+    ['twin pairs, one twin per arm', twinsPaired, false],
+    ['matched pairs', matchedPaired, false],
+    ['both schedules within each volunteer', variant(sleep, (d) => { d.analysis.method = 'paired-t-test'; }), false],
+  ])('a paired t-test that does not compare the arms is flagged: %s', (_label, design, flagged) => {
+    const f = find(design, 'analysis-mismatch', 'paired-between');
+    expect(f !== undefined).toBe(flagged);
+    if (f) expect(f.severity).toBe('warning');
+  });
 });
 
 describe('4. every cross-over gets the cross-over finding', () => {

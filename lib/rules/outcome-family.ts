@@ -63,7 +63,7 @@ export const outcomeFamily: Rule = {
           (clustered.length > 0
             ? ` With the clustering in this design, use ${modelFor(modelPlan(design), clustered)}, or GEE with robust standard errors: mixed-model effects are specific to a ${noun(clustered[0]!.level)}, GEE effects are averaged over the population — choose the one that answers the question.`
             : ''),
-        todo: `Use ${modelFor(modelPlan(design), clustered)} (${fam.family} family, ${fam.link} link): \`${modelPlan(design).formula}\`, and report the effect on the scale of the link (${fam.link === 'logit' ? 'odds ratio' : 'rate ratio'}) together with absolute ${type === 'count' ? 'rates' : 'risks'}.`,
+        todo: `Use ${modelFor(modelPlan(design), clustered)}: \`${modelPlan(design).formula}\`, and report the effect on the scale of the link (${fam.link === 'logit' ? 'odds ratio' : 'rate ratio'}) together with absolute ${type === 'count' ? 'rates' : 'risks'}.`,
         model: modelPlan(design).formula,
         citations: [MCCULLAGH_NELDER_1989, BATES_2015, LIANG_ZEGER_1986, ...(type === 'proportion' || type === 'binary' ? [FLEISS_2003] : [])],
       },

@@ -75,8 +75,8 @@ const FAMILY_WORDS: Record<NonNullable<Analysis['glmFamily']>, string> = {
 export function modelKind(plan: ModelPlan): string {
   const fam = plan.family ? FAMILY_WORDS[plan.family] : undefined;
   const mixed = plan.method === 'mixed-model' || plan.method === 'glmm';
-  if (mixed) return fam ? `a ${fam} GLMM (generalised linear mixed model)` : 'a linear mixed model';
-  if (fam) return `a ${fam} regression (generalised linear model)`;
+  if (mixed) return fam ? `a ${fam} GLMM (generalised linear mixed model, ${plan.link} link)` : 'a linear mixed model';
+  if (fam) return `a ${fam} regression (generalised linear model, ${plan.link} link)`;
   return plan.method === 'ancova' ? 'ANCOVA (a linear regression with the baseline)' : 'a linear regression';
 }
 
@@ -89,7 +89,10 @@ export function modelKind(plan: ModelPlan): string {
 export function modelFor(plan: ModelPlan, levels: readonly LevelInfo[]): string {
   const random = levels.filter((l) => plan.randomLevels.includes(l)).map((l) => noun(l.level));
   const fixed = levels.filter((l) => plan.fixedLevels.includes(l)).map((l) => noun(l.level));
-  const parts = [random.length > 0 ? `a random intercept for ${list(random)}` : '', fixed.length > 0 ? `a fixed effect for ${list(fixed)}` : ''].filter(Boolean);
+  const parts = [
+    random.length > 0 ? `${random.length > 1 ? 'random intercepts' : 'a random intercept'} for ${list(random)}` : '',
+    fixed.length > 0 ? `${fixed.length > 1 ? 'fixed effects' : 'a fixed effect'} for ${list(fixed)}` : '',
+  ].filter(Boolean);
   return parts.length > 0 ? `a model with ${parts.join(' and ')}, here ${modelKind(plan)}` : modelKind(plan);
 }
 

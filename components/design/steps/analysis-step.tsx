@@ -7,11 +7,18 @@ import type { StepProps } from './types';
 
 export function AnalysisStep({ value, design, onValid, onDraft, disabled }: StepProps<'analysis'>) {
   const form = useStepForm(analysisSchema, value, onValid, onDraft);
-  const { register, formState, watch } = form;
+  const { register, formState, watch, setValue } = form;
   const e = formState.errors as Record<string, unknown>;
   const method = watch('method');
   const levels = design.structure.levels;
   const random = levels.filter((l) => l.kind !== 'replicate');
+  // Levels that can take a fixed effect: those that group units below them (not the bottom level).
+  const groupingLevels = levels.slice(0, -1).filter((l) => l.kind !== 'replicate');
+  const fixedLevels: string[] = watch('fixedEffectLevels') ?? [];
+  const toggleFixed = (id: string, on: boolean) =>
+    setValue('fixedEffectLevels', on ? [...fixedLevels.filter((x) => x !== id), id] : fixedLevels.filter((x) => x !== id), { shouldDirty: true, shouldValidate: true });
+  const blocking = design.assignment.blocking;
+  const modelMethod = method !== undefined && !['t-test', 'paired-t-test', 'per-occasion-tests', 'cluster-means', 'gee', 'other'].includes(method);
   return (
     <fieldset disabled={disabled} className="space-y-4">
       <legend className="sr-only">Analysis plan</legend>
@@ -56,6 +63,28 @@ export function AnalysisStep({ value, design, onValid, onDraft, disabled }: Step
             <input type="checkbox" {...register('randomSlopeForTime')} /> A random slope for time (units change at different rates)
           </label>
         </fieldset>
+      )}
+      {modelMethod && groupingLevels.length > 0 && (
+        <fieldset className="space-y-1">
+          <legend className="text-sm font-semibold">Fixed effects for</legend>
+          <p className="text-sm text-muted">A level with few units (fewer than about 6 sites, donors, litters or batches) as a fixed effect instead of a random intercept.</p>
+          {groupingLevels.map((l) => (
+            <label key={l.id} className="flex items-center gap-2 text-sm">
+              <input type="checkbox" checked={fixedLevels.includes(l.id)} onChange={(ev) => toggleFixed(l.id, ev.target.checked)} /> {l.name}
+            </label>
+          ))}
+        </fieldset>
+      )}
+      {blocking.kind !== 'none' && (
+        <SelectField
+          label={`The blocking factor${blocking.factor ? ` (${blocking.factor})` : ''} in the model`}
+          help="How the planned model carries the factor the randomisation was blocked, stratified or matched by."
+          {...register('blockEffect', asOptional)}
+        >
+          <option value="">Not in the model</option>
+          <option value="fixed">As a fixed effect</option>
+          <option value="random">As a random effect</option>
+        </SelectField>
       )}
       <div className="grid gap-3 sm:grid-cols-2">
         <SelectField label="Family (for a GLM or GLMM)" {...register('glmFamily', asOptional)}>
