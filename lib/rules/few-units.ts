@@ -159,7 +159,7 @@ function fewLevels(design: Design): Finding[] {
   const a = design.analysis;
   const treatment = treatmentName(design);
   const model = plan.formula;
-  const threshold = `Fewer than about ${FEW_LEVELS} units is too few for a random effect: a rule of thumb from common practice (${GOMES_2022.short} examines it).`;
+  const threshold = `Fewer than about ${FEW_LEVELS - 1}–${FEW_LEVELS} units is too few for a random effect: a rule of thumb from common practice (${GOMES_2022.short} examines it).`;
   const item = (key: string, name: string, plural: string, n: number, plannedRandom: boolean, levelIds: string[] | undefined): Finding => ({
     ruleId: ID,
     key,

@@ -29,7 +29,7 @@ import { designFacts, unitsPerArm } from '@/lib/design/facts';
 import { FEW_LEVELS } from './clustering';
 import { modelPlan } from './model';
 import { assignedVerb, outcomeName, treatmentName } from './phrases';
-import { cap, count, list, noun, num, pct } from './text';
+import { cap, count, identifier, list, noun, num, pct } from './text';
 import type { Citation, Finding, Recommendation, UnitOfAnalysis } from './types';
 
 const DF_WORDS: Record<Analysis['dfMethod'], string> = {
@@ -69,13 +69,14 @@ export function recommend(design: Design, findings: readonly Finding[]): Recomme
   }
   if (plan.blockTerm) adjustments.push(`Include ${plan.blockTerm} in the model, as the randomisation was ${design.assignment.blocking.kind} by it.`);
   if (plan.fixedLevels.length > 0 || plan.fixedCrossed.length > 0) {
-    const names = [...plan.fixedLevels.map((l) => `${noun(l.level)} (${count(l.total, l.level)})`), ...plan.fixedCrossed];
-    adjustments.push(`${cap(list(names))} as ${names.length > 1 ? 'fixed effects' : 'a fixed effect'}: too few units to estimate a variance between them (fewer than ${FEW_LEVELS}, common practice; ${GOMES_2022.short}), and ${treatmentName(design)} is compared within them.`);
+    const crossed = design.structure.crossedFactors.filter((c) => plan.fixedCrossed.includes(identifier(c.name, 'factor')));
+    const names = [...plan.fixedLevels.map((l) => `${noun(l.level)} (${count(l.total, l.level)})`), ...crossed.map((c) => `${c.name.toLowerCase()} (${num(c.count)})`)];
+    adjustments.push(`${cap(list(names))} as ${names.length > 1 ? 'fixed effects' : 'a fixed effect'}: too few units to estimate a variance between them (fewer than about ${FEW_LEVELS - 1}–${FEW_LEVELS}, common practice; ${GOMES_2022.short}), and ${treatmentName(design)} is compared within them.`);
     citations.push(GOMES_2022);
   }
   if (plan.perOccasion) {
     adjustments.push(
-      `One model for all ${f.followUps.length} follow-up occasions in place of a test at each: ${treatmentName(design)} × occasion, with the comparison that answers the question (the last occasion, or the average over occasions) fixed in the protocol as one contrast; other occasions as secondary estimates with confidence intervals.`,
+      `One model for all ${f.followUps.length} follow-up occasions in place of a test at each, with a treatment × occasion term; the comparison that answers the question (the last occasion, or the average over occasions) fixed in the protocol as one contrast, and the other occasions as secondary estimates with confidence intervals.`,
     );
     citations.push(DIGGLE_2002);
   }
@@ -149,7 +150,7 @@ export function recommend(design: Design, findings: readonly Finding[]): Recomme
     parts.push(`${independent} so a generalised linear model (${plan.family} family, ${plan.link} link) is enough.`);
     citations.push(MCCULLAGH_NELDER_1989);
   } else if (f.levels.length > 0) {
-    parts.push(`${independent} so ${plan.method === 'ancova' ? 'ANCOVA (a linear regression of the follow-up on the arms and the baseline)' : 'a linear regression (for two arms, the same test as a t-test)'} is enough.`);
+    parts.push(`${independent} so ${plan.method === 'ancova' ? 'ANCOVA (a linear regression of the follow-up on the arms and the baseline)' : fixedNames.length > 0 ? 'a linear regression' : 'a linear regression (for two arms, the same test as a t-test)'} is enough.`);
   }
   if (plan.method === 'glmm' && plan.family) citations.push(MCCULLAGH_NELDER_1989);
   if (plan.dfMethod === 'kenward-roger') {
