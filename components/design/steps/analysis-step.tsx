@@ -1,5 +1,6 @@
 'use client';
 
+import { useState } from 'react';
 import { SelectField, TextAreaField } from '@/components/ui/field';
 import { analysisSchema } from '@/lib/design/schema';
 import { asOptional, errorAt, useStepForm } from '../step-form';
@@ -15,6 +16,7 @@ export function AnalysisStep({ value, design, onValid, onDraft, disabled }: Step
   // Levels that can take a fixed effect: those that group units below them (not the bottom level).
   const groupingLevels = levels.slice(0, -1).filter((l) => l.kind !== 'replicate');
   const fixedLevels: string[] = watch('fixedEffectLevels') ?? [];
+  const [fixedOpenAtStart] = useState(fixedLevels.length > 0);
   const toggleFixed = (id: string, on: boolean) =>
     setValue('fixedEffectLevels', on ? [...fixedLevels.filter((x) => x !== id), id] : fixedLevels.filter((x) => x !== id), { shouldDirty: true, shouldValidate: true });
   const blocking = design.assignment.blocking;
@@ -65,15 +67,18 @@ export function AnalysisStep({ value, design, onValid, onDraft, disabled }: Step
         </fieldset>
       )}
       {modelMethod && groupingLevels.length > 0 && (
-        <fieldset className="space-y-1">
-          <legend className="text-sm font-semibold">Fixed effects for</legend>
-          <p className="text-sm text-muted">A level with few units (fewer than about 6 sites, donors, litters or batches) as a fixed effect instead of a random intercept.</p>
-          {groupingLevels.map((l) => (
-            <label key={l.id} className="flex items-center gap-2 text-sm">
-              <input type="checkbox" checked={fixedLevels.includes(l.id)} onChange={(ev) => toggleFixed(l.id, ev.target.checked)} /> {l.name}
-            </label>
-          ))}
-        </fieldset>
+        // Folded away unless used: an option for levels with few units, which most plans do not need.
+        <details open={fixedOpenAtStart} className="text-sm">
+          <summary className="cursor-pointer font-semibold">Levels with few units as fixed effects</summary>
+          <fieldset className="mt-2 space-y-1">
+            <legend className="text-muted">A level with few units (fewer than about 5–6 sites, donors, litters or batches) as a fixed effect instead of a random intercept.</legend>
+            {groupingLevels.map((l) => (
+              <label key={l.id} className="flex items-center gap-2">
+                <input type="checkbox" checked={fixedLevels.includes(l.id)} onChange={(ev) => toggleFixed(l.id, ev.target.checked)} /> {l.name}
+              </label>
+            ))}
+          </fieldset>
+        </details>
       )}
       {blocking.kind !== 'none' && (
         <SelectField
