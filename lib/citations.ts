@@ -74,3 +74,11 @@ export const HAYES_BENNETT_1999 = cite(
   'Hayes & Bennett (1999). Simple sample size calculation for cluster-randomized trials. Int J Epidemiol 28:319.',
 );
 export const ZHU_LAKKIS_2014 = cite('Zhu & Lakkis 2014', 'Zhu & Lakkis (2014). Sample size calculation for comparing two negative binomial rates. Stat Med 33:376.');
+
+// Appended for the check of levels with few units (lib/rules/few-units.ts). Title and article
+// number as the journal's page gives them (peerj.com/articles/12794); author, year and volume from
+// memory: verify before export.
+export const GOMES_2022 = cite(
+  'Gomes 2022',
+  'Gomes (2022). Should I use fixed effects or random effects when I have fewer than five levels of a grouping factor in a mixed-effects model? PeerJ 10:e12794.',
+);

@@ -345,6 +345,28 @@ export function sizeCv(f: DesignFacts, from: number, to: number): number {
 }
 
 const MIXED: ReadonlySet<Analysis['method']> = new Set(['mixed-model', 'glmm']);
+const MODELS: ReadonlySet<Analysis['method']> = new Set(['mixed-model', 'glmm', 'glm', 'linear-regression', 'ancova', 'robust-regression']);
+
+/**
+ * Is the treatment compared within the units of level L? Yes for a level above the experimental
+ * unit (sites, litters, donors, blocks whose units are split between the arms), and for the
+ * experimental unit itself when every unit receives more than one arm (cross-over, nights of one
+ * volunteer under both schedules). Then differences between L's units drop out of the comparison:
+ * no design effect applies to L, and a higher correlation within L helps rather than hurts.
+ */
+export function comparedWithin(f: DesignFacts, L: LevelInfo): boolean {
+  if (!f.eu) return false;
+  return L.index < f.eu.index || (L === f.eu && f.withinUnit);
+}
+
+/**
+ * The level whose units a paired comparison pairs: the experimental unit when it receives every
+ * arm, else a grouping level of pairs (twins), else the unit measured over time (before and after).
+ */
+export function pairingLevel(f: DesignFacts): LevelInfo | undefined {
+  if (f.eu && f.withinUnit) return f.eu;
+  return f.levels.find((l) => l.level.kind === 'grouping' && l.level.groupingType === 'pair' && l.groupsObservations) ?? f.subject;
+}
 
 /**
  * Does the planned analysis account for the dependence that level L creates? Yes when
@@ -354,11 +376,22 @@ const MIXED: ReadonlySet<Analysis['method']> = new Set(['mixed-model', 'glmm']);
  *   correlation inside a cluster);
  * - the method analyses cluster means and the unit of analysis is L or a level above it (a
  *   cluster-means analysis with no unit stated is taken to average within experimental units);
- * - the unit of analysis is L or a level above L (observations below are averaged first).
+ * - the unit of analysis is L or a level above L (observations below are averaged first);
+ * - a model (linear, generalised or mixed) has a fixed effect for L and the treatment is compared
+ *   within L's units (`comparedWithin`): the fixed effect absorbs the differences between them;
+ * - a paired t-test pairs within L's units or within units of a level above L, or pairs within
+ *   units of a level the treatment is compared within (the differences remove L).
+ * Tests per occasion account for nothing: they leave out the correlation between occasions of a
+ * unit (rule `per-occasion`) and any clustering.
  */
 export function accountsFor(f: DesignFacts, L: LevelInfo): boolean {
   const a = f.design.analysis;
   if (MIXED.has(a.method) && a.randomIntercepts.includes(L.level.id)) return true;
+  if (MODELS.has(a.method) && (a.fixedEffectLevels ?? []).includes(L.level.id) && comparedWithin(f, L)) return true;
+  if (a.method === 'paired-t-test') {
+    const P = pairingLevel(f);
+    if (P && (L.index >= P.index || comparedWithin(f, P) || (f.eu !== undefined && P.index < f.eu.index))) return true;
+  }
   const robust = a.method === 'gee' || a.standardErrors === 'cluster-robust' || a.standardErrors === 'cr2';
   if (robust && f.eu && L.index >= f.eu.index) return true;
   const unitIndex = f.unitOfAnalysis?.index ?? (a.method === 'cluster-means' ? f.eu?.index : undefined);

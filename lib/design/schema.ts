@@ -238,6 +238,8 @@ export const ANALYSIS_METHODS = [
   'glm',
   'glmm',
   'robust-regression',
+  'paired-t-test',
+  'per-occasion-tests',
   'other',
 ] as const;
 
@@ -245,6 +247,13 @@ export const analysisSchema = z.object({
   method: z.enum(ANALYSIS_METHODS).optional(),
   /** For mixed models: levels with a random intercept. */
   randomIntercepts: z.array(idSchema).max(MAX_LEVELS).default([]),
+  /**
+   * Levels entered as fixed effects (a term with one coefficient per unit), e.g. the few sites,
+   * donors or litters that cannot support a variance estimate. Absent: none.
+   */
+  fixedEffectLevels: z.array(idSchema).max(MAX_LEVELS).optional(),
+  /** How the model carries the blocking (stratification, matching) factor: as a fixed or a random term. Absent: not in the model. */
+  blockEffect: z.enum(['fixed', 'random']).optional(),
   randomSlopeForTime: z.boolean().default(false),
   /** The level whose units the analysis counts as n. */
   unitOfAnalysisLevelId: idSchema.optional(),
@@ -298,6 +307,7 @@ export const designSchema = z
       [d.assignment.levelId, ['assignment', 'levelId']],
       [d.analysis.unitOfAnalysisLevelId, ['analysis', 'unitOfAnalysisLevelId']],
       ...d.analysis.randomIntercepts.map((id, i) => [id, ['analysis', 'randomIntercepts', i]] as [string, (string | number)[]]),
+      ...(d.analysis.fixedEffectLevels ?? []).map((id, i) => [id, ['analysis', 'fixedEffectLevels', i]] as [string, (string | number)[]]),
       ...d.assumptions.iccs.map((c, i) => [c.levelId, ['assumptions', 'iccs', i, 'levelId']] as [string, (string | number)[]]),
       ...d.structure.crossedFactors.map((c, i) => [c.crossedWithLevelId, ['structure', 'crossedFactors', i, 'crossedWithLevelId']] as [string, (string | number)[]]),
     ];

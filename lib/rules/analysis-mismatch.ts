@@ -18,14 +18,18 @@
  * - `above-unit` (warning): the unit of analysis lies above the experimental unit while the
  *   treatment varies between units, so its means average over both arms.
  * - `two-groups` (warning): a t-test with three or more arms, or a continuous exposure.
+ * - `paired-between` (warning): a paired t-test where the arms do not differ within the pairs
+ *   (before-and-after measurements of units randomised between arms), or where nothing pairs the
+ *   observations: it tests the change within units, not the arms (Frison & Pocock 1992 for the
+ *   analysis that does, ANCOVA).
  * The unit-of-analysis error for cluster-assigned treatments is rule `unit-of-analysis`; it is
  * not repeated here.
  */
 import type { Analysis, Design } from '@/lib/design/schema';
-import { BATES_2015, DIGGLE_2002, DONNER_KLAR_2000, GELMAN_HILL_2007, HOLM_1979, MCCULLAGH_NELDER_1989, SENN_2002 } from '@/lib/citations';
-import { accountsFor, designFacts, iccOf } from '@/lib/design/facts';
+import { BATES_2015, DIGGLE_2002, DONNER_KLAR_2000, FRISON_POCOCK_1992, GELMAN_HILL_2007, HOLM_1979, MCCULLAGH_NELDER_1989, SENN_2002 } from '@/lib/citations';
+import { accountsFor, comparedWithin, designFacts, iccOf, pairingLevel } from '@/lib/design/facts';
 import { familyFor, modelPlan } from './model';
-import { methodName, outcomeName, plannedMethod, treatmentName } from './phrases';
+import { methodName, modelFor, outcomeName, plannedMethod, treatmentName } from './phrases';
 import { ASK_STATISTICIAN, cap, count, dec, noun, num, numbers } from './text';
 import type { Finding, Rule } from './types';
 
@@ -77,7 +81,7 @@ export const analysisMismatch: Rule = {
           `Measurements of the same ${noun(E.level)} are correlated${icc !== undefined ? ` (ICC ${dec(icc, 3)})` : ''}. An analysis that ignores this gets the error wrong in two ways at once: ` +
           `it counts differences between ${noun(E.level, true)}, which a within-${noun(E.level)} comparison removes, as noise (wasting the design's main advantage), and it treats consecutive measurements under the same arm as independent, which overstates the information in them. ` +
           `Its standard error, its degrees of freedom (${num(naiveDf)} in place of about ${num(designDf)} from ${count(E.total, E.level)}) and its p-value do not describe this design.`,
-        todo: `Analyse within ${noun(E.level, true)}: a mixed model with a random intercept for ${noun(E.level)}${f.crossover ? ' and period as a fixed effect' : ''}, \`${model}\`, counting the ${count(E.total, E.level)} as n. ${ASK_STATISTICIAN}`,
+        todo: `Analyse within ${noun(E.level, true)}: ${modelFor(modelPlan(design), [E])}${f.crossover ? ', with period as a fixed effect' : ''}, \`${model}\`, counting the ${count(E.total, E.level)} as n. ${ASK_STATISTICIAN}`,
         model,
         numbers: numbers({ observations: f.totalObs, experimentalUnits: E.total, naiveDf, designDf, icc }),
         citations: [SENN_2002, DIGGLE_2002, BATES_2015],
@@ -173,6 +177,28 @@ export const analysisMismatch: Rule = {
         todo: `Use a regression model with ${arms >= 3 ? 'the arms as a factor and pre-specified contrasts' : 'the variable as a continuous predictor'}: \`${model}\` (${methodName(modelPlan(design).method)}).`,
         model,
         citations: arms >= 3 ? [GELMAN_HILL_2007, HOLM_1979] : [GELMAN_HILL_2007],
+      });
+    }
+
+    // A paired t-test pairs within units; the arms must differ within each pair for it to compare them.
+    const P = pairingLevel(f);
+    const pairedBlocks = design.assignment.blocking.kind === 'paired' || design.assignment.blocking.kind === 'matched';
+    if (a.method === 'paired-t-test' && E && !pairedBlocks && (!P || (!comparedWithin(f, P) && P.index >= E.index))) {
+      out.push({
+        ruleId: ID,
+        key: 'paired-between',
+        severity: 'warning',
+        title: 'A paired t-test does not compare these arms',
+        found: P
+          ? `The plan pairs the measurements of each ${noun(P.level)}, but ${treatmentName(design)} is compared between ${noun(E.level, true)}: each ${noun(P.level)} is in one arm only.`
+          : `The plan uses a paired t-test, but nothing in the design pairs the observations: no unit receives both arms, and there are no pairs or repeated measurements.`,
+        why: P
+          ? `A paired t-test tests whether the mean difference within ${noun(P.level, true)} (for example, from before to after) is zero, over both arms together; it does not compare the arms. The comparison of arms is between ${noun(E.level, true)}.`
+          : 'A paired t-test needs two measurements that belong together (one under each arm, or before and after); without them it has no pairs to take differences of.',
+        todo: `Compare the arms between ${noun(E.level, true)}${f.baselines.length > 0 ? ', adjusting for the baseline (ANCOVA)' : ''}: \`${model}\`.`,
+        model,
+        citations: [FRISON_POCOCK_1992],
+        levelIds: [E.level.id],
       });
     }
     return out;

@@ -4,7 +4,7 @@
  * the number of clusters below which small-sample corrections matter.
  */
 import type { Level } from '@/lib/design/schema';
-import { sizeCv, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
+import { comparedWithin, sizeCv, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
 import { designEffect, multilevelDesignEffect } from '@/lib/stats/design-effect';
 
 /**
@@ -71,3 +71,22 @@ export function clusteringEffect(f: DesignFacts, top: number, unit: number, iccs
 
 /** Common-practice limit below which small-sample corrections matter for clustered data (about 40–50 clusters). */
 export const FEW_CLUSTERS = 40;
+
+/**
+ * Below this many units a level cannot support an estimate of its variance: a random intercept
+ * for 5 or fewer sites, donors, litters or batches rests on at most 4 degrees of freedom and is
+ * often estimated as exactly 0. The rule of thumb ("at least five or six levels for a random
+ * effect") is common practice; Gomes (2022) examines it by simulation.
+ */
+export const FEW_LEVELS = 6;
+
+/**
+ * The levels the model should carry as fixed effects rather than random intercepts: levels that
+ * would get a random intercept (`randomLevels`), hold fewer than `FEW_LEVELS` units, and within
+ * which the treatment is compared (`comparedWithin`), so that a fixed effect for them leaves the
+ * comparison intact. (A level of assignment with few units cannot take a fixed effect: it would
+ * absorb the treatment; rule `few-units` says what to do there.)
+ */
+export function fixedEffectLevels(f: DesignFacts, candidates: readonly LevelInfo[]): LevelInfo[] {
+  return candidates.filter((l) => l.total < FEW_LEVELS && comparedWithin(f, l));
+}

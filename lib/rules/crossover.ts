@@ -2,18 +2,21 @@
  * Cross-over designs: every unit receives the arms in sequence, so period effects and carry-over
  * from one period into the next threaten the within-unit comparison.
  *
- * Triggers (cross-over enabled):
- * - `carry-over` (warning): carry-over marked possible, or no washout described (or one that
- *   reads as none). A 2-period cross-over cannot separate carry-over from the treatment × period
- *   interaction and from sequence-group differences; the preliminary carry-over test has low
- *   power and choosing the analysis by its result distorts the false-positive rate, so the remedy
- *   is a washout (or a run-in discarded from the analysis), not a test (Senn 2002).
+ * Triggers (cross-over enabled; both findings always, as every cross-over faces them):
+ * - `carry-over`: whether the washout is long enough for this outcome and treatment. Warning when
+ *   carry-over is marked possible or no washout is described (or one that reads as none); advice
+ *   when a washout is described, which then asks for its justification. A described washout
+ *   changes the wording, not whether it is said. A 2-period cross-over cannot separate carry-over
+ *   from the treatment × period interaction and from sequence-group differences; the preliminary
+ *   carry-over test has low power and choosing the analysis by its result distorts the
+ *   false-positive rate, so the remedy is a washout (or a run-in discarded from the analysis),
+ *   not a test (Senn 2002).
  * - `period` (advice): include period as a fixed effect and balance the sequences (Senn 2002).
  */
 import { SENN_2002 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
-import { treatmentName } from './phrases';
+import { outcomeName, treatmentName } from './phrases';
 import { cap, count, list, noun, num, numbers } from './text';
 import type { Finding, Rule } from './types';
 
@@ -43,22 +46,25 @@ export const crossover: Rule = {
 
     const washout = c.washout?.trim();
     const noWashout = !washout || saysNone(washout);
-    if (c.carryoverPossible === true || noWashout) {
+    {
+      const serious = c.carryoverPossible === true || noWashout;
       out.push({
         ruleId: ID,
         key: 'carry-over',
-        severity: 'warning',
-        title: noWashout ? 'Cross-over without a washout' : 'Carry-over possible between periods',
+        severity: serious ? 'warning' : 'advice',
+        title: noWashout ? 'Cross-over without a washout' : c.carryoverPossible === true ? 'Carry-over possible between periods' : 'Is the washout long enough?',
         found:
           `Each ${who} receives ${armsText} over ${num(c.periods)} periods` +
           (washout ? `; the washout is described as "${washout}"` : '; no washout is described') +
           (c.carryoverPossible === true ? ', and carry-over is marked as possible.' : '.'),
         why:
           `If the effect of the first period's arm lasts into the next, the within-${who} comparison of ${treatmentName(design)} is biased. ` +
-          `${c.periods === 2 ? 'In a two-period cross-over, carry-over cannot be separated from the treatment × period interaction or from differences between the sequence groups. ' : ''}` +
+          `${c.periods === 2 ? 'In a two-period cross-over, carry-over cannot be tested away: it cannot be separated from the treatment × period interaction or from differences between the sequence groups. ' : ''}` +
           `A preliminary test for carry-over has little power, and choosing the analysis by its result distorts the false-positive rate (${SENN_2002.short}): the protection lies in the design, not in a test.`,
         todo:
-          `Plan a washout long enough for the effect to wear off and justify its length from what is known about ${treatmentName(design)}; if a gap is not possible, treat the first measurements of each period as a run-in and leave them out of the primary analysis. ` +
+          (noWashout
+            ? `Plan a washout long enough for the effect to wear off and justify its length from what is known about ${treatmentName(design)} and ${outcomeName(design)}; if a gap is not possible, treat the first measurements of each period as a run-in and leave them out of the primary analysis. `
+            : `Justify in the protocol that the washout ("${washout}") outlasts the effect of ${treatmentName(design)} on ${outcomeName(design)} (its duration of action, or how long ${outcomeName(design)} takes to return to its usual level), citing the evidence; if in doubt, lengthen it or leave the first measurements of each period out of the primary analysis as a run-in. `) +
           `Do not rely on a test for carry-over to choose the analysis.`,
         numbers: numbers({ periods: c.periods }),
         citations: [SENN_2002],

@@ -17,14 +17,24 @@
  *   freedom: use Satterthwaite (1946) or Kenward–Roger (1997) df; a GLMM uses between-within df
  *   (units minus the parameters estimated between units). The cut-off of about 40 is common
  *   practice (`FEW_CLUSTERS`).
+ * - `level-<id>` / `crossed-<id>`: a level that would carry a random intercept (sites, donors,
+ *   litters, batches, blocks above the experimental unit, or the unit itself when it receives
+ *   every arm) or a crossed factor has fewer than `FEW_LEVELS` (6) units: its variance rests on at
+ *   most units − 1 degrees of freedom. The treatment is compared within it, so a fixed effect does
+ *   the same job without a variance; the recommended model carries it as one (model.ts). Warning
+ *   when the plan gives it a random intercept, advice otherwise. Common practice (Gomes 2022
+ *   examines the rule of thumb).
  * Quantified: units per arm, the degrees of freedom between units (units − arms) against the
- * residual df of an analysis of every observation (N − arms).
+ * residual df of an analysis of every observation (N − arms); for a level with few units, the
+ * degrees of freedom of its variance (units − 1).
  */
-import { BELL_MCCAFFREY_2002, DONNER_KLAR_2000, HAYES_MOULTON_2017, KENWARD_ROGER_1997, narrative, PUSTEJOVSKY_TIPTON_2018, RAUDENBUSH_1997, SATTERTHWAITE_1946 } from '@/lib/citations';
+import { BELL_MCCAFFREY_2002, DONNER_KLAR_2000, GOMES_2022, HAYES_MOULTON_2017, KENWARD_ROGER_1997, narrative, PUSTEJOVSKY_TIPTON_2018, RAUDENBUSH_1997, SATTERTHWAITE_1946 } from '@/lib/citations';
 import { designFacts, unitsPerArm } from '@/lib/design/facts';
-import { FEW_CLUSTERS } from './clustering';
-import { assignedVerb, treatmentName, unitsWithArms } from './phrases';
-import { ASK_STATISTICIAN, cap, count, noun, num, numbers } from './text';
+import type { Design } from '@/lib/design/schema';
+import { FEW_CLUSTERS, FEW_LEVELS } from './clustering';
+import { modelPlan } from './model';
+import { assignedVerb, modelKind, treatmentName, unitsWithArms } from './phrases';
+import { ASK_STATISTICIAN, cap, count, noun, num, numbers, pluralWord } from './text';
 import type { Finding, Rule } from './types';
 
 const ID = 'few-units';
@@ -137,6 +147,45 @@ export const fewUnits: Rule = {
         levelIds: [E.level.id],
       });
     }
+    out.push(...fewLevels(design));
     return out;
   },
 };
+
+/** Levels and crossed factors with too few units for a variance (see the header). */
+function fewLevels(design: Design): Finding[] {
+  const f = designFacts(design);
+  const plan = modelPlan(design);
+  const a = design.analysis;
+  const treatment = treatmentName(design);
+  const model = plan.formula;
+  const threshold = `Fewer than about ${FEW_LEVELS - 1}–${FEW_LEVELS} units is too few for a random effect: a rule of thumb from common practice (${GOMES_2022.short} examines it).`;
+  const item = (key: string, name: string, plural: string, n: number, plannedRandom: boolean, levelIds: string[] | undefined): Finding => ({
+    ruleId: ID,
+    key,
+    severity: plannedRandom ? 'warning' : 'advice',
+    title: `Only ${num(n)} ${n === 1 ? name : plural}: too few for a random effect`,
+    found: `The study has ${num(n)} ${n === 1 ? name : plural}, and ${treatment} is compared within them${plannedRandom ? '; the planned model gives them a random intercept' : ''}.`,
+    why:
+      `A random intercept for ${name} estimates the variance between ${plural} from ${num(n)} values: ${num(Math.max(0, n - 1))} degrees of freedom at most (the ${num(n)} means less their overall mean). ` +
+      `So few values give a very imprecise variance that often comes out as exactly 0 (a "singular" fit). ${threshold} ` +
+      `Because ${treatment} is compared within ${plural}, a fixed effect for ${name} removes the differences between them just as well, at the cost of ${num(Math.max(0, n - 1))} degrees of freedom, and needs no variance.`,
+    todo:
+      `Enter ${name} as a fixed effect rather than a random intercept, here in ${modelKind(plan)}: \`${model}\`. ` +
+      `Conclusions then hold for these ${num(n)} ${plural}; to generalise to others, more ${plural} are needed. ${ASK_STATISTICIAN}`,
+    model,
+    numbers: numbers({ units: n, varianceDf: Math.max(0, n - 1), threshold: FEW_LEVELS }),
+    citations: [GOMES_2022],
+    ...(levelIds ? { levelIds } : {}),
+  });
+  const mixedPlan = a.method === 'mixed-model' || a.method === 'glmm';
+  const out = plan.fixedLevels.map((L) =>
+    item(`level-${L.level.id}`, noun(L.level), noun(L.level, true), L.total, mixedPlan && a.randomIntercepts.includes(L.level.id), [L.level.id]),
+  );
+  for (const c of design.structure.crossedFactors) {
+    if (c.count >= FEW_LEVELS) continue;
+    const name = c.name.trim().toLowerCase();
+    out.push(item(`crossed-${c.id}`, name, pluralWord(name), c.count, false, undefined));
+  }
+  return out;
+}

@@ -14,7 +14,7 @@
  */
 import type { Analysis, Design } from '@/lib/design/schema';
 import { designFacts, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
-import { FEW_CLUSTERS } from './clustering';
+import { FEW_CLUSTERS, FEW_LEVELS, fixedEffectLevels } from './clustering';
 import { identifier } from './text';
 
 export interface ModelPlan {
@@ -27,12 +27,20 @@ export interface ModelPlan {
   fixed: string[];
   /** Levels with a random intercept, top first. */
   randomLevels: LevelInfo[];
+  /** Levels with too few units for a variance, entered as fixed effects (`fixedEffectLevels`), top first. */
+  fixedLevels: LevelInfo[];
+  /** Crossed factors with too few levels for a variance, entered as fixed effects (their model names). */
+  fixedCrossed: string[];
   slopeLevel?: LevelInfo;
   timeModel: Analysis['timeModel'];
   covarianceStructure: Analysis['covarianceStructure'];
   dfMethod: Analysis['dfMethod'];
   baselineTerm?: string;
   blockTerm?: string;
+  /** How the model carries the blocking factor (a term of its own, or a level of the structure). */
+  blockEffect?: 'fixed' | 'random';
+  /** The plan tests each occasion separately; the model replaces them with one time × treatment model. */
+  perOccasion: boolean;
   formula: string;
 }
 
@@ -67,18 +75,32 @@ export function familyFor(design: Design): { family: NonNullable<Analysis['glmFa
   }
 }
 
+type Variable = Design['outcome']['explanatoryVariables'][number];
+
+/** The ids the wizard makes up for a variable the user adds ('var-1', 'var-2-2'): not a name anyone chose. */
+const GENERATED_ID = /^var(-\d+)+$/;
+
+/**
+ * A variable as a model term: its id where someone chose it ('baseline-score' → baseline_score),
+ * the user's name for it where the wizard made the id up ('var-1' named "Soil moisture" →
+ * soil_moisture), the made-up id only when the name gives no identifier.
+ */
+export function variableTerm(v: Variable, fallback: string): string {
+  return GENERATED_ID.test(v.id) ? identifier(v.name, identifier(v.id, fallback)) : identifier(v.id, fallback);
+}
+
 /** The treatment (or exposure) as a model term. */
 export function treatmentTerm(design: Design): string {
   const vars = design.outcome.explanatoryVariables;
   const v = vars.find((x) => x.role === 'treatment') ?? vars.find((x) => x.role === 'exposure');
-  if (v) return identifier(v.id, 'arm');
+  if (v) return variableTerm(v, 'arm');
   return identifier(design.assignment.variableName, 'arm');
 }
 
 function baselineTerm(design: Design, response: string): string | undefined {
   const vars = design.outcome.explanatoryVariables;
   const named = vars.find((x) => x.role === 'covariate' && /baseline|pre-?test/i.test(`${x.id} ${x.name}`));
-  return named ? identifier(named.id, `${response}_baseline`) : `${response}_baseline`;
+  return named ? variableTerm(named, `${response}_baseline`) : `${response}_baseline`;
 }
 
 /** The levels that must get a random intercept: those that group observations, plus the measured unit when occasions repeat it implicitly. */
@@ -86,8 +108,20 @@ export function randomLevels(f: DesignFacts): LevelInfo[] {
   return f.levels.filter((l) => l.groupsObservations || (f.implicitRepeats && l === f.bottom));
 }
 
-function randomPart(levels: LevelInfo[], slope: LevelInfo | undefined, crossed: string[]): string[] {
-  const ids = levels.map((l) => identifier(l.level.name, 'unit'));
+/** The model name of a level: 'Care home' → 'care_home'. */
+export function levelTerm(l: LevelInfo): string {
+  return identifier(l.level.name, 'unit');
+}
+
+/**
+ * The random terms: one nested chain for the random levels (`a/b`, with a random slope where asked),
+ * under the fixed levels above them (`site:classroom`, as a classroom is only identified within
+ * its site), and a crossed intercept for each crossed factor.
+ */
+function randomPart(levels: LevelInfo[], fixedAbove: LevelInfo[], slope: LevelInfo | undefined, crossed: string[]): string[] {
+  const ids = levels.map(levelTerm);
+  const prefix = fixedAbove.filter((l) => levels[0] !== undefined && l.index < levels[0].index).map(levelTerm);
+  if (ids.length > 0 && prefix.length > 0) ids[0] = [...prefix, ids[0]].join(':');
   const terms: string[] = [];
   const j = slope ? levels.indexOf(slope) : -1;
   if (j < 0) {
@@ -120,33 +154,48 @@ function buildPlan(f: DesignFacts): ModelPlan {
     timeModel = occasions >= 4 ? 'spline' : 'linear';
     treatmentPart = `${treatment} * ${timeModel === 'spline' ? 'ns(time, df = 3)' : 'time'}`;
   }
-  const fixed = [treatmentPart];
+  const perOccasion = d.analysis.method === 'per-occasion-tests' && repeatedOverTime && !trajectory;
+  const fixed = [perOccasion ? `${treatment} * occasion` : treatmentPart];
   if (repeatedOverTime && !trajectory) {
-    fixed.push('occasion');
+    if (!perOccasion) fixed.push('occasion');
     timeModel = 'categorical';
   }
   if (crossover) fixed.push('period');
   const base = hasBaseline ? baselineTerm(d, outcome) : undefined;
   if (base) fixed.push(base);
 
-  const covariates = d.outcome.explanatoryVariables.filter((v) => v.role !== 'treatment' && identifier(v.id, '') !== treatment && identifier(v.id, '') !== base);
-  for (const v of covariates) if (v.role === 'covariate' || v.role === 'exposure') fixed.push(identifier(v.id, 'x'));
+  const covariates = d.outcome.explanatoryVariables.filter((v) => v.role !== 'treatment' && variableTerm(v, '') !== treatment && variableTerm(v, '') !== base);
+  for (const v of covariates) if (v.role === 'covariate' || v.role === 'exposure') fixed.push(variableTerm(v, 'x'));
+
+  // Levels with too few units for a variance become fixed effects (rule few-units says why).
+  const grouping = randomLevels(f);
+  const fixedLevels = fixedEffectLevels(f, grouping);
+  const levels = grouping.filter((l) => !fixedLevels.includes(l));
+  for (const l of fixedLevels) fixed.push(levelTerm(l));
+  const crossed: string[] = [];
+  const fixedCrossed: string[] = [];
+  for (const c of d.structure.crossedFactors) (c.count < FEW_LEVELS ? fixedCrossed : crossed).push(identifier(c.name, 'factor'));
+  fixed.push(...fixedCrossed);
 
   const blocking = d.assignment.blocking;
-  const blockName = blocking.kind !== 'none' && blocking.factor ? identifier(blocking.factor, 'block') : undefined;
-  const levels = randomLevels(f);
-  const levelIds = new Set(levels.map((l) => identifier(l.level.name, 'unit')));
-  const crossed = d.structure.crossedFactors.map((c) => identifier(c.name, 'factor'));
+  const paired = blocking.kind === 'matched' || blocking.kind === 'paired';
+  // An unnamed blocking factor is still in the model, as `block` (or `pair`).
+  const blockName = blocking.kind !== 'none' ? identifier(blocking.factor, paired ? 'pair' : 'block') : undefined;
   let blockTerm: string | undefined;
-  if (blockName && !levelIds.has(blockName)) {
-    if (blocking.kind === 'matched' || blocking.kind === 'paired') crossed.push(blockName);
-    else fixed.push(blockName);
-    blockTerm = blockName;
+  let blockEffect: ModelPlan['blockEffect'];
+  if (blockName) {
+    if (fixedLevels.some((l) => levelTerm(l) === blockName)) blockEffect = 'fixed';
+    else if (levels.some((l) => levelTerm(l) === blockName)) blockEffect = 'random';
+    else {
+      blockEffect = paired ? 'random' : 'fixed';
+      (blockEffect === 'random' ? crossed : fixed).push(blockName);
+      blockTerm = blockName;
+    }
   }
   if (d.outcome.type === 'count') fixed.push(COUNT_OFFSET);
 
   const slopeLevel = trajectory && occasions >= 3 && f.subject && levels.includes(f.subject) ? f.subject : undefined;
-  const random = randomPart(levels, slopeLevel, crossed);
+  const random = randomPart(levels, fixedLevels, slopeLevel, crossed);
 
   const mixed = random.length > 0;
   const method: ModelPlan['method'] = mixed ? (fam ? 'glmm' : 'mixed-model') : fam ? 'glm' : base ? 'ancova' : 'linear-regression';
@@ -168,12 +217,16 @@ function buildPlan(f: DesignFacts): ModelPlan {
     treatment,
     fixed,
     randomLevels: levels,
+    fixedLevels,
+    fixedCrossed,
     slopeLevel,
     timeModel,
     covarianceStructure,
     dfMethod,
     baselineTerm: base,
     blockTerm,
+    ...(blockEffect ? { blockEffect } : {}),
+    perOccasion,
     formula,
   };
 }

@@ -9,14 +9,17 @@
  * Quantified: the design effect of comparing units of this level, 1 + ((cv² + 1)·m − 1)·ρ
  * (Kish 1965; Eldridge, Ashby & Kerry 2006 for unequal sizes), with the ICCs of nested levels
  * below included (1 + Σ(mₖ − 1)ρₖ), and the effective number of independent observations N/DE.
- * Without an ICC, over a plausible range (`plausibleIccRange`), said to be a range.
+ * Without an ICC, over a plausible range (`plausibleIccRange`), said to be a range. No design
+ * effect for a level the treatment is compared within (`comparedWithin`: above the experimental
+ * unit, or the unit itself in a cross-over): there the ICC is the share of variance a term for
+ * the level removes, and a higher one helps.
  */
 import { effectiveSampleSize } from '@/lib/stats/design-effect';
 import { DONNER_KLAR_2000, ELDRIDGE_2006, HAYES_MOULTON_2017, KISH_1965 } from '@/lib/citations';
-import { accountsFor, designFacts, givenIccs, iccOf, sizeCv, type LevelInfo } from '@/lib/design/facts';
+import { accountsFor, comparedWithin, designFacts, givenIccs, iccOf, sizeCv, type LevelInfo } from '@/lib/design/facts';
 import { clusteringEffect, plausibleIccRange } from './clustering';
 import { modelPlan } from './model';
-import { range } from './phrases';
+import { range, treatmentName } from './phrases';
 import { cap, count, dec, list, noun, num, numbers, pct } from './text';
 import type { Finding, Rule } from './types';
 
@@ -45,8 +48,15 @@ export const nestedClusters: Rule = {
         `${cv > 0 ? ' on average' : ''}${B !== child ? ` (${num(f.totalObs)} ${obs} in all)` : ` (${num(f.totalObs)} in all)`}.`;
       let quant: string;
       let nums: Record<string, number>;
+      const within = comparedWithin(f, L);
       const deText = (de: number) => `the ${num(f.totalObs)} ${obs} carry about as much information as ${num(Math.round(effectiveSampleSize(f.totalObs, de)))} independent ones`;
-      if (icc) {
+      if (within) {
+        // The treatment is compared within these units: no design effect applies to the comparison.
+        quant = icc
+          ? `The ICC for ${noun(L.level, true)} is ${dec(icc.value, 3)}: ${pct(icc.value)} of the variance in the outcome lies between ${noun(L.level, true)}. No design effect applies to the comparison of ${treatmentName(design)}: a term for ${noun(L.level)} in the model removes that share from the residual variance (leaving ${dec(1 - icc.value, 3)} of it), so a higher ICC here adds precision rather than costing it.`
+          : `No ICC is given for ${noun(L.level, true)}; the number of units needed does not hang on it, as no design effect applies to the comparison of ${treatmentName(design)}.`;
+        nums = numbers({ clusters: L.total, perCluster: L.obsPerUnit, icc: icc?.value, residualVarianceFactor: icc ? 1 - icc.value : undefined });
+      } else if (icc) {
         const e = clusteringEffect(f, L.index, B.index, givenIccs(f));
         const lowerIccs = list(f.levels.slice(L.index + 1, B.index).filter((l) => iccOf(f, l.level.id)).map((l) => noun(l.level, true)));
         if (e) {
@@ -71,13 +81,21 @@ export const nestedClusters: Rule = {
       }
       const why =
         `${cap(noun(child.level, true))} in the same ${noun(L.level)} share its conditions and are more alike than ${noun(child.level, true)} in different ${noun(L.level, true)}, so their outcomes are correlated. ${quant} ` +
-        (role === 'above'
-          ? `${cap(noun(L.level, true))} are above the level of assignment: the treatment is compared within them, so differences between ${noun(L.level, true)} do not bias the comparison, but left out of the model they add to the residual variance and cost power.`
+        (within
+          ? `${cap(noun(L.level, true))} ${role === 'above' ? 'are above the level of assignment' : 'each receive every arm'}: the treatment is compared within them, so differences between ${noun(L.level, true)} do not bias the comparison, but left out of the model they add to the residual variance and cost power.`
           : 'Any analysis that treats them as independent overstates the precision of the comparison, and the sample size must be planned for the design effect.');
-      const model = modelPlan(design).formula;
+      const plan = modelPlan(design);
+      const model = plan.formula;
+      const fixedHere = plan.fixedLevels.includes(L);
+      const term = fixedHere ? `a fixed effect, as there are too few ${noun(L.level, true)} for a random intercept:` : 'a random intercept';
+      const plannedFixed = (design.analysis.fixedEffectLevels ?? []).includes(L.level.id);
       const todo = handled
-        ? `The plan accounts for this. Keep it, and base the sample size on the design effect (Plan tab).`
-        : `Give ${noun(L.level)} a random intercept (\`${model}\`)${role === 'above' ? ` or, with few ${noun(L.level, true)}, a fixed effect for ${noun(L.level)}` : ''}, and base the sample size on the design effect.`;
+        ? fixedHere && !plannedFixed
+          ? `The plan accounts for this with a random intercept; with only ${count(L.total, L.level)}, give ${noun(L.level)} a fixed effect instead (\`${model}\`).`
+          : `The plan accounts for this. Keep it${within ? '.' : ', and base the sample size on the design effect (Plan tab).'}`
+        : fixedHere
+          ? `Give ${noun(L.level)} ${term} \`${model}\`.`
+          : `Give ${noun(L.level)} ${term} (\`${model}\`)${within ? '.' : ', and base the sample size on the design effect.'}`;
       out.push({
         ruleId: ID,
         key: L.level.id,

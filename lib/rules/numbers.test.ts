@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import type { Design } from '@/lib/design/schema';
-import { classroom, greenhouse, longitudinal, narrowDose, simple, sleep, variant } from './__fixtures__/designs';
+import { classroom, greenhouse, longitudinal, narrowDose, parallelNights, simple, sleep, variant } from './__fixtures__/designs';
 import { runChecks } from './registry';
 import type { Finding } from './types';
 
@@ -115,11 +115,18 @@ describe('nested-clusters, pseudoreplication, repeated measures', () => {
     close(f.numbers!.designEffect, 1 + 3 * 0.6);
     close(f.numbers!.effectiveReplicatesPerUnit, 4 / (1 + 3 * 0.6));
   });
-  it('repeated measures: between-volunteer DE 1 + 7·0.5, within-volunteer variance factor 1 − 0.5 (Diggle et al. 2002)', () => {
-    const f = finding(sleep, 'repeated-measures', 'night');
+  it('repeated measures, volunteers randomised between schedules: DE 1 + 7·0.5 (Kish 1965), within-volunteer factor 1 − 0.5 (Diggle et al. 2002)', () => {
+    const f = finding(parallelNights, 'repeated-measures', 'night');
     close(f.numbers!.designEffectBetween, 4.5);
     close(f.numbers!.effectiveNBetween, 192 / 4.5);
     close(f.numbers!.varianceFactorWithin, 0.5);
+  });
+
+  it('repeated measures, schedules compared within volunteers (sleep demo): only the factor 1 − 0.5, no design effect', () => {
+    const f = finding(sleep, 'repeated-measures', 'night');
+    close(f.numbers!.varianceFactorWithin, 0.5);
+    expect(f.numbers!.designEffectBetween).toBeUndefined();
+    expect(f.why).not.toMatch(/design effect/);
   });
 });
 

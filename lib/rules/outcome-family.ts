@@ -22,7 +22,7 @@
 import { BATES_2015, FLEISS_2003, LIANG_ZEGER_1986, MCCULLAGH_NELDER_1989, ZHU_LAKKIS_2014 } from '@/lib/citations';
 import { designFacts } from '@/lib/design/facts';
 import { familyFor, modelPlan, randomLevels } from './model';
-import { outcomeName, plannedMethod } from './phrases';
+import { modelFor, outcomeName, plannedMethod } from './phrases';
 import { cap, dec, noun, numbers } from './text';
 import type { Finding, Rule } from './types';
 import type { Design } from '@/lib/design/schema';
@@ -61,9 +61,9 @@ export const outcomeFamily: Rule = {
         why:
           WHY[type] +
           (clustered.length > 0
-            ? ` With the clustering in this design, use a generalised linear mixed model (random intercept for ${clustered.map((l) => noun(l.level)).join(' and ')}) or GEE with robust standard errors: mixed-model effects are specific to a ${noun(clustered[0]!.level)}, GEE effects are averaged over the population — choose the one that answers the question.`
+            ? ` With the clustering in this design, use ${modelFor(modelPlan(design), clustered)}, or GEE with robust standard errors: mixed-model effects are specific to a ${noun(clustered[0]!.level)}, GEE effects are averaged over the population — choose the one that answers the question.`
             : ''),
-        todo: `Use a ${clustered.length > 0 ? 'generalised linear mixed model' : 'generalised linear model'} with the ${fam.family} family and ${fam.link} link: \`${modelPlan(design).formula}\`, and report the effect on the scale of the link (${fam.link === 'logit' ? 'odds ratio' : 'rate ratio'}) together with absolute ${type === 'count' ? 'rates' : 'risks'}.`,
+        todo: `Use ${modelFor(modelPlan(design), clustered)}: \`${modelPlan(design).formula}\`, and report the effect on the scale of the link (${fam.link === 'logit' ? 'odds ratio' : 'rate ratio'}) together with absolute ${type === 'count' ? 'rates' : 'risks'}.`,
         model: modelPlan(design).formula,
         citations: [MCCULLAGH_NELDER_1989, BATES_2015, LIANG_ZEGER_1986, ...(type === 'proportion' || type === 'binary' ? [FLEISS_2003] : [])],
       },

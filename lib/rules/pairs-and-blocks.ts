@@ -3,7 +3,10 @@
  *
  * Triggers:
  * - `blocking`: randomisation is paired, matched, blocked or stratified and the factor is not in
- *   the analysis. Warning for pairs and matched sets (the pairing is the design's main source of
+ *   the analysis. The analysis carries it when the Assignment step says so, when the planned model
+ *   has a fixed or random term for it (`analysis.blockEffect`, or a random intercept or fixed
+ *   effect for a level of that name), when a paired t-test pairs on it, or — with no analysis
+ *   planned yet — when the recommended model has the term (it always does: `model.ts`). Warning for pairs and matched sets (the pairing is the design's main source of
  *   precision), advice for blocks and strata (leaving them out makes the test conservative and
  *   wastes the precision they bought). Donner & Klar 2000; Hayes & Moulton 2017.
  * - a grouping level of type pair or family (twins, siblings) that holds several units and is
@@ -13,7 +16,8 @@
 import { BATES_2015, DONNER_KLAR_2000, HAYES_MOULTON_2017 } from '@/lib/citations';
 import { accountsFor, designFacts } from '@/lib/design/facts';
 import { modelPlan } from './model';
-import { cap, count, noun, num } from './text';
+import type { Design } from '@/lib/design/schema';
+import { cap, count, identifier, noun, num } from './text';
 import type { Finding, Rule } from './types';
 
 const ID = 'pairs-and-blocks';
@@ -26,8 +30,9 @@ export const pairsAndBlocks: Rule = {
     const f = designFacts(design);
     const b = design.assignment.blocking;
     const out: Finding[] = [];
-    const model = modelPlan(design).formula;
-    if (b.kind !== 'none' && !b.inAnalysis) {
+    const plan = modelPlan(design);
+    const model = plan.formula;
+    if (b.kind !== 'none' && !blockingInAnalysis(design)) {
       const paired = b.kind === 'paired' || b.kind === 'matched';
       const factor = b.factor ? b.factor.trim() : undefined;
       const factorText = factor ? ` by ${factor[0]!.toLowerCase() + factor.slice(1)}` : '';
@@ -68,3 +73,16 @@ export const pairsAndBlocks: Rule = {
     return out;
   },
 };
+
+/** Does the planned (or, with none planned, the recommended) model carry the blocking factor? */
+function blockingInAnalysis(design: Design): boolean {
+  const b = design.assignment.blocking;
+  const a = design.analysis;
+  if (b.inAnalysis || a.blockEffect !== undefined) return true;
+  if (a.method === undefined) return modelPlan(design).blockEffect !== undefined;
+  if (a.method === 'paired-t-test' && (b.kind === 'paired' || b.kind === 'matched')) return true;
+  const name = identifier(b.factor, b.kind === 'paired' || b.kind === 'matched' ? 'pair' : 'block');
+  const f = designFacts(design);
+  const level = f.levels.find((l) => identifier(l.level.name, '') === name);
+  return level !== undefined && f.planGiven && accountsFor(f, level) && (a.randomIntercepts.includes(level.level.id) || (a.fixedEffectLevels ?? []).includes(level.level.id));
+}

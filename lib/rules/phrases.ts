@@ -4,7 +4,8 @@
  */
 import type { Analysis, Design } from '@/lib/design/schema';
 import type { DesignFacts, LevelInfo } from '@/lib/design/facts';
-import { count, dec, noun, num } from './text';
+import type { ModelPlan } from './model';
+import { count, dec, list, noun, num } from './text';
 
 const METHOD_NAMES: Record<NonNullable<Analysis['method']>, string> = {
   't-test': 't-test',
@@ -16,6 +17,8 @@ const METHOD_NAMES: Record<NonNullable<Analysis['method']>, string> = {
   glm: 'generalised linear model',
   glmm: 'generalised linear mixed model',
   'robust-regression': 'robust regression',
+  'paired-t-test': 'paired t-test',
+  'per-occasion-tests': 'series of tests, one per occasion',
   other: 'analysis',
 };
 
@@ -57,6 +60,40 @@ export function clusterSummaries(design: Design): string {
 /** "a mixed model", or "a generalised linear mixed model (poisson family, log link)" when the outcome needs a family. */
 export function mixedModelName(plan: { family?: string | undefined; link?: string | undefined }): string {
   return plan.family ? `a generalised linear mixed model (${plan.family} family, ${plan.link} link)` : 'a mixed model';
+}
+
+const FAMILY_WORDS: Record<NonNullable<Analysis['glmFamily']>, string> = {
+  gaussian: 'linear',
+  binomial: 'logistic (binomial)',
+  poisson: 'Poisson',
+  'negative-binomial': 'negative binomial',
+  gamma: 'gamma',
+  beta: 'beta',
+};
+
+/** The recommended model's kind in a few words: "a linear mixed model", "a Poisson GLMM", "a logistic (binomial) regression". */
+export function modelKind(plan: ModelPlan): string {
+  const fam = plan.family ? FAMILY_WORDS[plan.family] : undefined;
+  const mixed = plan.method === 'mixed-model' || plan.method === 'glmm';
+  if (mixed) return fam ? `a ${fam} GLMM (generalised linear mixed model, ${plan.link} link)` : 'a linear mixed model';
+  if (fam) return `a ${fam} regression (generalised linear model, ${plan.link} link)`;
+  return plan.method === 'ancova' ? 'ANCOVA (a linear regression with the baseline)' : 'a linear regression';
+}
+
+/**
+ * What the recommended model does with the given levels, then its kind, so that a finding and the
+ * recommendation name the same model: "a model with a random intercept for care home, here a
+ * negative binomial GLMM", "a model with a fixed effect for site, here a linear regression". A
+ * level the model carries as a fixed effect (too few units) is named as one.
+ */
+export function modelFor(plan: ModelPlan, levels: readonly LevelInfo[]): string {
+  const random = levels.filter((l) => plan.randomLevels.includes(l)).map((l) => noun(l.level));
+  const fixed = levels.filter((l) => plan.fixedLevels.includes(l)).map((l) => noun(l.level));
+  const parts = [
+    random.length > 0 ? `${random.length > 1 ? 'random intercepts' : 'a random intercept'} for ${list(random)}` : '',
+    fixed.length > 0 ? `${fixed.length > 1 ? 'fixed effects' : 'a fixed effect'} for ${list(fixed)}` : '',
+  ].filter(Boolean);
+  return parts.length > 0 ? `a model with ${parts.join(' and ')}, here ${modelKind(plan)}` : modelKind(plan);
 }
 
 /** "20 classrooms (10 per arm)". */

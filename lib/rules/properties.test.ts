@@ -1,7 +1,8 @@
 /**
  * Property tests over random valid designs built from the schema's pieces: runChecks never
  * throws (and no rule fails quietly), every finding is complete and finite, the result is JSON,
- * and adopting the recommendation clears every blocker.
+ * adopting the recommendation clears every blocker, and no finding says the opposite of the
+ * recommendation (see the last test for what "opposite" means).
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
@@ -49,7 +50,7 @@ const designArb: fc.Arbitrary<DesignInput> = fc.integer({ min: 0, max: 5 }).chai
       outliersExpected: maybe(fc.boolean()),
       explanatoryVariables: fc.array(
         fc.record({
-          id: fc.constantFrom('dose', 'arm', 'baseline-score', 'age'),
+          id: fc.constantFrom('dose', 'arm', 'baseline-score', 'age', 'var-1', 'var-2'),
           name: fc.constantFrom('Dose', 'Arm', 'Baseline score', 'Age'),
           role: fc.constantFrom('treatment', 'exposure', 'covariate'),
           kind: fc.constantFrom('categorical', 'continuous'),
@@ -89,6 +90,8 @@ const designArb: fc.Arbitrary<DesignInput> = fc.integer({ min: 0, max: 5 }).chai
     analysis: fc.record({
       method: maybe(fc.constantFrom(...ANALYSIS_METHODS)),
       randomIntercepts: idList,
+      fixedEffectLevels: maybe(idList),
+      blockEffect: maybe(fc.constantFrom('fixed', 'random')),
       randomSlopeForTime: fc.boolean(),
       unitOfAnalysisLevelId: idArb,
       adjustsForBaseline: fc.boolean(),
@@ -161,6 +164,50 @@ describe('runChecks over random valid designs', () => {
         expect(blockers.map((b) => `${b.ruleId}:${b.key}`)).toEqual([]);
       }),
       { numRuns: 400, seed: 99 },
+    );
+  });
+
+  /*
+   * "Opposite", concretely: a finding and the recommendation of the same run disagree when
+   * (1) a finding quotes a model other than the recommended one;
+   * (2) a finding asks for a fixed effect for a level (few-units, level-<id>) while the recommended
+   *     model gives it a random intercept, or the recommended model enters a level as a fixed
+   *     effect and no finding says why;
+   * (3) a finding quotes a design effect for a level the recommendation compares within: a level
+   *     above the unit it counts as n, or that unit itself when it receives every arm;
+   * (4) a finding warns that an ICC guessed too low leaves the study underpowered for a level the
+   *     treatment is compared within, or that one guessed too high does for a level compared between;
+   * (5) "blocking not in the analysis" fires although the planned analysis is the recommended one;
+   * (6) a per-occasion finding while the recommended model has no treatment × occasion (or × time) term.
+   */
+  it('no finding says the opposite of the recommendation', { timeout: 60_000 }, () => {
+    fc.assert(
+      fc.property(validDesign, (design) => {
+        const { findings, recommendation: rec } = runChecks(design, strict);
+        const index = new Map(design.structure.levels.map((l, i) => [l.id, i]));
+        const unit = rec.unitOfAnalysis ? index.get(rec.unitOfAnalysis.levelId)! : undefined;
+        const withinUnit = /receives every arm/.test(rec.explanation);
+        const comparedWithin = (id: string) => unit !== undefined && (index.get(id)! < unit || (index.get(id) === unit && withinUnit));
+        for (const f of findings) {
+          const where = `${f.ruleId}/${f.key}`;
+          if (f.model !== undefined) expect(f.model, where).toBe(rec.model); // (1)
+          if (f.ruleId === 'few-units' && f.key.startsWith('level-')) {
+            const id = f.key.slice('level-'.length);
+            expect(rec.randomIntercepts, where).not.toContain(id); // (2)
+            expect(rec.analysisPatch.fixedEffectLevels, where).toContain(id);
+          }
+          const level = f.levelIds?.[0];
+          const quotesDesignEffect = Object.keys(f.numbers ?? {}).some((k) => /^designEffect/.test(k));
+          if (level && quotesDesignEffect && f.ruleId !== 'pseudoreplication') expect(comparedWithin(level), `${where} quotes a design effect`).toBe(false); // (3)
+          if (level && /guessed too low leaves the study underpowered/.test(f.why)) expect(comparedWithin(level), where).toBe(false); // (4)
+          if (level && /guessed too high leaves the study underpowered/.test(f.why)) expect(comparedWithin(level), where).toBe(true);
+          if (f.ruleId === 'per-occasion') expect(rec.model, where).toMatch(/ \* (occasion|time|ns\()/); // (6)
+        }
+        for (const id of rec.analysisPatch.fixedEffectLevels ?? []) expect(findings.some((f) => f.ruleId === 'few-units' && f.key === `level-${id}`), `fixed ${id} without a finding`).toBe(true); // (2)
+        const adopted = designSchema.parse({ ...design, analysis: analysisSchema.parse({ ...design.analysis, ...rec.analysisPatch }) });
+        expect(runChecks(adopted, strict).findings.filter((f) => f.ruleId === 'pairs-and-blocks' && f.key === 'blocking')).toEqual([]); // (5)
+      }),
+      { numRuns: 400, seed: 1111 },
     );
   });
 });

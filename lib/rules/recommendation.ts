@@ -21,13 +21,15 @@ import {
   MACKINNON_WHITE_1985,
   MCCULLAGH_NELDER_1989,
   SATTERTHWAITE_1946,
+  GOMES_2022,
   SENN_2002,
   uniqueCitations,
 } from '@/lib/citations';
 import { designFacts, unitsPerArm } from '@/lib/design/facts';
+import { FEW_LEVELS } from './clustering';
 import { modelPlan } from './model';
 import { assignedVerb, outcomeName, treatmentName } from './phrases';
-import { cap, count, list, noun, num, pct } from './text';
+import { cap, count, identifier, list, noun, num, pct } from './text';
 import type { Citation, Finding, Recommendation, UnitOfAnalysis } from './types';
 
 const DF_WORDS: Record<Analysis['dfMethod'], string> = {
@@ -66,6 +68,18 @@ export function recommend(design: Design, findings: readonly Finding[]): Recomme
     citations.push(FRISON_POCOCK_1992);
   }
   if (plan.blockTerm) adjustments.push(`Include ${plan.blockTerm} in the model, as the randomisation was ${design.assignment.blocking.kind} by it.`);
+  if (plan.fixedLevels.length > 0 || plan.fixedCrossed.length > 0) {
+    const crossed = design.structure.crossedFactors.filter((c) => plan.fixedCrossed.includes(identifier(c.name, 'factor')));
+    const names = [...plan.fixedLevels.map((l) => `${noun(l.level)} (${count(l.total, l.level)})`), ...crossed.map((c) => `${c.name.toLowerCase()} (${num(c.count)})`)];
+    adjustments.push(`${cap(list(names))} as ${names.length > 1 ? 'fixed effects' : 'a fixed effect'}: too few units to estimate a variance between them (fewer than about ${FEW_LEVELS - 1}–${FEW_LEVELS}, common practice; ${GOMES_2022.short}), and ${treatmentName(design)} is compared within them.`);
+    citations.push(GOMES_2022);
+  }
+  if (plan.perOccasion) {
+    adjustments.push(
+      `One model for all ${f.followUps.length} follow-up occasions in place of a test at each, with a treatment × occasion term; the comparison that answers the question (the last occasion, or the average over occasions) fixed in the protocol as one contrast, and the other occasions as secondary estimates with confidence intervals.`,
+    );
+    citations.push(DIGGLE_2002);
+  }
   if (f.crossover) {
     adjustments.push('Period as a fixed effect; a washout (or a run-in left out of the analysis) rather than a test for carry-over.');
     citations.push(SENN_2002);
@@ -119,6 +133,9 @@ export function recommend(design: Design, findings: readonly Finding[]): Recomme
   } else {
     parts.push('The structure is not described yet: the model below is a placeholder until the levels, the assignment and the outcome are filled in.');
   }
+  const fixedNames = plan.fixedLevels.map((l) => noun(l.level, true));
+  const independent =
+    fixedNames.length > 0 ? `With a fixed effect for ${list(plan.fixedLevels.map((l) => noun(l.level)))}, the ${fixedNames.length > 1 ? 'units within them are' : `units within ${fixedNames[0]} are`} independent,` : 'The units are independent,';
   if (mixed) {
     const levels = plan.randomLevels.map((l) => noun(l.level));
     parts.push(
@@ -130,10 +147,10 @@ export function recommend(design: Design, findings: readonly Finding[]): Recomme
     if (E?.groupsObservations && !f.withinUnit) citations.push(DONNER_KLAR_2000);
     if (f.subject) citations.push(DIGGLE_2002);
   } else if (plan.method === 'glm') {
-    parts.push(`The units are independent, so a generalised linear model (${plan.family} family, ${plan.link} link) is enough.`);
+    parts.push(`${independent} so a generalised linear model (${plan.family} family, ${plan.link} link) is enough.`);
     citations.push(MCCULLAGH_NELDER_1989);
   } else if (f.levels.length > 0) {
-    parts.push(`The units are independent, so ${plan.method === 'ancova' ? 'ANCOVA (a linear regression of the follow-up on the arms and the baseline)' : 'a linear regression (for two arms, the same test as a t-test)'} is enough.`);
+    parts.push(`${independent} so ${plan.method === 'ancova' ? 'ANCOVA (a linear regression of the follow-up on the arms and the baseline)' : fixedNames.length > 0 ? 'a linear regression' : 'a linear regression (for two arms, the same test as a t-test)'} is enough.`);
   }
   if (plan.method === 'glmm' && plan.family) citations.push(MCCULLAGH_NELDER_1989);
   if (plan.dfMethod === 'kenward-roger') {
@@ -150,6 +167,8 @@ export function recommend(design: Design, findings: readonly Finding[]): Recomme
   const analysisPatch: Partial<Analysis> = {
     method: plan.method,
     randomIntercepts: plan.randomLevels.map((l) => l.level.id),
+    fixedEffectLevels: plan.fixedLevels.map((l) => l.level.id),
+    ...(plan.blockEffect ? { blockEffect: plan.blockEffect } : {}),
     randomSlopeForTime: plan.slopeLevel !== undefined,
     ...(E ? { unitOfAnalysisLevelId: E.level.id } : {}),
     adjustsForBaseline: plan.baselineTerm !== undefined,

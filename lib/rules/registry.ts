@@ -16,6 +16,7 @@ import { narrowRange } from './narrow-range';
 import { nestedClusters } from './nested-clusters';
 import { outcomeFamily } from './outcome-family';
 import { outliers } from './outliers';
+import { perOccasion } from './per-occasion';
 import { pairsAndBlocks } from './pairs-and-blocks';
 import { pseudoreplication } from './pseudoreplication';
 import { fallbackRecommendation, recommend } from './recommendation';
@@ -33,6 +34,7 @@ export const RULES: readonly Rule[] = [
   unitOfAnalysis,
   analysisMismatch,
   repeatedMeasures,
+  perOccasion,
   nestedClusters,
   pseudoreplication,
   sharedEnvironment,

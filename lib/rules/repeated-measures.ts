@@ -11,13 +11,14 @@
  * (Kish 1965) and the effective number of measurements N/DE; for a comparison within units the
  * between-unit variance drops out of the differences, leaving the factor 1 − ρ (Var(y₁ − y₂) =
  * 2σ²(1 − ρ) against 2σ² for two units; Diggle et al. 2002). Without either correlation, a
- * plausible range 0.2–0.8 (common practice), said to be a range.
+ * plausible range 0.2–0.8 (common practice), said to be a range. When the treatment varies
+ * within the unit (cross-over) only the within-unit factor is quoted: no design effect applies.
  */
 import { designEffect, effectiveSampleSize } from '@/lib/stats/design-effect';
 import { BATES_2015, DIGGLE_2002, KISH_1965 } from '@/lib/citations';
-import { accountsFor, designFacts, iccOf } from '@/lib/design/facts';
+import { accountsFor, comparedWithin, designFacts, iccOf } from '@/lib/design/facts';
 import { modelPlan } from './model';
-import { outcomeName, range, treatmentName } from './phrases';
+import { modelFor, outcomeName, range, treatmentName } from './phrases';
 import { cap, count, dec, noun, num, numbers } from './text';
 import type { Finding, Rule } from './types';
 
@@ -42,7 +43,7 @@ export const repeatedMeasures: Rule = {
     const icc = iccOf(f, S.level.id)?.value;
     const rho = icc ?? design.assumptions.occasionCorrelation?.value;
     const between = !f.withinUnit && f.eu !== undefined && f.eu.index <= S.index;
-    const within = f.withinUnit && f.eu?.index === S.index;
+    const within = comparedWithin(f, S);
 
     let quant: string;
     let nums: Record<string, number>;
@@ -52,13 +53,21 @@ export const repeatedMeasures: Rule = {
       const share = `${dec(rho, 2)}, from ${source}`;
       const betweenText = `for a comparison between ${noun(S.level, true)} the design effect is 1 + (${dec(m)} − 1) × ${dec(rho, 2)} = ${dec(de)}, so the ${num(measurements)} ${whatPlural} count as about ${num(Math.round(effectiveSampleSize(measurements, de)))} independent ones`;
       const withinText = `for a comparison within ${noun(S.level, true)} the same correlation helps: the differences between ${noun(S.level, true)} drop out, leaving ${dec(1 - rho, 2)} (1 − ρ) of the variance of a comparison between them`;
-      quant = `The correlation between two ${whatPlural} of the same ${noun(S.level)} is ${share}. ${cap(within ? `${withinText}; ${betweenText}` : `${betweenText}; ${withinText}`)}.`;
-      nums = numbers({ units: S.total, measurementsPerUnit: m, measurements, correlation: rho, designEffectBetween: de, effectiveNBetween: effectiveSampleSize(measurements, de), varianceFactorWithin: 1 - rho });
+      // Compared within the unit, no design effect applies: only the within-unit factor is quoted.
+      quant = `The correlation between two ${whatPlural} of the same ${noun(S.level)} is ${share}. ${cap(within ? withinText : `${betweenText}; ${withinText}`)}.`;
+      nums = within
+        ? numbers({ units: S.total, measurementsPerUnit: m, measurements, correlation: rho, varianceFactorWithin: 1 - rho })
+        : numbers({ units: S.total, measurementsPerUnit: m, measurements, correlation: rho, designEffectBetween: de, effectiveNBetween: effectiveSampleSize(measurements, de), varianceFactorWithin: 1 - rho });
     } else {
       const lo = designEffect({ clusterSize: Math.max(1, m), icc: 0.2 });
       const hi = designEffect({ clusterSize: Math.max(1, m), icc: 0.8 });
-      quant = `No correlation between ${whatPlural} of the same ${noun(S.level)} is given. Over a plausible range of 0.2 to 0.8 (common in practice for repeated measurements of one unit, not a value for this study), the design effect for a comparison between ${noun(S.level, true)} is ${range(lo, hi)}.`;
-      nums = numbers({ units: S.total, measurementsPerUnit: m, measurements, correlationLow: 0.2, correlationHigh: 0.8, designEffectBetweenLow: lo, designEffectBetweenHigh: hi });
+      const range02 = 'Over a plausible range of 0.2 to 0.8 (common in practice for repeated measurements of one unit, not a value for this study)';
+      quant = within
+        ? `No correlation between ${whatPlural} of the same ${noun(S.level)} is given. ${range02}, a comparison within ${noun(S.level, true)} keeps 0.8 to 0.2 (1 − ρ) of the variance of a comparison between them: the higher the correlation, the more the within-${noun(S.level)} comparison gains.`
+        : `No correlation between ${whatPlural} of the same ${noun(S.level)} is given. ${range02}, the design effect for a comparison between ${noun(S.level, true)} is ${range(lo, hi)}.`;
+      nums = within
+        ? numbers({ units: S.total, measurementsPerUnit: m, measurements, correlationLow: 0.2, correlationHigh: 0.8, varianceFactorWithinLow: 0.2, varianceFactorWithinHigh: 0.8 })
+        : numbers({ units: S.total, measurementsPerUnit: m, measurements, correlationLow: 0.2, correlationHigh: 0.8, designEffectBetweenLow: lo, designEffectBetweenHigh: hi });
     }
 
     // With repeats the structure does not show, naming the measured level as the unit of
@@ -82,7 +91,7 @@ export const repeatedMeasures: Rule = {
     const todo = handled
       ? `The plan accounts for this. Keep the data in long format (one row per ${what}) and base the sample size on the ${count(S.total, S.level)}.`
       : (implicit ? `Add a repeated level (for example "Occasion") below ${noun(S.level)} in the structure, so the counts and checks include the repeated measurements, and analyse` : 'Analyse') +
-        ` the ${whatPlural} of each ${noun(S.level)} together: a mixed model with a random intercept for ${noun(S.level)}, \`${model}\`, with the data in long format (one row per ${what}).`;
+        ` the ${whatPlural} of each ${noun(S.level)} together: ${modelFor(modelPlan(design), [S])}, \`${model}\`, with the data in long format (one row per ${what}).`;
     const finding: Finding = {
       ruleId: ID,
       key: implicit ? 'occasions' : repeated!.level.id,

@@ -17,6 +17,7 @@ import {
   narrowDose,
   outcomeOnly,
   parallelNights,
+  perVisitTests,
   pupilsInClassrooms,
   simple,
   sleep,
@@ -142,11 +143,20 @@ const CASES: Record<string, RuleCases> = {
   crossover: {
     fires: [
       ['sleep demo: no washout, carry-over possible', sleep, { key: 'carry-over', severity: 'warning' }],
-      ['sleep with a washout: period advice only', variant(sleep, (d) => { d.assignment.crossover.washout = 'Two weeks of usual sleep between blocks'; d.assignment.crossover.carryoverPossible = false; }), { key: 'period', severity: 'advice' }],
+      ['sleep with a washout: the carry-over finding stays, as advice', variant(sleep, (d) => { d.assignment.crossover.washout = 'Two weeks of usual sleep between blocks'; d.assignment.crossover.carryoverPossible = false; }), { key: 'carry-over', severity: 'advice' }],
+      ['sleep with a washout: period advice', variant(sleep, (d) => { d.assignment.crossover.washout = 'Two weeks of usual sleep between blocks'; d.assignment.crossover.carryoverPossible = false; }), { key: 'period', severity: 'advice' }],
     ],
     silent: [
       ['classroom demo', classroom],
       ['parallel-group sleep study', parallelNights],
+    ],
+  },
+  'per-occasion': {
+    fires: [['a test at each of 3 visits', perVisitTests, { key: 'per-occasion', severity: 'warning' }]],
+    silent: [
+      ['5 visits in one regression', longitudinal],
+      ['sleep demo', sleep],
+      ['one occasion tested once', variant(simple, (d) => { d.analysis.method = 'per-occasion-tests'; })],
     ],
   },
   'many-occasions': {
@@ -344,7 +354,7 @@ describe('count outcomes read as counts', () => {
   it('a clustered count: cluster-level analysis of event rates, a GLMM with its family, the follow-up time as offset', () => {
     const d = variant(absencesPoisson, (x) => { x.analysis = { ...x.analysis, method: 'glm', randomIntercepts: [], unitOfAnalysisLevelId: 'pupil' }; });
     const unit = runChecks(d).findings.find((x) => x.ruleId === 'unit-of-analysis')!;
-    expect(unit.todo).toContain('a generalised linear mixed model (negative-binomial family, log link)');
+    expect(unit.todo).toContain('a model with a random intercept for classroom, here a negative binomial GLMM');
     expect(unit.todo).toContain('a t-test on the 20 classroom event rates');
     expect(unit.model).toBe('days_absent ~ programme + baseline_score + school + offset(log(follow_up_time)) + (1 | classroom)');
     expect(runChecks(d).findings.find((x) => x.ruleId === 'shared-environment')!.todo).toContain('analyse classroom event rates');
@@ -387,7 +397,7 @@ describe('demo designs', () => {
     const unit = findings.find((f) => f.ruleId === 'unit-of-analysis')!;
     expect([unit.key, unit.severity]).toEqual(['care-home', 'blocker']);
     expect(unit.found).toContain('40 care homes (20 per arm)');
-    expect(unit.todo).toContain('negative-binomial family');
+    expect(unit.todo).toContain('a model with a random intercept for care home, here a negative binomial GLMM');
     expect(unit.todo).toContain('care home event rates');
     const over = findings.find((f) => f.key === 'overdispersion')!;
     expect(over.severity).toBe('warning');

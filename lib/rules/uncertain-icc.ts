@@ -10,12 +10,22 @@
  * the ratio of high to low, which is the ratio of the numbers of units needed. Published ICCs
  * for the outcome and setting are the better source (Donner & Klar 2000; Hayes & Moulton 2017);
  * CONSORT's cluster extension asks trials to report the ICC and its uncertainty.
+ *
+ * Direction. All of the above holds where the treatment is compared between the level's units.
+ * Where it is compared within them (`comparedWithin`) the direction reverses and no design effect
+ * applies: for the experimental unit of a cross-over or within-unit design, the variance of the
+ * within-unit comparison is proportional to 1 − ρ (exchangeable correlation; Senn 2002), so a
+ * correlation guessed too high leaves the study underpowered — the finding quotes 1 − ρ over the
+ * range, half the value to halfway between it and 1 (common practice). Levels above the
+ * experimental unit get no finding: a term for them only removes variance, and a low guess costs
+ * nothing.
  */
-import { CONSORT_CLUSTER_2010, DONNER_KLAR_2000, HAYES_MOULTON_2017 } from '@/lib/citations';
-import { designFacts, givenIccs, iccOf } from '@/lib/design/facts';
+import { CONSORT_CLUSTER_2010, DONNER_KLAR_2000, HAYES_MOULTON_2017, SENN_2002 } from '@/lib/citations';
+import { comparedWithin, designFacts, givenIccs, iccOf, type IccValue, type LevelInfo } from '@/lib/design/facts';
+import type { Design } from '@/lib/design/schema';
 import { clusteringEffect, plausibleIccRange } from './clustering';
-import { sourcePhrase } from './phrases';
-import { dec, noun, numbers } from './text';
+import { sourcePhrase, treatmentName } from './phrases';
+import { cap, dec, noun, num, numbers } from './text';
 import type { Finding, Rule } from './types';
 
 const ID = 'uncertain-icc';
@@ -35,11 +45,16 @@ export const uncertainIcc: Rule = {
       const icc = iccOf(f, L.level.id);
       const weak = icc && (icc.source.kind === 'none' || icc.source.kind === 'expert' || icc.source.certainty === 'low');
       if (icc && !weak) continue;
+      if (comparedWithin(f, L)) {
+        // Above the experimental unit the ICC only says how much a term for the level removes: no design effect, no risk in a low guess.
+        if (L === f.eu) out.push(withinFinding(design, L, icc));
+        continue;
+      }
       const restSum = [...others].filter(([id]) => id !== L.level.id).reduce((s, [, v]) => s + v, 0);
-      const cap = Math.max(0, 1 - restSum);
+      const upper = Math.max(0, 1 - restSum);
       const [pLo, pHi] = plausibleIccRange(L.level);
-      const lo = icc ? icc.value / 2 : Math.min(pLo, cap);
-      const hi = icc ? Math.min(2 * icc.value, cap) : Math.min(pHi, cap);
+      const lo = icc ? icc.value / 2 : Math.min(pLo, upper);
+      const hi = icc ? Math.min(2 * icc.value, upper) : Math.min(pHi, upper);
       const at = (v: number) => clusteringEffect(f, L.index, B.index, new Map([...others, [L.level.id, v]]));
       const low = at(lo);
       const high = at(hi);
@@ -70,3 +85,32 @@ export const uncertainIcc: Rule = {
     return out;
   },
 };
+
+/** The experimental unit receives every arm: a higher correlation within it helps the comparison. */
+function withinFinding(design: Design, L: LevelInfo, icc: IccValue | undefined): Finding {
+  const [pLo, pHi] = plausibleIccRange(L.level);
+  // Capped at 0.95, so that 1 − ρ (and the ratio) stays finite for a correlation given as 1.
+  const hi = Math.min(icc ? (1 + icc.value) / 2 : pHi, 0.95);
+  const lo = Math.min(icc ? icc.value / 2 : pLo, hi);
+  const ratio = (1 - lo) / (1 - hi);
+  const who = noun(L.level);
+  const whoPlural = noun(L.level, true);
+  return {
+    ruleId: ID,
+    key: L.level.id,
+    severity: icc ? 'advice' : 'warning',
+    title: icc ? `The correlation within ${whoPlural} is uncertain` : `No correlation within ${whoPlural}`,
+    found: icc
+      ? `The ICC for ${whoPlural} (${dec(icc.value, 3)}), the correlation between two measurements of one ${who}, comes from ${sourcePhrase(icc.source)}.`
+      : `No ICC is given for ${whoPlural}: the correlation between two measurements of one ${who} is unknown.`,
+    why:
+      `${cap(treatmentName(design))} is compared within ${whoPlural}: each of the ${num(L.total)} ${whoPlural} receives every arm, so differences between ${whoPlural} drop out and no design effect applies. ` +
+      `Here a higher correlation helps: the variance of the within-${who} comparison is proportional to 1 − ρ, which is ${dec(1 - lo, 2)} at a correlation of ${dec(lo, 3)}${icc ? `, ${dec(1 - icc.value, 2)} at ${dec(icc.value, 3)}` : ''} and ${dec(1 - hi, 2)} at ${dec(hi, 3)}: the number of ${whoPlural} needed differs by a factor of ${dec(ratio, 1)} across this range` +
+      (icc ? ' (from half the value given to halfway between it and 1, a common-practice range).' : ' (a range common in practice for repeated measurements of one unit, not a value for this study).') +
+      ` A correlation guessed too high leaves the study underpowered; one guessed too low only makes it cautious.`,
+    todo: `Take the correlation from a pilot or published data on the same measurement repeated within ${whoPlural}, record the source, plan for the lower part of the range, and show the sample size over the range on the Plan tab.`,
+    numbers: numbers({ icc: icc?.value, iccLow: lo, iccHigh: hi, varianceFactorLow: 1 - lo, varianceFactor: icc ? 1 - icc.value : undefined, varianceFactorHigh: 1 - hi, sampleSizeRatio: ratio }),
+    citations: [SENN_2002],
+    levelIds: [L.level.id],
+  };
+}

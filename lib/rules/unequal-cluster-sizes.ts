@@ -4,7 +4,7 @@
  *
  * Triggers: a grouping level, or an experimental unit that holds several observations, whose
  * number of observations per unit varies (CV > 0, from the countCv of the levels below; see
- * `sizeCv`). Warning when the extra inflation is 10% or more, advice below (a common-practice cut).
+ * `sizeCv`), and the treatment is compared between its units (not within them: `comparedWithin`). Warning when the extra inflation is 10% or more, advice below (a common-practice cut).
  *
  * Quantified: DE = 1 + ((cv² + 1)·m − 1)·ρ against 1 + (m − 1)·ρ with equal sizes (Eldridge,
  * Ashby & Kerry 2006; Kish 1965), their ratio (the extra inflation, and the extra clusters needed
@@ -13,7 +13,7 @@
  * clusters efficiently.
  */
 import { ELDRIDGE_2006, KISH_1965 } from '@/lib/citations';
-import { designFacts, givenIccs, iccOf, sizeCv } from '@/lib/design/facts';
+import { comparedWithin, designFacts, givenIccs, iccOf, sizeCv } from '@/lib/design/facts';
 import { clusteringEffect, plausibleIccRange } from './clustering';
 import { cap, dec, noun, num, numbers, pct } from './text';
 import type { Finding, Rule } from './types';
@@ -31,6 +31,8 @@ export const unequalClusterSizes: Rule = {
     const out: Finding[] = [];
     for (const L of f.levels) {
       if (!L.groupsObservations || (L.level.kind !== 'grouping' && L !== f.eu)) continue;
+      // Compared within these units, no design effect applies (uncertain-icc and nested-clusters say so).
+      if (comparedWithin(f, L)) continue;
       const cv = sizeCv(f, L.index, B.index);
       if (!(cv > 0)) continue;
       const icc = iccOf(f, L.level.id);

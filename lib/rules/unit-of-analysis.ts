@@ -23,7 +23,7 @@ import { DONNER_KLAR_2000, ELDRIDGE_2006, HAYES_MOULTON_2017, KISH_1965 } from '
 import { accountsFor, designFacts, givenIccs, iccOf, sizeCv, unitsPerArm } from '@/lib/design/facts';
 import { clusteringEffect, plausibleIccRange, type ClusteringEffect } from './clustering';
 import { modelPlan } from './model';
-import { assignedVerb, clusterSummaries, mixedModelName, plannedMethod, range, treatmentName, unitsWithArms } from './phrases';
+import { assignedVerb, clusterSummaries, modelFor, plannedMethod, range, treatmentName, unitsWithArms } from './phrases';
 import { ASK_STATISTICIAN, cap, count, dec, list, noun, num, numbers, pct } from './text';
 import type { Finding, Rule } from './types';
 
@@ -116,9 +116,8 @@ export const unitOfAnalysis: Rule = {
 
     const plan = modelPlan(design);
     const model = plan.formula;
-    const intercepts = plan.randomLevels.length > 1 ? `random intercepts for ${list(plan.randomLevels.map((l) => noun(l.level)))}` : `a random intercept for ${noun(A.level)}`;
     const todo =
-      `Analyse with the ${noun(A.level)} as the unit of comparison: ${mixedModelName(plan)} with ${intercepts}, \`${model}\`, ` +
+      `Analyse with the ${noun(A.level)} as the unit of comparison: ${modelFor(plan, f.levels)}, \`${model}\`, ` +
       `which counts the ${count(A.total, A.level)} as the independent units (${plan.family ? `a t-test on the ${num(A.total)} ${noun(A.level)} ${clusterSummaries(design)} is a simple valid alternative` : `in a balanced design a t-test on the ${num(A.total)} ${noun(A.level)} means gives the same answer`}). ` +
       `Plan the sample size with the design effect. ${ASK_STATISTICIAN}`;
     return [

@@ -89,6 +89,10 @@ test('classroom design: the unit-of-analysis blocker appears and clears with a m
     await page.getByRole('checkbox', { name: 'Classroom' }).check();
     await wizard.waitSaved();
     await expect(wizard.checks).toContainText('0 blockers');
+    // Levels with few units can be entered as fixed effects; the option is folded away until opened.
+    await page.getByText('Levels with few units as fixed effects').click();
+    await expect(page.getByRole('group', { name: /as a fixed effect instead of a random intercept/ }).getByRole('checkbox', { name: 'Classroom' })).not.toBeChecked();
+    await checkA11y(page, 'design wizard: analysis plan');
     await page.goto(`/studies/${studyId}/checks`);
     await expect(page.getByRole('article').filter({ hasText: 'Blocker' })).toHaveCount(0);
     await expect(page.getByRole('complementary')).toContainText('(1 | classroom)');

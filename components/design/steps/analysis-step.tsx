@@ -1,5 +1,6 @@
 'use client';
 
+import { useState } from 'react';
 import { SelectField, TextAreaField } from '@/components/ui/field';
 import { analysisSchema } from '@/lib/design/schema';
 import { asOptional, errorAt, useStepForm } from '../step-form';
@@ -7,11 +8,19 @@ import type { StepProps } from './types';
 
 export function AnalysisStep({ value, design, onValid, onDraft, disabled }: StepProps<'analysis'>) {
   const form = useStepForm(analysisSchema, value, onValid, onDraft);
-  const { register, formState, watch } = form;
+  const { register, formState, watch, setValue } = form;
   const e = formState.errors as Record<string, unknown>;
   const method = watch('method');
   const levels = design.structure.levels;
   const random = levels.filter((l) => l.kind !== 'replicate');
+  // Levels that can take a fixed effect: those that group units below them (not the bottom level).
+  const groupingLevels = levels.slice(0, -1).filter((l) => l.kind !== 'replicate');
+  const fixedLevels: string[] = watch('fixedEffectLevels') ?? [];
+  const [fixedOpenAtStart] = useState(fixedLevels.length > 0);
+  const toggleFixed = (id: string, on: boolean) =>
+    setValue('fixedEffectLevels', on ? [...fixedLevels.filter((x) => x !== id), id] : fixedLevels.filter((x) => x !== id), { shouldDirty: true, shouldValidate: true });
+  const blocking = design.assignment.blocking;
+  const modelMethod = method !== undefined && !['t-test', 'paired-t-test', 'per-occasion-tests', 'cluster-means', 'gee', 'other'].includes(method);
   return (
     <fieldset disabled={disabled} className="space-y-4">
       <legend className="sr-only">Analysis plan</legend>
@@ -19,6 +28,8 @@ export function AnalysisStep({ value, design, onValid, onDraft, disabled }: Step
       <SelectField label="Planned analysis" {...register('method', asOptional)} error={errorAt(e, 'method')}>
         <option value="">Choose…</option>
         <option value="t-test">t-test comparing the arms</option>
+        <option value="paired-t-test">Paired t-test (differences within pairs or units)</option>
+        <option value="per-occasion-tests">A separate test or ANOVA at each occasion</option>
         <option value="linear-regression">Linear regression (ordinary least squares)</option>
         <option value="ancova">ANCOVA adjusting for baseline</option>
         <option value="mixed-model">Linear mixed model (random effects)</option>
@@ -54,6 +65,31 @@ export function AnalysisStep({ value, design, onValid, onDraft, disabled }: Step
             <input type="checkbox" {...register('randomSlopeForTime')} /> A random slope for time (units change at different rates)
           </label>
         </fieldset>
+      )}
+      {modelMethod && groupingLevels.length > 0 && (
+        // Folded away unless used: an option for levels with few units, which most plans do not need.
+        <details open={fixedOpenAtStart} className="text-sm">
+          <summary className="cursor-pointer font-semibold">Levels with few units as fixed effects</summary>
+          <fieldset className="mt-2 space-y-1">
+            <legend className="text-muted">A level with few units (fewer than about 5–6 sites, donors, litters or batches) as a fixed effect instead of a random intercept.</legend>
+            {groupingLevels.map((l) => (
+              <label key={l.id} className="flex items-center gap-2">
+                <input type="checkbox" checked={fixedLevels.includes(l.id)} onChange={(ev) => toggleFixed(l.id, ev.target.checked)} /> {l.name}
+              </label>
+            ))}
+          </fieldset>
+        </details>
+      )}
+      {blocking.kind !== 'none' && (
+        <SelectField
+          label={`The blocking factor${blocking.factor ? ` (${blocking.factor})` : ''} in the model`}
+          help="How the planned model carries the factor the randomisation was blocked, stratified or matched by."
+          {...register('blockEffect', asOptional)}
+        >
+          <option value="">Not in the model</option>
+          <option value="fixed">As a fixed effect</option>
+          <option value="random">As a random effect</option>
+        </SelectField>
       )}
       <div className="grid gap-3 sm:grid-cols-2">
         <SelectField label="Family (for a GLM or GLMM)" {...register('glmFamily', asOptional)}>

@@ -112,3 +112,138 @@ export const narrowDose = variant(simple, (d) => {
 export const classroomNoPlan = variant(classroom, (d) => {
   d.analysis = empty.analysis;
 });
+
+// ---- Designs for the rule classes of issue 11 (few units at a random level, the ICC's
+// direction, an analysis per occasion, cross-over, blocking in the model, names). Invented.
+
+const TWO_ARMS = [{ name: 'Active', allocation: 1 }, { name: 'Control', allocation: 1 }];
+const GUESS = { kind: 'expert', certainty: 'low' } as const;
+
+/** Patients randomised individually within 4 sites (stratified by site); a mixed model with a random intercept for site. */
+export const fewSites = parse({
+  outcome: { name: 'Systolic blood pressure', unit: 'mmHg', type: 'continuous', shape: 'symmetric', outliersExpected: false },
+  structure: {
+    levels: [
+      { id: 'site', name: 'Site', kind: 'grouping', groupingType: 'site', count: 4 },
+      { id: 'patient', name: 'Patient', kind: 'independent', count: 30 },
+    ],
+  },
+  assignment: { kind: 'randomised', levelId: 'patient', arms: TWO_ARMS, blocking: { kind: 'stratified', factor: 'Site' } },
+  occasions: { list: [{ label: 'Week 12', time: 12 }] },
+  assumptions: { iccs: [{ levelId: 'site', value: 0.05, source: GUESS }] },
+  analysis: { method: 'mixed-model', randomIntercepts: ['site'], unitOfAnalysisLevelId: 'patient', dfMethod: 'kenward-roger', outlierPlan: 'Range checks.' },
+});
+
+/** Pups randomised individually within 5 litters; a yes-or-no outcome analysed by logistic regression that ignores the litters. */
+export const fewLitters = parse({
+  outcome: { name: 'Tumour present', type: 'binary' },
+  structure: {
+    levels: [
+      { id: 'litter', name: 'Litter', kind: 'grouping', groupingType: 'litter', count: 5 },
+      { id: 'pup', name: 'Pup', kind: 'independent', count: 6 },
+    ],
+  },
+  assignment: { kind: 'randomised', levelId: 'pup', arms: TWO_ARMS },
+  occasions: { list: [{ label: 'Week 20', time: 20 }] },
+  analysis: { method: 'glm', glmFamily: 'binomial', unitOfAnalysisLevelId: 'pup' },
+});
+
+/** Culture wells from 3 donors, wells assigned to the arms within each donor, a t-test on the wells. */
+export const fewDonors = parse({
+  outcome: { name: 'Cytokine release', type: 'continuous', shape: 'symmetric', outliersExpected: false },
+  structure: {
+    levels: [
+      { id: 'donor', name: 'Donor', kind: 'grouping', groupingType: 'other', count: 3 },
+      { id: 'well', name: 'Well', kind: 'independent', count: 8 },
+    ],
+  },
+  assignment: { kind: 'randomised', levelId: 'well', arms: TWO_ARMS },
+  occasions: { list: [{ label: 'Day 2', time: 2 }] },
+  analysis: { method: 't-test', unitOfAnalysisLevelId: 'well' },
+});
+
+/** fewSites with 3 raters who each score every patient (a crossed factor with few levels). */
+export const fewRaters = variant(fewSites, (d) => {
+  d.structure.crossedFactors = [{ id: 'rater', name: 'Rater', count: 3, crossedWithLevelId: 'patient' }];
+});
+
+/** Patients randomised individually in 8 wards of 200 each; no ICC for wards. */
+export const wardsAbove = parse({
+  outcome: { name: 'Length of stay', type: 'continuous', shape: 'symmetric', outliersExpected: false },
+  structure: {
+    levels: [
+      { id: 'ward', name: 'Ward', kind: 'grouping', groupingType: 'site', count: 8, countCv: 0.3 },
+      { id: 'patient', name: 'Patient', kind: 'independent', count: 200 },
+    ],
+  },
+  assignment: { kind: 'randomised', levelId: 'patient', arms: TWO_ARMS },
+  occasions: { list: [{ label: 'Discharge', time: 1 }] },
+  analysis: { method: 'mixed-model', randomIntercepts: ['ward'], unitOfAnalysisLevelId: 'patient', outlierPlan: 'Range checks.' },
+});
+
+/** A two-period cross-over of 20 volunteers, 4 sessions each, with a described washout; the within-volunteer correlation guessed. */
+export const washedOutCrossover = parse({
+  outcome: { name: 'Pain score', type: 'continuous', shape: 'symmetric', outliersExpected: false },
+  structure: {
+    levels: [
+      { id: 'volunteer', name: 'Volunteer', kind: 'independent', count: 20 },
+      { id: 'session', name: 'Session', kind: 'repeated', count: 4 },
+    ],
+  },
+  assignment: { kind: 'randomised', levelId: 'volunteer', arms: TWO_ARMS, crossover: { enabled: true, periods: 2, washout: 'Two weeks', carryoverPossible: false } },
+  assumptions: { iccs: [{ levelId: 'volunteer', value: 0.6, source: GUESS }] },
+  analysis: { method: 'mixed-model', randomIntercepts: ['volunteer'], unitOfAnalysisLevelId: 'volunteer', dfMethod: 'kenward-roger', outlierPlan: 'Range checks.' },
+});
+
+/** 60 patients randomised, measured at baseline and 3 visits, the arms tested separately at each visit. */
+export const perVisitTests = parse({
+  outcome: { name: 'Grip strength', type: 'continuous', shape: 'symmetric', outliersExpected: false },
+  structure: { levels: [{ id: 'patient', name: 'Patient', kind: 'independent', count: 60 }] },
+  assignment: { kind: 'randomised', levelId: 'patient', arms: TWO_ARMS },
+  occasions: { timeUnit: 'weeks', list: [0, 4, 8, 12].map((t, i) => ({ label: `Week ${t}`, time: t, baseline: i === 0 })) },
+  analysis: { method: 'per-occasion-tests', unitOfAnalysisLevelId: 'patient', adjustsForBaseline: true, outlierPlan: 'Range checks.' },
+});
+
+/** Twin pairs analysed by a paired t-test. */
+export const twinsPaired = variant(twins, (d) => {
+  d.analysis.method = 'paired-t-test';
+});
+
+/** Patients in matched pairs (by age), analysed by a paired t-test. */
+export const matchedPaired = variant(simple, (d) => {
+  d.assignment.blocking = { kind: 'matched', factor: 'Age', inAnalysis: false };
+  d.analysis.method = 'paired-t-test';
+});
+
+/** The classroom demo with the recommended analysis adopted (the analysis step only). */
+export const classroomAdopted = variant(classroom, (d) => {
+  Object.assign(d.analysis, { method: 'mixed-model', randomIntercepts: ['classroom'], adjustsForBaseline: true, blockEffect: 'fixed', dfMethod: 'kenward-roger' });
+});
+
+/** Plots in blocks that are a level of the structure; a mixed model with a random intercept for the block. */
+export const blocksAsLevel = parse({
+  outcome: { name: 'Yield', type: 'continuous', shape: 'symmetric', outliersExpected: false },
+  structure: {
+    levels: [
+      { id: 'block', name: 'Block', kind: 'grouping', groupingType: 'plot', count: 8 },
+      { id: 'plot', name: 'Plot', kind: 'independent', count: 4 },
+    ],
+  },
+  assignment: { kind: 'randomised', levelId: 'plot', arms: TWO_ARMS, blocking: { kind: 'blocked', factor: 'Block' } },
+  occasions: { list: [{ label: 'Harvest', time: 1 }] },
+  analysis: { method: 'mixed-model', randomIntercepts: ['block'], unitOfAnalysisLevelId: 'plot', outlierPlan: 'Range checks.' },
+});
+
+/** Variables the user added in the wizard (ids made up as var-1, var-2). */
+export const wizardNames = variant(simple, (d) => {
+  d.outcome.explanatoryVariables = [
+    { id: 'var-1', name: 'Fertiliser', role: 'treatment', kind: 'categorical' },
+    { id: 'var-2', name: 'Soil moisture', role: 'covariate', kind: 'continuous' },
+  ];
+});
+
+/** Days absent per pupil, classrooms randomised, plain Poisson counts, planned as a t-test per pupil. */
+export const absencesTTest = variant(absencesPoisson, (d) => {
+  d.assumptions.dispersion = { value: 0, source: { kind: 'expert', certainty: 'medium' } };
+  d.analysis = { ...d.analysis, method: 't-test', glmFamily: undefined, randomIntercepts: [], unitOfAnalysisLevelId: 'pupil' };
+});

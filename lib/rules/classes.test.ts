@@ -1,0 +1,242 @@
+/**
+ * The classes of miss of issue 11, one table each, on designs of our own (lib/rules/__fixtures__)
+ * besides the demos: the finding, its severity, its numbers and the recommended model.
+ *
+ * Figures checked by hand (no library needed): the df of a variance between k units is k − 1;
+ * the within-unit variance factor is 1 − ρ (Var(y₁ − y₂) = 2σ²(1 − ρ)); the family-wise error of
+ * K independent tests at α is 1 − (1 − α)^K, for K = 3 at 0.05: 1 − 0.857375 = 0.142625.
+ */
+import { describe, expect, it } from 'vitest';
+import { analysisSchema, designSchema, type Design } from '@/lib/design/schema';
+import {
+  absencesTTest,
+  blocksAsLevel,
+  classroom,
+  classroomAdopted,
+  falls,
+  fewDonors,
+  fewLitters,
+  fewRaters,
+  fewSites,
+  greenhouse,
+  matchedPaired,
+  perVisitTests,
+  sleep,
+  twins,
+  twinsPaired,
+  variant,
+  wardsAbove,
+  washedOutCrossover,
+  wizardNames,
+} from './__fixtures__/designs';
+import { runChecks } from './registry';
+import type { Finding, Severity } from './types';
+
+const find = (d: Design, ruleId: string, key: string): Finding | undefined => runChecks(d).findings.find((f) => f.ruleId === ruleId && f.key === key);
+const adopt = (d: Design): Design => designSchema.parse({ ...d, analysis: analysisSchema.parse({ ...d.analysis, ...runChecks(d).recommendation.analysisPatch }) });
+const close = (got: number | undefined, want: number) => expect(got, `got ${got}, want ${want}`).toBeCloseTo(want, 9);
+
+const fourVolunteers = variant(washedOutCrossover, (d) => {
+  d.structure.levels[0]!.count = 4;
+});
+
+describe('1. few units at a level that would carry a random effect', () => {
+  it.each<[string, Design, string, Severity, number, string, Design['analysis']['method']]>([
+    ['4 sites, planned with a random intercept', fewSites, 'level-site', 'warning', 4, 'systolic_blood_pressure ~ arm + site', 'linear-regression'],
+    ['5 litters, a logistic regression that ignores them', fewLitters, 'level-litter', 'advice', 5, 'tumour_present ~ arm + litter', 'glm'],
+    ['3 donors, a t-test on the wells', fewDonors, 'level-donor', 'advice', 3, 'cytokine_release ~ arm + donor', 'linear-regression'],
+    ['3 raters crossed with patients', fewRaters, 'crossed-rater', 'advice', 3, 'systolic_blood_pressure ~ arm + site + rater', 'linear-regression'],
+    ['a cross-over of 4 volunteers with a random intercept', fourVolunteers, 'level-volunteer', 'warning', 4, 'pain_score ~ arm + period + volunteer', 'linear-regression'],
+  ])('%s: says so, with the df of the variance, and the model has a fixed effect', (_label, design, key, severity, units, model, method) => {
+    const { findings, recommendation } = runChecks(design);
+    const f = findings.find((x) => x.ruleId === 'few-units' && x.key === key);
+    expect(f, JSON.stringify(findings.map((x) => `${x.ruleId}/${x.key}`))).toBeDefined();
+    expect(f!.severity).toBe(severity);
+    expect(f!.numbers).toEqual({ units, varianceDf: units - 1, threshold: 6 });
+    expect(f!.why).toContain(`${units - 1} degrees of freedom at most`);
+    expect(f!.why).toMatch(/common practice \(Gomes 2022/);
+    expect(f!.citations.map((c) => c.short)).toContain('Gomes 2022');
+    expect(f!.model).toBe(model);
+    expect(recommendation.model).toBe(model);
+    expect(recommendation.method).toBe(method);
+    const level = key.replace(/^level-/, '');
+    expect(recommendation.randomIntercepts).not.toContain(level);
+    if (key.startsWith('level-')) expect(recommendation.analysisPatch.fixedEffectLevels).toContain(level);
+  });
+
+  it.each<[string, Design]>([
+    ['8 wards', wardsAbove],
+    ['20 classrooms (the level of assignment)', classroom],
+    ['12 trays (the level of assignment)', greenhouse],
+    ['24 volunteers in a cross-over', sleep],
+  ])('%s: no such finding, and the random intercept stays', (_label, design) => {
+    const { findings, recommendation } = runChecks(design);
+    expect(findings.filter((x) => x.ruleId === 'few-units' && /^(level|crossed)-/.test(x.key))).toEqual([]);
+    expect(recommendation.analysisPatch.fixedEffectLevels).toEqual([]);
+  });
+
+  it('adopting the recommendation follows its advice: the warning drops to a reminder', () => {
+    const adopted = adopt(fewSites);
+    expect(adopted.analysis.fixedEffectLevels).toEqual(['site']);
+    expect(adopted.analysis.randomIntercepts).toEqual([]);
+    expect(find(adopted, 'few-units', 'level-site')!.severity).toBe('advice');
+    expect(find(adopted, 'nested-clusters', 'site')!.todo).toBe('The plan accounts for this. Keep it.');
+  });
+
+  it('the nested-clusters finding on a planned random intercept for 4 sites asks for the fixed effect, not "keep it"', () => {
+    expect(find(fewSites, 'nested-clusters', 'site')!.todo).toContain('give site a fixed effect instead');
+  });
+});
+
+describe('2. the ICC’s direction', () => {
+  const designEffectKeys = (f: Finding) => Object.keys(f.numbers ?? {}).filter((k) => /^designEffect/.test(k));
+
+  it.each<[string, Design, string, number, number, number]>([
+    ['a cross-over with a guessed correlation of 0.6', washedOutCrossover, 'volunteer', 0.3, 0.8, 0.7 / 0.2],
+    ['the sleep demo with its ICC as an expert guess', variant(sleep, (d) => { d.assumptions.iccs[0]!.source = { kind: 'expert', certainty: 'low' }; }), 'volunteer', 0.25, 0.75, 0.75 / 0.25],
+  ])('%s: compared within, a higher correlation helps; no design effect', (_label, design, level, lo, hi, ratio) => {
+    const f = find(design, 'uncertain-icc', level)!;
+    expect(f.severity).toBe('advice');
+    close(f.numbers!.iccLow, lo);
+    close(f.numbers!.iccHigh, hi);
+    close(f.numbers!.varianceFactorLow, 1 - lo);
+    close(f.numbers!.varianceFactorHigh, 1 - hi);
+    close(f.numbers!.sampleSizeRatio, ratio);
+    expect(designEffectKeys(f)).toEqual([]);
+    expect(f.why).toContain('A correlation guessed too high leaves the study underpowered');
+    expect(f.why).not.toMatch(/guessed too low leaves/);
+    for (const g of runChecks(design).findings.filter((x) => x.levelIds?.includes(level) && x.ruleId !== 'pseudoreplication')) expect(designEffectKeys(g), `${g.ruleId}/${g.key}`).toEqual([]);
+  });
+
+  it.each<[string, Design, string]>([
+    ['8 wards of 200 patients randomised individually (no ICC)', wardsAbove, 'ward'],
+    ['4 sites (ICC 0.05, a guess)', fewSites, 'site'],
+    ['5 litters', fewLitters, 'litter'],
+  ])('%s: above the level of assignment, no design effect is quoted and no ICC warning is raised', (_label, design, level) => {
+    const { findings } = runChecks(design);
+    expect(findings.filter((x) => x.ruleId === 'uncertain-icc' || x.ruleId === 'unequal-cluster-sizes')).toEqual([]);
+    const nested = findings.find((x) => x.ruleId === 'nested-clusters' && x.key === level)!;
+    expect(designEffectKeys(nested)).toEqual([]);
+    expect(nested.why).toMatch(/no design effect applies to the comparison/i);
+  });
+
+  it('the ICC of sites above the unit of assignment: its share of variance a site term removes (1 − 0.05)', () => {
+    close(find(fewSites, 'nested-clusters', 'site')!.numbers!.residualVarianceFactor, 0.95);
+  });
+
+  it('compared between clusters, the design effect over the range stays (falls demo: 1.98, 2.96, 4.92 at ICC 0.03, 0.06, 0.12)', () => {
+    const f = find(falls, 'uncertain-icc', 'care-home')!;
+    close(f.numbers!.designEffectLow, 1.98025);
+    close(f.numbers!.designEffectHigh, 4.921);
+    expect(f.why).toContain('one guessed too low leaves the study underpowered');
+  });
+});
+
+describe('3. an analysis per occasion, and a paired comparison', () => {
+  it('both are methods of the analysis plan', () => {
+    expect(analysisSchema.parse({ method: 'per-occasion-tests' }).method).toBe('per-occasion-tests');
+    expect(analysisSchema.parse({ method: 'paired-t-test' }).method).toBe('paired-t-test');
+  });
+
+  it('tests at 3 visits: multiplicity and the ignored correlation, and one model with arm × occasion', () => {
+    const { findings, recommendation } = runChecks(perVisitTests);
+    const f = findings.find((x) => x.ruleId === 'per-occasion')!;
+    expect(f.severity).toBe('warning');
+    close(f.numbers!.tests, 3);
+    close(f.numbers!.familyWiseError, 0.142625);
+    expect(f.why).toContain('1 − (1 − 0.05)^3 = 14%');
+    expect(f.why).toContain('ignore that the occasions are measurements of the same patients');
+    expect(f.todo).toContain('one contrast fixed in the protocol');
+    const model = 'grip_strength ~ arm * occasion + grip_strength_baseline + (1 | patient)';
+    expect(f.model).toBe(model);
+    expect(recommendation.model).toBe(model);
+    expect(recommendation.adjustments.some((a) => a.startsWith('One model for all 3 follow-up occasions'))).toBe(true);
+    expect(findings.some((x) => x.ruleId === 'repeated-measures' && x.severity === 'warning')).toBe(true);
+  });
+
+  it.each<[string, Design, Design, string]>([
+    ['twin pairs', twins, twinsPaired, 'pairs-and-blocks/pair'],
+    ['matched pairs by age', variant(matchedPaired, (d) => { d.analysis.method = 't-test'; }), matchedPaired, 'pairs-and-blocks/blocking'],
+    ['nights of each volunteer under both schedules', sleep, variant(sleep, (d) => { d.analysis.method = 'paired-t-test'; }), 'analysis-mismatch/repeated-volunteer'],
+  ])('%s: a t-test is flagged, a paired t-test is not', (_label, unpaired, paired, id) => {
+    const ids = (d: Design) => runChecks(d).findings.map((f) => `${f.ruleId}/${f.key}`);
+    expect(ids(unpaired)).toContain(id);
+    expect(ids(paired)).not.toContain(id);
+  });
+
+  it.each<[string, Design, boolean]>([
+    ['before and after in a parallel-group trial', variant(perVisitTests, (d) => { d.analysis.method = 'paired-t-test'; }), true],
+    ['one measurement per patient, nothing paired', variant(wizardNames, (d) => { d.analysis.method = 'paired-t-test'; }), true],
+    ['twin pairs, one twin per arm', twinsPaired, false],
+    ['matched pairs', matchedPaired, false],
+    ['both schedules within each volunteer', variant(sleep, (d) => { d.analysis.method = 'paired-t-test'; }), false],
+  ])('a paired t-test that does not compare the arms is flagged: %s', (_label, design, flagged) => {
+    const f = find(design, 'analysis-mismatch', 'paired-between');
+    expect(f !== undefined).toBe(flagged);
+    if (f) expect(f.severity).toBe('warning');
+  });
+});
+
+describe('4. every cross-over gets the cross-over finding', () => {
+  const threePeriods = variant(washedOutCrossover, (d) => {
+    d.assignment.crossover.periods = 3;
+    d.assignment.arms.push({ name: 'Third', allocation: 1 });
+  });
+  it.each<[string, Design, Severity, string, boolean]>([
+    ['sleep demo: no washout, carry-over possible', sleep, 'warning', 'Cross-over without a washout', true],
+    ['a washout of two weeks, carry-over not expected', washedOutCrossover, 'advice', 'Is the washout long enough?', true],
+    ['a washout, carry-over marked possible', variant(washedOutCrossover, (d) => { d.assignment.crossover.carryoverPossible = true; }), 'warning', 'Carry-over possible between periods', true],
+    ['three periods with a washout', threePeriods, 'advice', 'Is the washout long enough?', false],
+  ])('%s', (_label, design, severity, title, twoPeriods) => {
+    const f = find(design, 'crossover', 'carry-over')!;
+    expect([f.severity, f.title]).toEqual([severity, title]);
+    expect(f.why).toContain('Senn 2002');
+    expect(f.why).toContain('A preliminary test for carry-over has little power');
+    expect(f.why.includes('carry-over cannot be tested away')).toBe(twoPeriods);
+    expect(f.todo).toContain('Do not rely on a test for carry-over');
+    if (design.assignment.crossover.washout && !/^none/i.test(design.assignment.crossover.washout)) expect(f.todo).toContain(`("${design.assignment.crossover.washout}")`);
+    expect(find(design, 'crossover', 'period')).toBeDefined();
+  });
+});
+
+describe('5. blocking that the model carries counts as blocking in the analysis', () => {
+  it.each<[string, Design]>([
+    ['a fixed school term in the planned model', classroomAdopted],
+    ['the classroom demo with the recommendation adopted', adopt(classroom)],
+    ['a random intercept for the block level', blocksAsLevel],
+    ['a random intercept for the sites it was stratified by', fewSites],
+    ['the fixed site effect the recommendation puts in', adopt(fewSites)],
+    ['no analysis planned yet (the recommended model has the term)', variant(classroom, (d) => { d.analysis = analysisSchema.parse({}); })],
+  ])('%s: silent', (_label, design) => {
+    expect(find(design, 'pairs-and-blocks', 'blocking')).toBeUndefined();
+  });
+
+  it('a t-test that leaves the strata out still gets it (classroom demo)', () => {
+    const f = find(classroom, 'pairs-and-blocks', 'blocking')!;
+    expect(f.severity).toBe('advice');
+    expect(f.model).toContain('+ school +');
+  });
+});
+
+describe('6. the user’s names, and blocker and recommendation naming the same model', () => {
+  it('variables added in the wizard (ids var-1, var-2) appear by their names', () => {
+    const { recommendation } = runChecks(wizardNames);
+    expect(recommendation.model).toBe('blood_pressure ~ fertiliser + soil_moisture');
+  });
+
+  it.each<[string, Design, string, string, string]>([
+    ['a count per pupil, classrooms randomised', absencesTTest, 'unit-of-analysis', 'classroom', 'a model with a random intercept for classroom, here a Poisson GLMM'],
+    ['the falls demo', falls, 'unit-of-analysis', 'care-home', 'a model with a random intercept for care home, here a negative binomial GLMM'],
+    ['the sleep demo', sleep, 'analysis-mismatch', 'repeated-volunteer', 'a model with a random intercept for volunteer, here a linear mixed model'],
+    ['5 litters, a yes-or-no outcome', variant(fewLitters, (d) => { d.analysis.method = 't-test'; }), 'outcome-family', 'binary', 'a model with a fixed effect for litter, here a logistic (binomial) regression'],
+  ])('%s', (_label, design, ruleId, key, words) => {
+    const { findings, recommendation } = runChecks(design);
+    const f = findings.find((x) => x.ruleId === ruleId && x.key === key)!;
+    expect(f.todo).toContain(words);
+    expect(f.model ?? recommendation.model).toBe(recommendation.model);
+    const kind = words.replace(/^.*, here /, '');
+    if (/GLMM|mixed/.test(kind)) expect(['glmm', 'mixed-model']).toContain(recommendation.method);
+    if (kind.includes('Poisson')) expect(recommendation.family).toBe('poisson');
+    if (kind.includes('negative binomial')) expect(recommendation.family).toBe('negative-binomial');
+  });
+});
