@@ -1,6 +1,6 @@
 'use client';
 
-import { useId, useState } from 'react';
+import { useId, useRef, useState, type CSSProperties } from 'react';
 import { MORRIS_2019 } from '@/lib/citations';
 import { bestAnalysis, mcInterval, verdictOf, type CellVerdict, type Verdict } from '@/lib/sim/verdict';
 import type { ResultRow } from './results-table';
@@ -68,7 +68,17 @@ export function reasonOf(v: Verdict, alpha: number, targetPower: number): string
 /** One verdict with its Monte Carlo errors in a tooltip shown on hover and on keyboard focus (Escape hides it). */
 function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates }: { cell: Cell; scenario: GridScenario; analysis: string; alpha: number; targetPower: number; replicates: number }) {
   const id = useId();
-  const [open, setOpen] = useState(false);
+  const button = useRef<HTMLButtonElement>(null);
+  // Fixed to the viewport, so that the grid's horizontal scroll box does not clip it.
+  const [place, setPlace] = useState<CSSProperties | null>(null);
+  const open = place !== null;
+  const show = () => {
+    const r = button.current?.getBoundingClientRect();
+    if (!r) return;
+    const width = Math.min(288, window.innerWidth - 16);
+    setPlace({ position: 'fixed', top: r.bottom + 4, left: Math.max(8, Math.min(r.left, window.innerWidth - width - 8)), width });
+  };
+  const setOpen = (on: boolean) => (on ? show() : setPlace(null));
   const look = LOOK[cell.verdict.cell];
   const power = cell.metrics.power?.value;
   const powerLine =
@@ -76,6 +86,7 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
   return (
     <span className="relative block">
       <button
+        ref={button}
         type="button"
         aria-describedby={id}
         onMouseEnter={() => setOpen(true)}
@@ -85,7 +96,7 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
         onKeyDown={(e) => {
           if (e.key === 'Escape') setOpen(false);
         }}
-        onClick={() => setOpen((o) => !o)}
+        onClick={() => setOpen(!open)}
         className={`flex w-full min-w-[8.5rem] flex-col items-start rounded-md border px-2 py-1.5 text-left ${look.tone}`}
         data-testid="verdict-cell"
         data-verdict={cell.verdict.cell}
@@ -104,7 +115,8 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
       <span
         role="tooltip"
         id={id}
-        className={`absolute left-0 top-full z-20 mt-1 w-72 rounded-md border border-line bg-white p-3 text-xs text-ink shadow-lg ${open ? 'block' : 'hidden'}`}
+        style={place ?? undefined}
+        className={`z-30 rounded-md border border-line bg-white p-3 text-xs text-ink shadow-lg ${open ? 'block' : 'hidden'}`}
       >
         <span className="block font-semibold">
           {analysis} · {scenario.full}
