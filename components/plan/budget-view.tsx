@@ -158,7 +158,7 @@ function CandidateTable({ candidates, optimum, budget, clusterWord, memberWord, 
   const top = Math.max(...candidates.map((c) => c.cost ?? 0), budget ?? 0);
   const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
   return (
-    <div className="overflow-x-auto">
+    <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Cost and power of each cluster size (scrolls sideways)">
       <table className="w-full min-w-[20rem] text-left text-sm">
         <caption className="sr-only">
           For each cluster size: {clusterWord} per arm for the target power of {formatPercent(target)}, the total cost and the power reached

@@ -181,14 +181,15 @@ export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetP
         </p>
       </div>
 
-      <div className="overflow-x-auto pb-2">
-        <table className="border-separate border-spacing-1 text-left text-sm" data-testid="verdict-grid">
-          <caption className="mb-1 text-left text-sm text-muted">
+      <p className="max-w-3xl text-sm text-muted">
             Each cell judges one analysis under one scenario. <strong>Fails</strong>: the false-positive rate (or the share of intervals missing the true
             effect) is above {formatRate(alpha)} beyond its Monte Carlo interval (± 1.96 MC SE, {MORRIS_2019.short}) and by more than half of{' '}
             {formatRate(alpha)} (a margin of common practice). <strong>Slightly off</strong>: above beyond the Monte Carlo error, within that margin. Power is
             counted only where false positives hold; target {formatRate(targetPower)}. Hover over or focus a cell for its figures.
-          </caption>
+      </p>
+      <div className="overflow-x-auto pb-2">
+        <table className="border-separate border-spacing-1 text-left text-sm" data-testid="verdict-grid">
+          <caption className="sr-only">The verdict on each analysis under each scenario, the planned analysis first</caption>
           <thead>
             <tr>
               <th scope="col" className="px-1 align-bottom font-semibold">
