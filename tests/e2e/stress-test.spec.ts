@@ -102,7 +102,9 @@ test('classroom design: a small stress test runs, shows progress, then results a
   });
 
   await test.step('cancelling asks first, and the finished run stays in view', async () => {
-    await stress.replicates.fill('5000');
+    // A long run (6 scenarios × 20,000 replicates), so that it is still going when cancelled.
+    for (const name of [/^Right-skewed/, /^Heavy-tailed/, /^Outliers/, /^Unequal variance/, /^Curved relation/]) await stress.scenario(name).check();
+    await stress.replicates.fill('20000');
     await stress.run.click();
     await expect(stress.cancel).toBeVisible({ timeout: 30_000 });
     await stress.cancel.click();
