@@ -110,7 +110,7 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
             : {analysis} under {scenario.short}
           </span>
         </span>
-        <span className={`text-xs ${cell.verdict.powerCounts ? 'text-ink' : 'text-muted line-through decoration-1'}`}>{powerLine}</span>
+        <span className={`text-xs ${cell.verdict.powerCounts ? 'text-ink' : 'text-muted'}`}>{powerLine}</span>
       </button>
       <span
         role="tooltip"
