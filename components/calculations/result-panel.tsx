@@ -38,7 +38,8 @@ export function ResultPanel({ output, actions, title = 'Result', headingLevel = 
   const inputs = inputKeys(output);
   // Derived values that do not apply (null) are left out; an input not given reads "—".
   const derived = Object.keys(output.result).filter((k) => !inputs.includes(k) && !headline.includes(k) && output.result[k] !== null);
-  const shownInputs = inputs.filter((k) => k in output.result && !headline.includes(k));
+  // A baseline-and-follow-up answer shows its analyses side by side: the analysis is not an input to list.
+  const shownInputs = inputs.filter((k) => k in output.result && !headline.includes(k) && !(output.kind === 'repeated-measures' && k === 'analysis'));
   return (
     <section aria-labelledby={`${id}-title`} className="space-y-5 rounded-lg border border-line bg-white p-5">
       <div className="flex flex-wrap items-center gap-2">

@@ -196,8 +196,8 @@ function CandidateTable({ candidates, optimum, budget, clusterWord, memberWord, 
                   {c.cost === null ? (
                     <span className="text-muted">target not reached</span>
                   ) : (
-                    <span className="flex items-center gap-2">
-                      <span aria-hidden="true" className={`block h-3 rounded-sm ${best ? 'bg-brand-dark' : 'bg-brand'}`} style={{ width: `${Math.max(2, (60 * c.cost) / top).toFixed(1)}%` }} />
+                    <span className="flex flex-col gap-0.5 sm:flex-row sm:items-center sm:gap-2">
+                      <span aria-hidden="true" className={`block h-3 min-w-[0.5rem] rounded-sm ${best ? 'bg-brand-dark' : 'bg-brand'}`} style={{ width: `${Math.max(2, (60 * c.cost) / top).toFixed(1)}%` }} />
                       <span className="whitespace-nowrap tabular-nums">
                         {formatNumber(c.cost, 6)}
                         {c.power !== null && <span className="text-muted"> · {formatPercent(c.power)}</span>}
@@ -206,7 +206,7 @@ function CandidateTable({ candidates, optimum, budget, clusterWord, memberWord, 
                   )}
                 </td>
                 {budget !== undefined && (
-                  <td className="py-1 text-right tabular-nums">
+                  <td className="whitespace-nowrap py-1 text-right tabular-nums">
                     {c.budgetPower === null || c.budgetPower === undefined ? '—' : `${formatPercent(c.budgetPower)} (${c.budgetClusters} per arm)`}
                   </td>
                 )}
