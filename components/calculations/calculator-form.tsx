@@ -10,7 +10,7 @@ import { CALCULATION_EXAMPLES } from '@/lib/api/calculation-examples';
 import { calculate } from '@/lib/stats/calculations';
 import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
-import { calculationSchema, SOLVABLE, type CalculationKind } from '@/lib/stats/calculations/request';
+import { calculationSchema, SOLVABLE, type CalculationKind, type CalculationRequest } from '@/lib/stats/calculations/request';
 import { formatValue, labelOf } from './format';
 import { fieldsShown, groupFields, kindInfo, modeShown, SOLVE_LABELS, type FieldSpec, type KindInfo } from './kinds';
 import { headlineKeys } from './meaning';
@@ -76,6 +76,7 @@ export function CalculatorForm({ kind }: { kind: CalculationKind }) {
   const [solveFor, setSolveFor] = useState<string | null>(start.solveFor);
   const [mode, setMode] = useState<string | null>(start.mode);
   const [output, setOutput] = useState<CalculationOutput | null>(null);
+  const [request, setRequest] = useState<CalculationRequest | undefined>(undefined);
   const [status, setStatus] = useState<Status>(null);
   const choice = useRef({ solveFor, mode });
   choice.current = { solveFor, mode };
@@ -100,6 +101,7 @@ export function CalculatorForm({ kind }: { kind: CalculationKind }) {
     form.clearErrors();
     try {
       setOutput(calculate(parsed.data));
+      setRequest(parsed.data);
       setStatus(null);
     } catch (err) {
       setOutput(null);
@@ -199,7 +201,7 @@ export function CalculatorForm({ kind }: { kind: CalculationKind }) {
           )}
         </div>
         {output ? (
-          <ResultPanel output={output} />
+          <ResultPanel output={output} request={request} />
         ) : (
           !status && <p className="text-sm text-muted">Working out the answer…</p>
         )}

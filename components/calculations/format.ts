@@ -37,6 +37,7 @@ export function formatValue(key: string, value: ResultValue | undefined): string
   if (typeof value === 'string') return value;
   if (Array.isArray(value)) return value.map((v) => formatNumber(v)).join(', ');
   if (isPercentKey(key)) return formatPercent(value);
+  if (key === 'ratio' && value > 0) return `${formatNumber(value)} (shares ${formatPercent(1 / (1 + value))} and ${formatPercent(value / (1 + value))})`;
   return formatNumber(value);
 }
 
@@ -47,7 +48,7 @@ export const VALUE_LABELS: Record<string, string> = {
   alpha: 'Significance level (alpha)',
   power: 'Power',
   nPerGroup: 'Sample size per group',
-  ratio: 'Allocation ratio',
+  ratio: 'Units in the second group for each one in the first',
   sides: 'Sides of the test',
   dropout: 'Expected attrition',
   outcomes: 'Primary outcomes',

@@ -159,7 +159,7 @@ export const KINDS: readonly KindInfo[] = [
     kind: 'two-group-means',
     title: 'Two group means',
     when: 'Two independent groups compared on a continuous outcome, each unit measured once and randomised on its own — no clusters, no repeated measures.',
-    fields: [f.delta(), f.sd(), f.nPerGroup(), { name: 'ratio', label: 'Allocation ratio', help: 'Size of the second group divided by the first; 1 for equal groups.', input: 'number' }, SIDES_FIELD, ...ERROR_RATES, ...ADJUSTMENTS],
+    fields: [f.delta(), f.sd(), f.nPerGroup(), { name: 'ratio', label: 'Units in the second group for each one in the first', help: '1 for equal groups; 2 puts two units in the second group for each one in the first (a third and two thirds of all units).', input: 'number' }, SIDES_FIELD, ...ERROR_RATES, ...ADJUSTMENTS],
   },
   {
     kind: 'regression',
@@ -204,24 +204,13 @@ export const KINDS: readonly KindInfo[] = [
   {
     kind: 'repeated-measures',
     title: 'Baseline and follow-up measures',
-    when: `Two groups measured before and after, possibly several times each; choose between analysing the follow-up only, the change, or ANCOVA (${FRISON_POCOCK_1992.short}).`,
+    when: `Two groups measured before and after, possibly several times each; the answer is for ANCOVA, shown beside the follow-up only and the change from baseline (${FRISON_POCOCK_1992.short}).`,
     fields: [
       f.delta(),
       f.sd('Standard deviation of a single measurement.'),
       f.rho,
       { name: 'baselines', label: 'Baseline measurements', help: 'Measurements before assignment, averaged; 0 for none.', input: 'whole' },
       { name: 'followUps', label: 'Follow-up measurements', help: 'Measurements after assignment, averaged.', input: 'whole' },
-      {
-        name: 'analysis',
-        label: 'Analysis',
-        help: 'ANCOVA of the follow-up mean adjusted for the baseline mean is never less efficient than the other two.',
-        input: 'select',
-        options: [
-          ['ancova', 'ANCOVA (adjusted for baseline)'],
-          ['change', 'Change from baseline'],
-          ['post', 'Follow-up only'],
-        ],
-      },
       f.nPerGroup(),
       SIDES_FIELD,
       ...ERROR_RATES,
@@ -297,7 +286,7 @@ export const KINDS: readonly KindInfo[] = [
         group: 'Follow-up and variation between participants',
       },
       { ...f.nPerGroup('Participants analysed in the first group.'), group: 'Sample size' },
-      { name: 'ratio', label: 'Allocation ratio', help: 'Size of the second group divided by the first; 1 for equal groups.', input: 'number', group: 'Sample size' },
+      { name: 'ratio', label: 'Units in the second group for each one in the first', help: '1 for equal groups; 2 puts two units in the second group for each one in the first (a third and two thirds of all units).', input: 'number', group: 'Sample size' },
       SIDES_FIELD,
       ...ERROR_RATES,
       ...ADJUSTMENTS,

@@ -1,9 +1,12 @@
 import { useId, type ReactNode } from 'react';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
+import type { CalculationRequest } from '@/lib/stats/calculations/request';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
+import { BaselineComparison } from './baseline-comparison';
 import { formatValue, labelOf } from './format';
 import { headlineKeys, inputKeys, meaning } from './meaning';
+import { ProvenanceView, type InputOrigin } from './provenance';
 
 export interface ResultPanelProps {
   output: CalculationOutput;
@@ -13,14 +16,21 @@ export interface ResultPanelProps {
   title?: string;
   /** Level of the panel's heading (2 on a calculator page); its sections take the next level. */
   headingLevel?: 2 | 3;
+  /** Where each input came from (the Plan tab knows the design's sources); unknown ones are settings or entered here. */
+  origins?: Partial<Record<string, InputOrigin>>;
+  /** The request behind the output: a baseline-and-follow-up answer shows its three analyses side by side. */
+  request?: CalculationRequest;
+  /** For that comparison: the analysis the design's plan names. */
+  plannedAnalysis?: 'post' | 'change' | 'ancova';
 }
 
 /**
  * One calculation's answer: the solved value large, what it means in a sentence, then the
- * method, the formula in words, the references, the warnings and the inputs used. Pure
+ * method, the formula in words, the references, the warnings, and the inputs grouped by where
+ * they came from. Pure
  * presentation of a `CalculationOutput`; the calculator pages and the Plan tab both use it.
  */
-export function ResultPanel({ output, actions, title = 'Result', headingLevel = 2 }: ResultPanelProps) {
+export function ResultPanel({ output, actions, title = 'Result', headingLevel = 2, origins = {}, request, plannedAnalysis }: ResultPanelProps) {
   const id = useId();
   const H = `h${headingLevel}` as 'h2' | 'h3';
   const Sub = `h${headingLevel + 1}` as 'h3' | 'h4';
@@ -28,7 +38,8 @@ export function ResultPanel({ output, actions, title = 'Result', headingLevel = 
   const inputs = inputKeys(output);
   // Derived values that do not apply (null) are left out; an input not given reads "—".
   const derived = Object.keys(output.result).filter((k) => !inputs.includes(k) && !headline.includes(k) && output.result[k] !== null);
-  const shownInputs = inputs.filter((k) => k in output.result && !headline.includes(k));
+  // A baseline-and-follow-up answer shows its analyses side by side: the analysis is not an input to list.
+  const shownInputs = inputs.filter((k) => k in output.result && !headline.includes(k) && !(output.kind === 'repeated-measures' && k === 'analysis'));
   return (
     <section aria-labelledby={`${id}-title`} className="space-y-5 rounded-lg border border-line bg-white p-5">
       <div className="flex flex-wrap items-center gap-2">
@@ -49,6 +60,7 @@ export function ResultPanel({ output, actions, title = 'Result', headingLevel = 
         ))}
       </dl>
       <p className="max-w-3xl text-base">{meaning(output)}</p>
+      {request?.kind === 'repeated-measures' && <BaselineComparison request={request} planned={plannedAnalysis} heading={Sub} />}
       {output.warnings.length > 0 && (
         <Alert tone="caution" title="Read before using this number">
           <ul className="list-disc space-y-1 pl-5">
@@ -79,7 +91,7 @@ export function ResultPanel({ output, actions, title = 'Result', headingLevel = 
           </div>
         </div>
         <div className="space-y-4">
-          <ValueTable caption="Inputs used" keys={shownInputs} output={output} />
+          <ProvenanceView keys={shownInputs} output={output} origins={origins} heading={Sub} />
           {derived.length > 0 && <ValueTable caption="Also worked out" keys={derived} output={output} />}
         </div>
       </div>
@@ -95,7 +107,7 @@ function ValueTable({ caption, keys, output }: { caption: string; keys: string[]
         {keys.map((key) => (
           <tr key={key} className="border-t border-line">
             <th scope="row" className="py-1 pr-3 font-normal text-muted">
-              {labelOf(key)} <span className="font-mono text-xs">({key})</span>
+              {labelOf(key)}
             </th>
             <td className="py-1 text-right font-semibold tabular-nums">{formatValue(key, output.result[key])}</td>
           </tr>

@@ -1,15 +1,13 @@
 'use client';
 
 import { useMemo, useState } from 'react';
-import { CartesianGrid, Label, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { RAUDENBUSH_1997 } from '@/lib/citations';
-import { formatNumber } from '@/components/calculations/format';
+import { formatNumber, formatPercent } from '@/components/calculations/format';
 import { costSummary } from './cost-summary';
 import { ResultPanel } from '@/components/calculations/result-panel';
 import { Alert } from '@/components/ui/alert';
-import { axisStyle, CHART, chartMargin, sizeAxis } from './chart-style';
 import { TextField } from '@/components/ui/field';
-import { costCurve, costCurveSizes, niceTicks } from '@/lib/plan/sensitivity';
+import { costCurve, costCurveSizes, type CostPoint } from '@/lib/plan/sensitivity';
 import { calculate } from '@/lib/stats/calculations';
 import { CalculationInputError } from '@/lib/stats/calculations/errors';
 import { clustersGrid } from '@/lib/stats/calculations/sensitivity';
@@ -25,7 +23,31 @@ export interface BudgetViewProps {
   memberWord: string;
 }
 
-const { ink: INK, brand: BRAND } = CHART;
+/** A few cluster sizes around the optimum to compare: from small to three times it. */
+export function candidateSizes(optimum: number): number[] {
+  const o = Math.max(1, Math.round(optimum));
+  return [...new Set([2, o / 3, o / 2, (2 * o) / 3, o, 1.5 * o, 2 * o, 3 * o].map((m) => Math.max(2, Math.round(m))))].sort((a, b) => a - b);
+}
+
+/** Power of `request` with `clustersPerArm` clusters of `clusterSize`; null where it cannot be worked out. */
+function powerAt(request: ClusterRequest, clusterSize: number, clustersPerArm: number | null): number | null {
+  if (clustersPerArm === null || clustersPerArm < 2) return null;
+  try {
+    const out = calculate(clusterMeansSchema.parse({ ...request, cv: 0, clusterSize, clustersPerArm, power: undefined, solveFor: 'power' }));
+    const p = out.result.power;
+    return typeof p === 'number' ? p : null;
+  } catch {
+    return null;
+  }
+}
+
+interface Candidate extends CostPoint {
+  /** Power with the clusters the target needs (whole clusters: at or a little above the target). */
+  power: number | null;
+  /** With a budget: the clusters per arm it buys at this size and the power they give. */
+  budgetClusters?: number;
+  budgetPower?: number | null;
+}
 
 function toNumber(v: string): number | undefined {
   return v.trim() === '' ? undefined : Number(v);
@@ -64,10 +86,18 @@ export default function BudgetView({ request, clusterWord, memberWord }: BudgetV
       const output: CalculationOutput = calculate(parsed.data);
       // One optimum on the card: the best whole cluster size of the calculation shown above.
       const optimum = Number(output.result.clusterSizeInteger);
-      const sizes = costCurveSizes(optimum);
       const grid = clusterMeansSchema.parse({ ...request, cv: 0, solveFor: undefined });
-      const cells = clustersGrid(grid, [request.icc], sizes);
-      return { state: 'ok' as const, output, optimum, points: costCurve(cells, cc, cu) };
+      const points = costCurve(clustersGrid(grid, [request.icc], costCurveSizes(optimum)), cc, cu);
+      const b = toNumber(budget);
+      const candidates: Candidate[] = costCurve(clustersGrid(grid, [request.icc], [...new Set([...candidateSizes(optimum), optimum])].sort((x, y) => x - y)), cc, cu).map((p) => {
+        const c: Candidate = { ...p, power: powerAt(request, p.clusterSize, p.clustersPerArm) };
+        if (b !== undefined) {
+          c.budgetClusters = Math.floor(b / (2 * (cc + p.clusterSize * cu)));
+          c.budgetPower = powerAt(request, p.clusterSize, c.budgetClusters);
+        }
+        return c;
+      });
+      return { state: 'ok' as const, output, optimum, points, candidates, budget: b };
     } catch (e) {
       if (e instanceof CalculationInputError) return { state: 'error' as const, message: e.message };
       throw e;
@@ -102,64 +132,89 @@ export default function BudgetView({ request, clusterWord, memberWord }: BudgetV
       {computed.state === 'ok' && (
         <>
           <ResultPanel output={computed.output} title="Cluster size for these costs" headingLevel={3} />
-          <figure aria-labelledby="cost-curve-title" className="space-y-3">
+          <figure aria-labelledby="cost-curve-title" className="space-y-3" data-testid="budget-candidates">
             <figcaption className="space-y-1">
               <h4 id="cost-curve-title" className="text-sm font-bold">
-                Total cost of reaching the target power, by {memberWord}
+                What each cluster size costs, and the power it gives
               </h4>
               <p className="text-sm" data-testid="cost-curve-summary">
                 {costSummary(computed.points, computed.optimum, memberWord)}
               </p>
             </figcaption>
-            <div aria-hidden="true" className="h-64 w-full">
-              <ResponsiveContainer width="100%" height="100%">
-                <LineChart data={computed.points.filter((p) => p.cost !== null)} margin={chartMargin} accessibilityLayer={false}>
-                  <CartesianGrid stroke={CHART.grid} strokeDasharray="3 3" />
-                  <XAxis dataKey="clusterSize" {...sizeAxis} ticks={niceTicks(computed.points[0]?.clusterSize ?? 1, computed.points.at(-1)?.clusterSize ?? 1)}>
-                    <Label value={memberWord} position="insideBottom" offset={-16} fill={INK} fontSize={13} />
-                  </XAxis>
-                  <YAxis tickFormatter={(v: number) => formatNumber(v, 3)} {...axisStyle} width={64} />
-                  <Tooltip formatter={(v) => [formatNumber(Number(v), 6), 'Total cost']} labelFormatter={(l) => `${l} ${memberWord}`} />
-                  <ReferenceLine x={computed.optimum} stroke={BRAND} strokeDasharray="4 3">
-                    <Label value="optimum" position="top" fill={BRAND} fontSize={12} />
-                  </ReferenceLine>
-                  <Line type="monotone" dataKey="cost" stroke={BRAND} strokeWidth={2.5} dot={false} isAnimationActive={false} />
-                </LineChart>
-              </ResponsiveContainer>
-            </div>
-            <details className="text-sm">
-              <summary className="cursor-pointer font-semibold text-brand">Data behind the cost curve</summary>
-              <table className="mt-2 w-full max-w-lg text-left">
-                <caption className="sr-only">Clusters per arm and total cost at each cluster size</caption>
-                <thead>
-                  <tr className="border-b border-line">
-                    <th scope="col" className="py-1 pr-3">
-                      {memberWord.charAt(0).toUpperCase() + memberWord.slice(1)}
-                    </th>
-                    <th scope="col" className="py-1 pr-3 text-right">
-                      {clusterWord.charAt(0).toUpperCase() + clusterWord.slice(1)} per arm
-                    </th>
-                    <th scope="col" className="py-1 text-right">
-                      Total cost
-                    </th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {computed.points.map((p) => (
-                    <tr key={p.clusterSize} className="border-b border-line/60">
-                      <th scope="row" className="py-0.5 pr-3 font-normal tabular-nums">
-                        {p.clusterSize}
-                      </th>
-                      <td className="py-0.5 pr-3 text-right tabular-nums">{p.clustersPerArm ?? '—'}</td>
-                      <td className="py-0.5 text-right tabular-nums">{p.cost === null ? '—' : formatNumber(p.cost, 6)}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </details>
+            <CandidateTable candidates={computed.candidates} optimum={computed.optimum} budget={computed.budget} clusterWord={clusterWord} memberWord={memberWord} target={request.power ?? 0.8} />
           </figure>
         </>
       )}
     </section>
+  );
+}
+
+/**
+ * The candidate cluster sizes as rows: the clusters each needs for the target power, the total
+ * cost as a bar (the longest bar is the dearest size shown) and the power reached; with a budget,
+ * the clusters the budget buys at that size and their power. The optimum is marked in words.
+ */
+function CandidateTable({ candidates, optimum, budget, clusterWord, memberWord, target }: { candidates: Candidate[]; optimum: number; budget: number | undefined; clusterWord: string; memberWord: string; target: number }) {
+  const top = Math.max(...candidates.map((c) => c.cost ?? 0), budget ?? 0);
+  const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+  return (
+    <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Cost and power of each cluster size (scrolls sideways)">
+      <table className="w-full min-w-[20rem] text-left text-sm">
+        <caption className="sr-only">
+          For each cluster size: {clusterWord} per arm for the target power of {formatPercent(target)}, the total cost and the power reached
+          {budget !== undefined ? '; and the clusters and power the budget buys' : ''}
+        </caption>
+        <thead>
+          <tr className="border-b border-line">
+            <th scope="col" className="py-1 pr-3">
+              {cap(memberWord)}
+            </th>
+            <th scope="col" className="py-1 pr-3 text-right">
+              {cap(clusterWord)} per arm
+            </th>
+            <th scope="col" className="w-1/2 py-1 pr-3">
+              Total cost for {formatPercent(target)} power
+            </th>
+            {budget !== undefined && (
+              <th scope="col" className="py-1 text-right">
+                Power within the budget
+              </th>
+            )}
+          </tr>
+        </thead>
+        <tbody>
+          {candidates.map((c) => {
+            const best = c.clusterSize === optimum;
+            return (
+              <tr key={c.clusterSize} className={`border-b border-line/60 ${best ? 'bg-brand-light' : ''}`} data-optimum={best || undefined}>
+                <th scope="row" className="py-1 pr-3 font-semibold tabular-nums">
+                  {c.clusterSize}
+                  {best && <span className="ml-2 text-xs font-semibold text-brand-dark">best</span>}
+                </th>
+                <td className="py-1 pr-3 text-right tabular-nums">{c.clustersPerArm ?? '—'}</td>
+                <td className="py-1 pr-3">
+                  {c.cost === null ? (
+                    <span className="text-muted">target not reached</span>
+                  ) : (
+                    <span className="flex flex-col gap-0.5 sm:flex-row sm:items-center sm:gap-2">
+                      <span aria-hidden="true" className={`block h-3 min-w-[0.5rem] rounded-sm ${best ? 'bg-brand-dark' : 'bg-brand'}`} style={{ width: `${Math.max(2, (60 * c.cost) / top).toFixed(1)}%` }} />
+                      <span className="whitespace-nowrap tabular-nums">
+                        {formatNumber(c.cost, 6)}
+                        {c.power !== null && <span className="text-muted"> · {formatPercent(c.power)}</span>}
+                      </span>
+                    </span>
+                  )}
+                </td>
+                {budget !== undefined && (
+                  <td className="whitespace-nowrap py-1 text-right tabular-nums">
+                    {c.budgetPower === null || c.budgetPower === undefined ? '—' : `${formatPercent(c.budgetPower)} (${c.budgetClusters} per arm)`}
+                  </td>
+                )}
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+    </div>
   );
 }

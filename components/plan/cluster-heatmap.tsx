@@ -53,7 +53,8 @@ export function ClusterHeatmap(props: ClusterHeatmapProps) {
           {heatmapSummary(props)}
         </p>
       </figcaption>
-      <div className="overflow-x-auto">
+      {/* Focusable, so that a keyboard can scroll it on a narrow screen. */}
+      <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Clusters needed, by ICC and cluster size (scrolls sideways)">
         <table className="border-separate border-spacing-0.5 text-center text-sm" data-testid="cluster-heatmap">
           <caption className="sr-only">
             {clusterWord} per arm needed for {formatNumber(targetPower * 100)}% power; rows are ICCs, columns are {memberWord}

@@ -4,6 +4,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import dynamic from 'next/dynamic';
 import { useDeferredValue, useMemo, useState } from 'react';
 import { formatPercent, formatValue, labelOf } from '@/components/calculations/format';
+import type { InputOrigin } from '@/components/calculations/provenance';
 import { ResultPanel } from '@/components/calculations/result-panel';
 import { Alert, FormStatus } from '@/components/ui/alert';
 import { Button } from '@/components/ui/button';
@@ -37,12 +38,30 @@ export interface PlanWorkbenchProps {
   saved: PlanResultDto[];
 }
 
+/**
+ * Where each input came from: the source the design gives its assumption (a pilot, the
+ * literature, a judgement, no source), the design itself for what its structure fixes or what is
+ * computed from it, and "entered here" for a value changed on this tab.
+ */
+function originsOf(draft: PlanDraft, initial: InputValues, values: InputValues): Partial<Record<string, InputOrigin>> {
+  const origins: Partial<Record<string, InputOrigin>> = {};
+  for (const a of draft.assumptions) {
+    if (!a.input) continue;
+    const k = a.source.kind;
+    origins[a.input] = k === 'design' || k === 'derived' ? 'design' : k;
+  }
+  for (const name of Object.keys(values)) if (values[name] !== initial[name]) origins[name] = 'entered';
+  if (origins.power && !origins.targetPower) origins.targetPower = origins.power;
+  return origins;
+}
+
 const capital = (s: string) => (s ? s[0]!.toUpperCase() + s.slice(1) : s);
 
 /** Labels naming this design's units, for the inputs the draft filled. */
 function inputLabels(draft: PlanDraft): Record<string, string> {
   const labels: Record<string, string> = {};
   for (const a of draft.assumptions) if (a.input && a.source.kind === 'derived') labels[a.input] = a.name;
+  if (draft.labels.ratio) labels.ratio = draft.labels.ratio;
   const sizeInput = draft.planned?.input ?? draft.solveFor;
   if (draft.labels.size && sizeInput && sizeInput !== 'delta') labels[sizeInput] = capital(draft.labels.size);
   if (draft.kind === 'cluster-means') {
@@ -78,7 +97,8 @@ function run(state: ReturnType<typeof toPlanRequest>): Computed {
 export function PlanWorkbench({ studyId, revision, draft, canSave, saved }: PlanWorkbenchProps) {
   const kind = draft.kind;
   const mode = modeOf(kind, draft.inputs);
-  const [values, setValues] = useState<InputValues>(() => initialValues(kind, draft.inputs));
+  const initial = useMemo(() => initialValues(kind, draft.inputs), [kind, draft.inputs]);
+  const [values, setValues] = useState<InputValues>(initial);
   const [solveFor, setSolveFor] = useState<string | null>(draft.solveFor);
   const [note, setNote] = useState('');
   const labels = useMemo(() => inputLabels(draft), [draft]);
@@ -192,6 +212,9 @@ export function PlanWorkbench({ studyId, revision, draft, canSave, saved }: Plan
               output={computed.output}
               title="Answer for this design"
               headingLevel={3}
+              origins={originsOf(draft, initial, values)}
+              request={computed.request}
+              plannedAnalysis={draft.inputs.analysis === 'post' || draft.inputs.analysis === 'change' || draft.inputs.analysis === 'ancova' ? draft.inputs.analysis : undefined}
               actions={
                 canSave ? (
                   <div className="w-full space-y-2">

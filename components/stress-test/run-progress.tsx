@@ -1,5 +1,6 @@
 'use client';
 
+import { useState } from 'react';
 import type { SimulationDto } from '@/lib/api/simulations';
 import { Button } from '@/components/ui/button';
 
@@ -19,12 +20,13 @@ export function progressText(p: SimulationDto['progress']): string {
   return `${count} · about ${eta} left`;
 }
 
-/** A run's progress bar with its status, and Cancel while it is queued or running. */
+/** A run's progress bar with its status, and Cancel (confirmed first) while it is queued or running. */
 export function RunProgress({ run, canCancel, cancelling, onCancel }: { run: SimulationDto; canCancel: boolean; cancelling: boolean; onCancel: () => void }) {
   const { replicatesDone, replicatesTotal } = run.progress;
   const active = run.status === 'queued' || run.status === 'running';
   const share = replicatesTotal > 0 ? Math.min(1, replicatesDone / replicatesTotal) : 0;
   const text = progressText(run.progress);
+  const [confirming, setConfirming] = useState(false);
   return (
     <div className="space-y-2">
       <div className="flex flex-wrap items-baseline justify-between gap-2 text-sm">
@@ -47,10 +49,31 @@ export function RunProgress({ run, canCancel, cancelling, onCancel }: { run: Sim
       >
         <div className="h-full bg-brand transition-[width] duration-500" style={{ width: `${(share * 100).toFixed(1)}%` }} />
       </div>
-      {active && canCancel && (
-        <Button variant="danger" onClick={onCancel} disabled={cancelling}>
+      {active && canCancel && !confirming && (
+        <Button variant="danger" onClick={() => setConfirming(true)} disabled={cancelling}>
           {cancelling ? 'Cancelling…' : 'Cancel this run'}
         </Button>
+      )}
+      {active && canCancel && confirming && (
+        <div role="group" aria-labelledby={`confirm-${run.id}`} className="space-y-2 rounded-md border-l-4 border-danger bg-danger-light px-4 py-3 text-sm">
+          <p id={`confirm-${run.id}`} className="font-semibold text-danger">
+            Stop this run? The replicates done so far are discarded; the last finished run stays in view.
+          </p>
+          <div className="flex flex-wrap gap-2">
+            <Button
+              variant="danger"
+              onClick={() => {
+                setConfirming(false);
+                onCancel();
+              }}
+            >
+              Yes, stop the run
+            </Button>
+            <Button variant="secondary" onClick={() => setConfirming(false)}>
+              Keep it running
+            </Button>
+          </div>
+        </div>
       )}
     </div>
   );

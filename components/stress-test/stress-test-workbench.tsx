@@ -1,25 +1,19 @@
 'use client';
 
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import dynamic from 'next/dynamic';
 import { usePathname, useSearchParams } from 'next/navigation';
 import { useEffect, useState } from 'react';
 import { Alert } from '@/components/ui/alert';
 import { ApiError, apiFetch } from '@/lib/api/client';
 import type { SimulationDto } from '@/lib/api/simulations';
 import type { AnalysisName } from '@/lib/models/types';
-import { scenarioKey, type SimulationSpec, type SimulationSpecInput } from '@/lib/sim/spec';
+import type { SimulationSpec, SimulationSpecInput } from '@/lib/sim/spec';
 import { PastRuns } from './past-runs';
-import { ResultsTable, type ResultRow } from './results-table';
 import { RunForm } from './run-form';
 import { RunProgress } from './run-progress';
+import { RunResults, type RunWithSpec } from './run-results';
 import { SizeSweep } from './size-sweep';
 import { sizeOf } from './sweep';
-import { describeScenario, VIOLATION_TITLES, type MetricValue } from './words';
-
-const DotPlot = dynamic(() => import('./dot-plot'), { ssr: false, loading: () => <p className="text-sm text-muted">Drawing the chart…</p> });
-
-type RunWithSpec = SimulationDto & { spec: SimulationSpec };
 
 export interface StressTestWorkbenchProps {
   studyId: string;
@@ -32,27 +26,18 @@ export interface StressTestWorkbenchProps {
   initialRun: RunWithSpec | null;
   runs: SimulationDto[];
   sizeLabel: string;
+  /** The design's planned analysis in the stress test's names (lib/sim/from-design.ts), or null. */
+  planned: AnalysisName | null;
+  /** The design's target power. */
+  targetPower: number;
 }
 
 const POLL_MS = 750;
 const active = (r: SimulationDto | undefined) => r !== undefined && (r.status === 'queued' || r.status === 'running');
 const message = (e: unknown) => (e instanceof ApiError ? e.message : 'The stress test could not be started. Try again.');
 
-/** The rows of the results table: scenario × analysis in the specification's order. */
-function rowsOf(run: RunWithSpec): ResultRow[] {
-  const rows: ResultRow[] = [];
-  for (const s of run.spec.scenarios) {
-    const byAnalysis = run.results?.[scenarioKey(s)];
-    if (!byAnalysis) continue;
-    for (const [analysis, metrics] of Object.entries(byAnalysis)) {
-      rows.push({ scenario: scenarioKey(s), scenarioLabel: describeScenario(s), shortLabel: s.name ?? VIOLATION_TITLES[s.violation], analysis, metrics: metrics as Record<string, MetricValue> });
-    }
-  }
-  return rows;
-}
-
 /** The Stress test tab's interactive part: the form, the current run's progress and results, the size sweep and the study's runs. */
-export function StressTestWorkbench({ studyId, revision, base, analyses, canRun, initialRun, runs, sizeLabel }: StressTestWorkbenchProps) {
+export function StressTestWorkbench({ studyId, revision, base, analyses, canRun, initialRun, runs, sizeLabel, planned, targetPower }: StressTestWorkbenchProps) {
   const pathname = usePathname();
   const params = useSearchParams();
   const client = useQueryClient();
@@ -136,9 +121,14 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
     onError: (e) => setSweepError(message(e)),
   });
 
-  const rows = run?.status === 'done' && run.results ? rowsOf(run) : [];
-  const pointsOf = (metric: string) => rows.map((r) => ({ scenarioLabel: r.shortLabel, analysis: r.analysis, metric: r.metrics[metric] ?? { value: null, mcse: null } }));
-  const alpha = run?.spec.alpha ?? 0.05;
+  // While a run is under way, cancelled or failed, the last finished run stays in view below it.
+  const lastDoneId = run && run.status !== 'done' ? ((list.data ?? runs).find((r) => r.status === 'done' && r.id !== run.id)?.id ?? null) : null;
+  const lastDone = useQuery({
+    queryKey: ['simulation', lastDoneId],
+    queryFn: () => apiFetch<RunWithSpec>(`/api/v1/simulations/${lastDoneId}`),
+    enabled: lastDoneId !== null,
+  });
+  const lastRun = lastDoneId !== null && lastDone.data?.id === lastDoneId && lastDone.data.studyId === studyId && lastDone.data.results ? lastDone.data : undefined;
 
   return (
     <div className="space-y-6">
@@ -160,32 +150,19 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
             {sizeOf(run.spec).toLocaleString('en-GB')} {sizeLabel} · {run.spec.replicates.toLocaleString('en-GB')} replicates per scenario · seed {run.spec.seed} · α = {run.spec.alpha}
           </p>
           <RunProgress run={run} canCancel={canRun} cancelling={cancel.isPending} onCancel={() => cancel.mutate(run.id)} />
-          {run.status === 'done' && (
-            <div className="space-y-4">
-              <div aria-labelledby="summary-heading" role="region" className="rounded-md border-l-4 border-brand bg-brand-light px-4 py-3 text-sm">
-                <h3 id="summary-heading" className="font-bold">
-                  What the simulation shows
-                </h3>
-                {run.summary && run.summary.length > 0 ? (
-                  <ul className="mt-1 list-disc space-y-1 pl-5" data-testid="summary-sentences">
-                    {run.summary.map((s) => (
-                      <li key={s}>{s}</li>
-                    ))}
-                  </ul>
-                ) : (
-                  <p className="mt-1" data-testid="summary-sentences">
-                    Every analysis kept its promised false-positive rate, coverage, bias and standard error within about 3 Monte Carlo SEs.
-                  </p>
-                )}
-              </div>
-              <ResultsTable rows={rows} replicates={run.spec.replicates} alpha={alpha} />
-              <div className="grid gap-4 xl:grid-cols-2">
-                <DotPlot id="false-positive" title={`False-positive rate against the nominal ${Math.round(alpha * 100)}%`} measure="False-positive rate" points={pointsOf('typeIError')} nominal={alpha} />
-                <DotPlot id="coverage" title={`Coverage of the ${Math.round((1 - alpha) * 100)}% confidence interval`} measure="Coverage" points={pointsOf('coverage')} nominal={1 - alpha} />
-                <DotPlot id="power" title="Power at the planned effect" measure="Power" points={pointsOf('power')} />
-              </div>
-            </div>
-          )}
+          {run.status === 'done' && run.results && <RunResults run={run} planned={planned} targetPower={targetPower} />}
+        </section>
+      )}
+      {lastRun && (
+        <section aria-labelledby="last-done-heading" className="space-y-4 rounded-lg border border-line bg-white p-5" data-testid="last-finished-run">
+          <h2 id="last-done-heading" className="text-lg font-bold">
+            Last finished run: design revision {lastRun.revision ?? '—'}
+          </h2>
+          <p className="text-sm text-muted">
+            Started {new Date(lastRun.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' })} UTC ·{' '}
+            {sizeOf(lastRun.spec).toLocaleString('en-GB')} {sizeLabel} · {lastRun.spec.replicates.toLocaleString('en-GB')} replicates per scenario
+          </p>
+          <RunResults run={lastRun} planned={planned} targetPower={targetPower} />
         </section>
       )}
       {current.isError && <Alert tone="error">{message(current.error)}</Alert>}

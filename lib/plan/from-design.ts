@@ -428,8 +428,10 @@ function repeated(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, rec: Reco
   const recAdjusts = rec?.analysisPatch.adjustsForBaseline === true;
   const analysis = nBase > 0 && (planAdjusts || recAdjusts) ? 'ancova' : nBase > 0 ? 'change' : 'post';
   const analysisWords = { ancova: 'ANCOVA (follow-up mean adjusted for the baseline mean)', change: 'the change from baseline', post: 'the mean of the follow-ups' }[analysis];
+  // The answer is for ANCOVA where there is a baseline (never less efficient); the Plan shows the
+  // three analyses side by side, the plan's own marked (components/calculations/baseline-comparison.tsx).
   b.rationale.push(
-    `${cap(noun(E.level, true))} are assigned to the arms and measured ${nBase > 0 ? `at ${nBase} baseline and ${nFollow} follow-up occasion${nFollow === 1 ? '' : 's'}` : `on ${nFollow} occasions`}; the calculation compares ${analysisWords} between the arms (${FRISON_POCOCK_1992.short}).` +
+    `${cap(noun(E.level, true))} are assigned to the arms and measured ${nBase > 0 ? `at ${nBase} baseline and ${nFollow} follow-up occasion${nFollow === 1 ? '' : 's'}` : `on ${nFollow} occasions`}; the calculation compares ${nBase > 0 ? `ANCOVA (follow-up mean adjusted for the baseline mean), beside the follow-up only and the change from baseline; the analysis plan uses ${analysisWords}` : analysisWords} between the arms (${FRISON_POCOCK_1992.short}).` +
       (analysis === 'ancova' ? (planAdjusts ? ' The analysis plan adjusts for the baseline.' : ' The Checks recommend adjusting for the baseline.') : ''),
   );
   if (analysis === 'change') b.notes.push(`The plan compares changes from baseline; ANCOVA on the baseline is never less efficient (${FRISON_POCOCK_1992.short}; ${VICKERS_ALTMAN_2001.short}).`);
@@ -450,7 +452,8 @@ function independent(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary
   const planned = smallestArm(f, E);
   armsNotes(b, f, true);
   if (shares.length >= 2 && Math.abs(shares[1]! / shares[0]! - 1) > 1e-9) {
-    b.set('ratio', tidy(shares[1]! / shares[0]!), `Allocation ratio (${d.assignment.arms[1]!.name} : ${d.assignment.arms[0]!.name})`, design('Assignment step'));
+    b.set('ratio', tidy(shares[1]! / shares[0]!), `${cap(noun(E.level, true))} in ${d.assignment.arms[1]!.name} for each one in ${d.assignment.arms[0]!.name}`, design('Assignment step'));
+    b.labels.ratio = `${cap(noun(E.level, true))} in ${d.assignment.arms[1]!.name} for each one in ${d.assignment.arms[0]!.name}`;
     b.labels.size = `${noun(E.level, true)} in ${d.assignment.arms[0]!.name}`;
   }
   if (binary) return planForBinaryOutcome(b, f.outcome, { clustered: false, planned });
@@ -498,7 +501,7 @@ export interface OutcomeSizing {
   clusterSize?: { value: number; name: string; source: PlanAssumption['source'] };
   /** The size the design plans: units per arm, or clusters per arm. */
   planned?: number;
-  /** Allocation ratio of the second arm to the first, when the arms are unequal (units randomised one by one). */
+  /** Units in the second arm for each one in the first, when the arms are unequal (units randomised one by one). */
   ratio?: number;
 }
 
@@ -559,7 +562,7 @@ function planForCountOutcome(b: Builder, a: OutcomeFacts, read: OutcomeSizing) {
     sourced('betweenClusterCv', a.betweenClusterCv, 'Between-cluster coefficient of variation of the rate', 'The coefficient of variation of the rates between clusters');
     if (read.clusterSize) b.set('clusterSize', read.clusterSize.value, read.clusterSize.name, read.clusterSize.source);
   } else if (read.ratio !== undefined && Math.abs(read.ratio - 1) > 1e-9) {
-    b.set('ratio', tidy(read.ratio), 'Allocation ratio', design('Assignment step'));
+    b.set('ratio', tidy(read.ratio), 'Units in the second arm for each one in the first', design('Assignment step'));
   }
   if (a.rateRatio) b.set('rateRatio', a.rateRatio.value, 'Rate ratio worth detecting', fromSource(a.rateRatio.source));
   const solveFor = chooseUnknown(b, a.rateRatio !== undefined, sizeInput, 'rateRatio', read.planned, 2);

@@ -3,7 +3,7 @@ import { CLASSROOM_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from '@/db/demo/des
 import { designSchema, type DesignInput } from '@/lib/design/schema';
 import { SHAPES } from '@/lib/design/test-shapes';
 import { simulationSpecSchema } from './spec';
-import { describeSimulation, sizeWords, specFromDesign } from './from-design';
+import { describeSimulation, plannedAnalysis, sizeWords, specFromDesign } from './from-design';
 
 const parse = (d: DesignInput) => designSchema.parse(d);
 
@@ -323,5 +323,25 @@ describe('what the tab says is simulated, in the design’s words', () => {
     expect(words(SHAPES['count outcome, individually randomised']).text[1]).toBe(
       'The effect is a log rate ratio of -0.2877 (rate ratio 0.75; a mean count of 1 per patient over the follow-up without the intervention); bias and CI width are on the log scale.',
     );
+  });
+});
+
+describe('plannedAnalysis: the design\'s planned analysis in the stress test\'s names', () => {
+  const specOfDesign = (d: DesignInput) => {
+    const out = specFromDesign(parse(d));
+    if (!out.ok) throw new Error('not simulated');
+    return out.spec;
+  };
+  it.each([
+    ['a t test of pupils in randomised classrooms', CLASSROOM_DESIGN, {}, 'ols'],
+    ['the same as a mixed model', CLASSROOM_DESIGN, { method: 'mixed-model' }, 'mixed'],
+    ['with CR2 standard errors', CLASSROOM_DESIGN, { standardErrors: 'cr2' }, 'cluster-robust'],
+    ['as cluster means', CLASSROOM_DESIGN, { method: 'cluster-means' }, 'cluster-means'],
+    ['robust regression', CLASSROOM_DESIGN, { method: 'robust-regression' }, 'huber'],
+    ['no method named', CLASSROOM_DESIGN, { method: 'other' }, null],
+    ['the sleep cross-over of 8 nights, t test', SLEEP_DESIGN, {}, 'ols'],
+  ] as const)('%s', (_name, design, analysis, want) => {
+    const d = { ...design, analysis: { ...design.analysis, ...analysis } } as DesignInput;
+    expect(plannedAnalysis(parse(d), specOfDesign(d))).toBe(want);
   });
 });

@@ -479,3 +479,43 @@ export function describeSimulation(design: Design, spec: SimulationSpecInput): s
   }
   return out;
 }
+
+/**
+ * The stress test's analysis that is the design's planned one (Analysis step), when the run can
+ * show it: a mixed model → `mixed` (`glmm` for a binary or count outcome); GEE or cluster-robust
+ * standard errors → `cluster-robust`; cluster means → `cluster-means`; a GLM → `glm` (`glm-nb`
+ * for a negative-binomial family); robust regression → `huber`; a t test, linear regression or
+ * ANCOVA → `ols` (`period-difference` for a t test of a two-period cross-over, `ols-hc3` with
+ * HC3 standard errors, `log-ols` on the log scale). Null when no method is planned ('other' or
+ * none). A run that did not include it cannot show it: the caller checks the run's analyses.
+ */
+export function plannedAnalysis(design: Design, spec: SimulationSpecInput): AnalysisName | null {
+  const a = design.analysis;
+  const binaryOrCount = (spec.truth.family ?? 'gaussian') !== 'gaussian';
+  const planned = ((): AnalysisName | null => {
+    switch (a.method) {
+      case 'mixed-model':
+      case 'glmm':
+        return binaryOrCount ? 'glmm' : 'mixed';
+      case 'gee':
+        return 'cluster-robust';
+      case 'cluster-means':
+        return 'cluster-means';
+      case 'glm':
+        return a.glmFamily === 'negative-binomial' ? 'glm-nb' : binaryOrCount ? 'glm' : 'ols';
+      case 'robust-regression':
+        return 'huber';
+      case 't-test':
+      case 'linear-regression':
+      case 'ancova':
+        if (a.standardErrors === 'cluster-robust' || a.standardErrors === 'cr2') return 'cluster-robust';
+        if (a.standardErrors === 'hc3') return 'ols-hc3';
+        if (a.transformation === 'log') return 'log-ols';
+        if (spec.design.crossover?.periods === 2 && a.method === 't-test' && !binaryOrCount) return 'period-difference';
+        return binaryOrCount ? 'glm' : 'ols';
+      default:
+        return null;
+    }
+  })();
+  return planned;
+}

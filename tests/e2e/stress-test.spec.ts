@@ -1,9 +1,12 @@
 /**
  * The Stress test tab on the demo's classroom design: a small run (300 replicates) goes through
  * the queue and the worker that the end-to-end setup starts; the progress bar advances to its
- * maximum; the results table (scenario × analysis, each value ± MC SE) and the dot plots appear,
- * with the summary sentences; the run is listed with its design revision; sorting is kept in the
- * URL; no serious or critical axe violations.
+ * maximum; the result leads with the verdict grid — the planned analysis (a t test of pupils,
+ * ols) fails its false-positive rate and its power is not counted, each cell's Monte Carlo
+ * error shows on keyboard focus — then the best alternative; the detail table (scenario ×
+ * analysis, each value ± MC SE) and the summary sentences are collapsed below; the run is listed
+ * with its design revision; sorting is kept in the URL; cancelling a second run asks first and
+ * keeps the finished run in view; no serious or critical axe violations.
  *
  * The sleep-timing demo (each volunteer follows both schedules over 8 nights) runs from its tab
  * too: a cross-over of 8 periods with the carry-over scenario the design asks for, to a finished
@@ -19,6 +22,7 @@ import { WorkspacePage } from './pages/workspace-page';
 import { expectNoSeriousA11yViolations as checkA11y } from './support/axe';
 import { registerAndSignIn } from './support/flows';
 import { distinctClientHeaders, STRONG_PASSWORD, uniqueEmail } from './support/test-data';
+import { atBothWidths } from './support/widths';
 
 test.use({ extraHTTPHeaders: distinctClientHeaders() });
 
@@ -55,19 +59,38 @@ test('classroom design: a small stress test runs, shows progress, then results a
     await expect(stress.progressText).toHaveText('300 of 300 replicates');
   });
 
-  await test.step('results: table, dot plots with their data tables, summary sentences', async () => {
-    await expect(stress.results).toBeVisible({ timeout: 30_000 });
+  await test.step('results: the verdict grid first, the best alternative, the detail table collapsed', async () => {
+    await expect(stress.grid).toBeVisible({ timeout: 30_000 });
+    // The planned analysis leads: a t test of the pupils ignores the classrooms (ICC 0.15).
+    await expect(stress.plannedRow.getByRole('rowheader')).toContainText('ols');
+    await expect(stress.plannedRow.getByRole('rowheader')).toContainText('planned');
+    const cell = stress.plannedRow.getByTestId('verdict-cell');
+    await expect(cell).toHaveAttribute('data-verdict', 'broken');
+    await expect(cell).toContainText('Fails');
+    await expect(cell).toContainText('Power not counted');
+    await expect(page.getByTestId('verdict-headline')).toContainText('The planned analysis, ols, fails in 1 of 1 scenario');
+    // The Monte Carlo error on keyboard focus, as a tooltip the cell is described by.
+    await cell.focus();
+    const tip = page.getByRole('tooltip');
+    await expect(tip).toBeVisible();
+    await expect(tip).toContainText(/False-positive rate \d+\.\d% ± \d+\.\d% MC SE/);
+    await expect(cell).toHaveAccessibleDescription(/not counted/);
+    await page.keyboard.press('Escape');
+    await expect(tip).toBeHidden();
+    await expect(stress.bestAlternative).toContainText(/^(cluster-robust|cluster-means|mixed) keeps its false-positive rate and coverage in every scenario/);
+    // Every figure is still there, collapsed.
+    await expect(stress.results).toBeHidden();
+    await stress.openDetails();
+    await expect(stress.results).toBeVisible();
     const rows = await stress.resultRows();
     expect(rows).toHaveLength(4);
     // Ignoring the classrooms (ICC 0.15, 23 pupils analysed in each), ols's false-positive rate is far above 5%.
     const ols = rows.find((r) => / ols /.test(` ${r} `));
     expect(ols, rows.join('\n')).toMatch(/^Assumptions hold .* ols \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
     await expect(stress.summary).toContainText('analysed with ols, the false-positive rate is');
-    await expect(stress.falsePositiveChart.locator('.recharts-surface')).toBeVisible();
-    await expect(stress.coverageChart.locator('.recharts-surface')).toBeVisible();
-    await expect(stress.falsePositiveChart.getByTestId('chart-false-positive-table').locator('tbody tr')).toHaveCount(4);
     await expect(stress.pastRuns.getByRole('row').filter({ hasText: 'Shown above' })).toContainText(`${revision}`);
     await checkA11y(page, 'stress test tab with results');
+    await atBothWidths(page, 'stress-test-classroom-results');
   });
 
   await test.step('sorting by the false-positive rate is kept in the URL', async () => {
@@ -77,6 +100,25 @@ test('classroom design: a small stress test runs, shows progress, then results a
     await expect(page).toHaveURL(/sort=typeIError\.desc/);
     await expect(stress.results.getByRole('columnheader', { name: /False-positive rate/ })).toHaveAttribute('aria-sort', 'descending');
     await expect(stress.results.locator('tbody tr').first().getByRole('rowheader')).toHaveText('ols');
+  });
+
+  await test.step('cancelling asks first, and the finished run stays in view', async () => {
+    // A long run (6 scenarios × 20,000 replicates), so that it is still going when cancelled.
+    for (const name of [/^Right-skewed/, /^Heavy-tailed/, /^Outliers/, /^Unequal variance/, /^Curved relation/]) await stress.scenario(name).check();
+    await stress.replicates.fill('20000');
+    await stress.run.click();
+    await expect(stress.cancel).toBeVisible({ timeout: 30_000 });
+    await stress.cancel.click();
+    await expect(page.getByText('Stop this run?')).toBeVisible();
+    await page.getByRole('button', { name: 'Keep it running' }).click();
+    await expect(page.getByText('Stop this run?')).toHaveCount(0);
+    await expect(stress.lastFinished).toBeVisible();
+    await expect(stress.lastFinished.getByTestId('planned-row').getByTestId('verdict-cell')).toHaveAttribute('data-verdict', 'broken');
+    await checkA11y(page, 'stress test tab while a run goes on, the finished one in view');
+    await stress.cancel.click();
+    await page.getByRole('button', { name: 'Yes, stop the run' }).click();
+    await expect(page.getByText('Cancelled', { exact: true }).first()).toBeVisible({ timeout: 30_000 });
+    await expect(stress.lastFinished).toBeVisible();
   });
 });
 
@@ -105,7 +147,9 @@ test('sleep-timing design: the cross-over of 8 nights runs from the tab, carry-o
   await expect(stress.progress).toHaveAttribute('aria-valuemax', '200');
   await expect.poll(() => stress.replicatesDone(), { timeout: 180_000, intervals: [250, 500, 1000] }).toBe(200);
 
-  await expect(stress.results).toBeVisible({ timeout: 30_000 });
+  await expect(stress.grid).toBeVisible({ timeout: 30_000 });
+  await expect(stress.grid.getByTestId('verdict-cell')).toHaveCount(8);
+  await stress.openDetails();
   const rows = await stress.resultRows();
   expect(rows).toHaveLength(8);
   expect(rows.filter((r) => r.startsWith('Carry-over'))).toHaveLength(4);
@@ -114,4 +158,5 @@ test('sleep-timing design: the cross-over of 8 nights runs from the tab, carry-o
   // Carry-over biases every analysis that adjusts for period only (the design's warning, made visible).
   await expect(stress.summary).toContainText('With carry-over between periods, analysed with mixed, the estimate is off by');
   await expect(page.getByText(/12 volunteers per sequence/).first()).toBeVisible();
+  await atBothWidths(page, 'stress-test-sleep-results');
 });

@@ -1,6 +1,6 @@
 import { expect, type Locator, type Page } from '@playwright/test';
 
-/** /studies/<id>/stress-test: the run form, the current run's progress and results, its charts and the study's runs. */
+/** /studies/<id>/stress-test: the run form, the current run's progress, its verdict grid and detail table, and the study's runs. */
 export class StressTestPage {
   readonly heading: Locator;
   readonly caution: Locator;
@@ -13,8 +13,11 @@ export class StressTestPage {
   readonly progressText: Locator;
   readonly summary: Locator;
   readonly results: Locator;
-  readonly falsePositiveChart: Locator;
-  readonly coverageChart: Locator;
+  readonly grid: Locator;
+  readonly plannedRow: Locator;
+  readonly bestAlternative: Locator;
+  readonly details: Locator;
+  readonly lastFinished: Locator;
   readonly pastRuns: Locator;
 
   constructor(readonly page: Page) {
@@ -27,10 +30,13 @@ export class StressTestPage {
     this.cancel = page.getByRole('button', { name: 'Cancel this run' });
     this.progress = page.getByRole('progressbar', { name: 'Replicates done' });
     this.progressText = page.getByTestId('progress-text');
-    this.summary = page.getByRole('region', { name: 'What the simulation shows' });
-    this.results = page.getByTestId('results-table');
-    this.falsePositiveChart = page.getByTestId('chart-false-positive');
-    this.coverageChart = page.getByTestId('chart-coverage');
+    this.summary = page.getByRole('region', { name: 'What the simulation shows' }).first();
+    this.results = page.getByTestId('results-table').first();
+    this.grid = page.getByTestId('verdict-grid').first();
+    this.plannedRow = this.grid.getByTestId('planned-row');
+    this.bestAlternative = page.getByTestId('best-alternative').first();
+    this.details = page.getByTestId('run-details').first();
+    this.lastFinished = page.getByTestId('last-finished-run');
     this.pastRuns = page.getByRole('region', { name: 'Runs of this study' });
   }
 
@@ -52,6 +58,11 @@ export class StressTestPage {
     if ((await this.progress.count()) === 0) return null;
     const v = await this.progress.getAttribute('aria-valuenow');
     return v === null ? null : Number(v);
+  }
+
+  /** Opens the collapsed detail (summary sentences and the table of every figure). */
+  async openDetails(): Promise<void> {
+    if ((await this.details.getAttribute('open')) === null) await this.details.locator('summary').click();
   }
 
   /** The results table's rows as text, cells joined by a space: "scenario analysis power …". */

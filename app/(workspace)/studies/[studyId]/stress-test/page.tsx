@@ -15,7 +15,7 @@ import { AppError } from '@/lib/errors';
 import type { SimulationDto } from '@/lib/api/simulations';
 import { load } from '@/lib/page-guard';
 import { offeredAnalyses } from '@/lib/sim/analyses';
-import { describeSimulation, sizeWords } from '@/lib/sim/from-design';
+import { describeSimulation, plannedAnalysis, sizeWords } from '@/lib/sim/from-design';
 import type { SimulationSpec } from '@/lib/sim/spec';
 
 export const metadata: Metadata = { title: 'Stress test' };
@@ -125,6 +125,8 @@ export default async function StressTestPage({ params, searchParams }: { params:
           initialRun={initialRun}
           runs={runs}
           sizeLabel={sizeLabel}
+          planned={defaults.spec ? plannedAnalysis(state.design, defaults.spec) : null}
+          targetPower={state.design.assumptions.power}
         />
       </Suspense>
     </div>
