@@ -1,5 +1,6 @@
 'use client';
 
+import { nounFor } from '@/lib/format';
 import { CartesianGrid, ErrorBar, Label, ReferenceLine, ResponsiveContainer, Scatter, ScatterChart, Tooltip, XAxis, YAxis } from 'recharts';
 import { axisStyle, CHART } from '@/components/plan/chart-style';
 import { formatRate, type MetricValue } from './words';
@@ -50,7 +51,7 @@ export function dotPlotSummary({ measure, points, nominal }: DotPlotProps): stri
   });
   const head = `${measure} against the nominal ${formatRate(nominal)}, with ±1.96 Monte Carlo SE.`;
   if (off.length === 0) return `${head} Every analysis is within its Monte Carlo error of ${formatRate(nominal)}.`;
-  return `${head} Away from ${formatRate(nominal)} by more than the Monte Carlo error: ${off.map(name).join('; ')}. The other ${shown.length - off.length} ${shown.length - off.length === 1 ? 'is' : 'are'} within it.`;
+  return `${head} Away from ${formatRate(nominal)} by more than the Monte Carlo error: ${off.map(name).join('; ')}. The other ${shown.length - off.length} ${nounFor(shown.length - off.length, 'is', 'are')} within it.`;
 }
 
 /** A dot per scenario × analysis with its ±1.96 MC SE bar, against a nominal line; a summary and a data table behind it. */

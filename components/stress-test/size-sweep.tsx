@@ -1,5 +1,6 @@
 'use client';
 
+import { plural } from '@/lib/format';
 import { useQueries } from '@tanstack/react-query';
 import { CartesianGrid, ErrorBar, Label, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { axisStyle, CHART, chartMargin } from '@/components/plan/chart-style';
@@ -89,7 +90,7 @@ export function SizeSweep({ run, sweepIds, sizeLabel, canRun, starting, error, o
         {error && <p className="font-medium text-danger">{error}</p>}
         {pending.length > 0 && (
           <p>
-            {pending.length} run{pending.length === 1 ? '' : 's'} at other sizes in progress: {pending.map((r) => progressText(r.progress)).join('; ')}.
+            {plural(pending.length, 'run')} at other sizes in progress: {pending.map((r) => progressText(r.progress)).join('; ')}.
           </p>
         )}
         {failed.length > 0 && <p className="font-medium text-danger">{failed.length} of the runs at other sizes did not finish ({failed.map((r) => r.error ?? r.status).join('; ')}).</p>}

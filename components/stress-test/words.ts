@@ -3,6 +3,7 @@
  * analysis in plain words, and how a metric with its Monte Carlo SE is written
  * ("81.2% ± 1.2%"). Shared by the form, the results table, the charts and their summaries.
  */
+import { formatPercent } from '@/lib/format';
 import type { AnalysisName } from '@/lib/models/types';
 import type { Scenario, Violation } from '@/lib/sim/spec';
 
@@ -80,8 +81,7 @@ export const RESULT_COLUMNS = [
 export type ResultColumn = (typeof RESULT_COLUMNS)[number]['key'];
 
 export function formatRate(p: number | null | undefined): string {
-  if (p === null || p === undefined || !Number.isFinite(p)) return '—';
-  return `${(100 * p).toFixed(1)}%`;
+  return formatPercent(p);
 }
 
 function formatPlain(x: number | null | undefined): string {

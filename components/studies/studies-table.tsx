@@ -1,5 +1,6 @@
 'use client';
 
+import { formatDate, plural } from '@/lib/format';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { flexRender, getCoreRowModel, useReactTable, type ColumnDef } from '@tanstack/react-table';
 import Link from 'next/link';
@@ -74,7 +75,7 @@ export function StudiesTable({ workspaceId }: { workspaceId: string }) {
       {
         id: 'updated',
         header: 'Last changed',
-        cell: ({ row }) => <time dateTime={row.original.updatedAt}>{new Date(row.original.updatedAt).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' })}</time>,
+        cell: ({ row }) => <time dateTime={row.original.updatedAt}>{formatDate(row.original.updatedAt)}</time>,
       },
     ],
     [],
@@ -197,7 +198,7 @@ export function StudiesTable({ workspaceId }: { workspaceId: string }) {
 
       <nav aria-label="Pages of studies" className="flex items-center justify-between text-sm">
         <p aria-live="polite">
-          {data ? `${data.total} stud${data.total === 1 ? 'y' : 'ies'} · page ${page} of ${pages}` : ''}
+          {data ? `${plural(data.total, 'study')} · page ${page} of ${pages}` : ''}
         </p>
         <div className="flex gap-2">
           <button

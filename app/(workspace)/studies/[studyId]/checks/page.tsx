@@ -1,3 +1,4 @@
+import { plural } from '@/lib/format';
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { FindingsList } from '@/components/design/findings-list';
@@ -23,7 +24,7 @@ export default async function ChecksPage({ params }: { params: Promise<{ studyId
           Findings for revision {state.revision}
         </h2>
         <p className="text-sm text-muted">
-          {findings.length} finding{findings.length === 1 ? '' : 's'}, {blockers} blocker{blockers === 1 ? '' : 's'}. Checks run on the saved design;{' '}
+          {plural(findings.length, 'finding')}, {plural(blockers, 'blocker')}. Checks run on the saved design;{' '}
           <Link href={`/studies/${studyId}/design`} className="text-brand underline">
             edit the design
           </Link>{' '}
