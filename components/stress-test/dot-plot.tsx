@@ -1,5 +1,6 @@
 'use client';
 
+import { analysisLabel } from '@/lib/sim/analysis-words';
 import { nounFor } from '@/lib/format';
 import { CartesianGrid, ErrorBar, Label, ReferenceLine, ResponsiveContainer, Scatter, ScatterChart, Tooltip, XAxis, YAxis } from 'recharts';
 import { axisStyle, CHART } from '@/components/plan/chart-style';
@@ -38,7 +39,7 @@ function interval(m: MetricValue): [number, number] | null {
 export function dotPlotSummary({ measure, points, nominal }: DotPlotProps): string {
   const shown = points.filter((p) => interval(p.metric) !== null);
   if (shown.length === 0) return `No ${measure.toLowerCase()} to show.`;
-  const name = (p: DotPoint) => `${p.analysis} (${p.scenarioLabel}): ${formatRate(p.metric.value)}`;
+  const name = (p: DotPoint) => `${analysisLabel(p.analysis)} (${p.scenarioLabel}): ${formatRate(p.metric.value)}`;
   if (nominal === undefined) {
     const byValue = [...shown].sort((a, b) => (b.metric.value ?? 0) - (a.metric.value ?? 0));
     const hi = byValue[0]!;
@@ -63,7 +64,7 @@ export default function DotPlot(props: DotPlotProps) {
     .map((p) => {
       const v = p.metric.value!;
       const [lo, hi] = interval(p.metric)!;
-      return { label: single ? p.analysis : `${p.analysis} · ${p.scenarioLabel}`, value: v * 100, error: [(v - lo) * 100, (hi - v) * 100] };
+      return { label: single ? analysisLabel(p.analysis) : `${analysisLabel(p.analysis)} · ${p.scenarioLabel}`, value: v * 100, error: [(v - lo) * 100, (hi - v) * 100] };
     });
   const lows = data.map((d) => d.value - d.error[0]!);
   const highs = data.map((d) => d.value + d.error[1]!);
@@ -134,7 +135,7 @@ export default function DotPlot(props: DotPlotProps) {
                 <tr key={`${p.scenarioLabel}/${p.analysis}`} className="border-b border-line/60">
                   <td className="py-0.5 pr-3">{p.scenarioLabel}</td>
                   <th scope="row" className="py-0.5 pr-3 font-normal">
-                    {p.analysis}
+                    {analysisLabel(p.analysis)}
                   </th>
                   <td className="py-0.5 pr-3 text-right tabular-nums">{formatRate(p.metric.value)}</td>
                   <td className="py-0.5 text-right tabular-nums">{iv ? `${formatRate(iv[0])} to ${formatRate(iv[1])}` : '—'}</td>

@@ -1,5 +1,6 @@
 'use client';
 
+import { analysisLabel } from '@/lib/sim/analysis-words';
 import { plural } from '@/lib/format';
 import { useQueries } from '@tanstack/react-query';
 import { CartesianGrid, ErrorBar, Label, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
@@ -67,7 +68,7 @@ export function SizeSweep({ run, sweepIds, sizeLabel, canRun, starting, error, o
           .map((a) => {
             const first = points[0]!.byAnalysis[a];
             const last = points[points.length - 1]!.byAnalysis[a];
-            return `${a}: ${formatRate(first?.value)} with ${points[0]!.size} to ${formatRate(last?.value)} with ${points[points.length - 1]!.size}`;
+            return `${analysisLabel(a)}: ${formatRate(first?.value)} with ${points[0]!.size} to ${formatRate(last?.value)} with ${points[points.length - 1]!.size}`;
           })
           .join('; ');
 
@@ -116,7 +117,7 @@ export function SizeSweep({ run, sweepIds, sizeLabel, canRun, starting, error, o
                 <Tooltip formatter={(v, n) => [`${Number(v).toFixed(1)}%`, String(n)]} labelFormatter={(l) => `${l} ${sizeLabel}`} contentStyle={{ borderColor: CHART.grid, color: CHART.ink, fontSize: 13 }} />
                 <Legend verticalAlign="top" wrapperStyle={{ color: CHART.ink, fontSize: 13 }} />
                 {analyses.map((a, i) => (
-                  <Line key={a} dataKey={a} name={a} stroke={SERIES_COLOURS[i % SERIES_COLOURS.length]} strokeWidth={2} isAnimationActive={false} connectNulls>
+                  <Line key={a} dataKey={a} name={analysisLabel(a)} stroke={SERIES_COLOURS[i % SERIES_COLOURS.length]} strokeWidth={2} isAnimationActive={false} connectNulls>
                     <ErrorBar dataKey={`${a}-err`} direction="y" width={5} stroke={SERIES_COLOURS[i % SERIES_COLOURS.length]} />
                   </Line>
                 ))}
@@ -134,7 +135,7 @@ export function SizeSweep({ run, sweepIds, sizeLabel, canRun, starting, error, o
                   </th>
                   {analyses.map((a) => (
                     <th key={a} scope="col" className="py-1 pr-3 text-right">
-                      {a}
+                      {analysisLabel(a)}
                     </th>
                   ))}
                 </tr>

@@ -50,17 +50,17 @@ export function describeScenario(s: Scenario): string {
 }
 
 export const ANALYSIS_TITLES: Record<AnalysisName, string> = {
-  ols: 'ols — least squares, model-based SE (ignores clustering)',
+  ols: 'Least squares, model-based SE (ignores clustering)',
   'ols-hc3': 'ols-hc3 — least squares with HC3 robust SE',
-  'cluster-robust': 'cluster-robust — CR2 cluster-robust SE, small-sample df',
-  'cluster-means': 'cluster-means — analysis of cluster or unit means',
-  mixed: 'mixed — linear mixed model (REML, random intercepts)',
-  huber: 'huber — Huber M-estimation (k = 1.345), sandwich SE',
-  'log-ols': 'log-ols — least squares on the log outcome (effect as a ratio)',
-  glm: 'glm — logistic or Poisson regression',
-  'glm-nb': 'glm-nb — negative-binomial regression for overdispersed counts',
-  glmm: 'glmm — logistic or Poisson mixed model with a random intercept',
-  'period-difference': 'period-difference — t test on the differences between the two periods (AB/BA cross-over)',
+  'cluster-robust': 'CR2 cluster-robust SE, small-sample df',
+  'cluster-means': 'Analysis of cluster or unit means',
+  mixed: 'Linear mixed model (REML, random intercepts)',
+  huber: 'Huber M-estimation (k = 1.345), sandwich SE',
+  'log-ols': 'Least squares on the log outcome (effect as a ratio)',
+  glm: 'Logistic or Poisson regression',
+  'glm-nb': 'Negative-binomial regression for overdispersed counts',
+  glmm: 'Logistic or Poisson mixed model with a random intercept',
+  'period-difference': 't test on the differences between the two periods (AB/BA cross-over)',
 };
 
 export interface MetricValue {

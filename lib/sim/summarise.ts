@@ -20,6 +20,7 @@
  * is not called a departure on a handful of replicates. Power has no nominal value and gets no
  * sentence. (MC SEs: Morris, White & Crowther 2019, Stat Med 38:2074.)
  */
+import { analysisLabel } from './analysis-words';
 import { formatPercent } from '@/lib/format';
 import type { AnalysisName } from '@/lib/models/types';
 import { scenarioKey, type Scenario, type SimulationSpec } from './spec';
@@ -76,7 +77,7 @@ export function summarise(spec: SimulationSpec, results: SimulationResults): str
     for (const analysis of spec.analyses) {
       const m = byAnalysis[analysis as AnalysisName];
       if (!m) continue;
-      const lead = `${scenarioPhrase(scenario)}, analysed with ${analysis}`;
+      const lead = `${scenarioPhrase(scenario)}, analysed with ${analysisLabel(analysis)}`;
       if (departs(m.typeIError, alpha, rateMcse(alpha))) {
         sentences.push(`${lead}, the false-positive rate is ${percent(m.typeIError.value)}, not ${percent(alpha)}.`);
       }

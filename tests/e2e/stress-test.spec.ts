@@ -62,7 +62,7 @@ test('classroom design: a small stress test runs, shows progress, then results a
     // Ignoring the classrooms (ICC 0.15, 25 pupils each), ols's false-positive rate is far above 5%.
     const ols = rows.find((r) => / ols /.test(` ${r} `));
     expect(ols, rows.join('\n')).toMatch(/^Assumptions hold .* ols \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
-    await expect(stress.summary).toContainText('analysed with ols, the false-positive rate is');
+    await expect(stress.summary).toContainText('analysed with least squares, the false-positive rate is');
     await expect(stress.falsePositiveChart.locator('.recharts-surface')).toBeVisible();
     await expect(stress.coverageChart.locator('.recharts-surface')).toBeVisible();
     await expect(stress.falsePositiveChart.getByTestId('chart-false-positive-table').locator('tbody tr')).toHaveCount(4);
@@ -76,7 +76,7 @@ test('classroom design: a small stress test runs, shows progress, then results a
     await stress.results.getByRole('button', { name: /False-positive rate/ }).click();
     await expect(page).toHaveURL(/sort=typeIError\.desc/);
     await expect(stress.results.getByRole('columnheader', { name: /False-positive rate/ })).toHaveAttribute('aria-sort', 'descending');
-    await expect(stress.results.locator('tbody tr').first().getByRole('rowheader')).toHaveText('ols');
+    await expect(stress.results.locator('tbody tr').first().getByRole('rowheader')).toHaveText('least squares');
   });
 });
 
@@ -112,6 +112,6 @@ test('sleep-timing design: the cross-over of 8 nights runs from the tab, carry-o
   const mixed = rows.find((r) => /^Assumptions hold .* mixed /.test(r));
   expect(mixed, rows.join('\n')).toMatch(/ mixed \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
   // Carry-over biases every analysis that adjusts for period only (the design's warning, made visible).
-  await expect(stress.summary).toContainText('With carry-over between periods, analysed with mixed, the estimate is off by');
+  await expect(stress.summary).toContainText('With carry-over between periods, analysed with linear mixed model, the estimate is off by');
   await expect(page.getByText(/12 volunteers per sequence/).first()).toBeVisible();
 });
