@@ -3,7 +3,7 @@
  * analysis in plain words, and how a metric with its Monte Carlo SE is written
  * ("81.2% ± 1.2%"). Shared by the form, the results table, the charts and their summaries.
  */
-import { formatPercent } from '@/lib/format';
+import { formatNumber, formatPercent } from '@/lib/format';
 import type { AnalysisName } from '@/lib/models/types';
 import type { Scenario, Violation } from '@/lib/sim/spec';
 
@@ -21,7 +21,7 @@ export const VIOLATION_TITLES: Record<Violation, string> = {
 };
 
 function num(x: number): string {
-  return Number(x.toPrecision(4)).toLocaleString('en-GB', { maximumFractionDigits: 4 });
+  return formatNumber(x, 4);
 }
 
 /** "Heavy-tailed errors (t with 3 df)": the scenario with its parameters, in plain words. */
@@ -85,9 +85,7 @@ export function formatRate(p: number | null | undefined): string {
 }
 
 function formatPlain(x: number | null | undefined): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  if (Number.isInteger(x)) return x.toLocaleString('en-GB');
-  return Number(x.toPrecision(3)).toLocaleString('en-GB', { maximumFractionDigits: 6 });
+  return x === null || x === undefined ? '—' : formatNumber(x, 3);
 }
 
 /** "81.2% ± 1.2%" for a rate, "0.012 ± 0.031" otherwise; "—" where the value is missing. */
@@ -102,7 +100,7 @@ export function formatMetric(m: MetricValue | undefined, rate: boolean): string 
 export function formatFailedFits(m: MetricValue | undefined, replicates: number): string {
   if (!m || m.value === null || !Number.isFinite(m.value)) return '—';
   const asked = 2 * replicates;
-  return `${m.value.toLocaleString('en-GB')} of ${asked.toLocaleString('en-GB')} (${formatRate(m.value / asked)})`;
+  return `${formatNumber(m.value)} of ${formatNumber(asked)} (${formatRate(m.value / asked)})`;
 }
 
 /** Monte Carlo SE of an estimated rate p over R replicates, √(p(1 − p)/R) (Morris, White & Crowther 2019, Stat Med 38:2074). */
