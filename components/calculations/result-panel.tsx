@@ -95,7 +95,7 @@ function ValueTable({ caption, keys, output }: { caption: string; keys: string[]
         {keys.map((key) => (
           <tr key={key} className="border-t border-line">
             <th scope="row" className="py-1 pr-3 font-normal text-muted">
-              {labelOf(key)} <span className="font-mono text-xs">({key})</span>
+              {labelOf(key)}
             </th>
             <td className="py-1 text-right font-semibold tabular-nums">{formatValue(key, output.result[key])}</td>
           </tr>

@@ -170,7 +170,7 @@ export function DesignWizard({
         </ol>
       </nav>
 
-      <section aria-labelledby="step-heading" className="min-w-0 space-y-4">
+      <section aria-labelledby="step-heading" className="@container min-w-0 space-y-4">
         <div className="flex flex-wrap items-center justify-between gap-2">
           <h2 id="step-heading" className="text-xl font-bold">
             {current.label}

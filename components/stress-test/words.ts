@@ -51,7 +51,7 @@ export function describeScenario(s: Scenario): string {
 
 export const ANALYSIS_TITLES: Record<AnalysisName, string> = {
   ols: 'Least squares, model-based SE (ignores clustering)',
-  'ols-hc3': 'ols-hc3 — least squares with HC3 robust SE',
+  'ols-hc3': 'Least squares with HC3 robust SE',
   'cluster-robust': 'CR2 cluster-robust SE, small-sample df',
   'cluster-means': 'Analysis of cluster or unit means',
   mixed: 'Linear mixed model (REML, random intercepts)',

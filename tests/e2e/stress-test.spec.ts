@@ -60,8 +60,8 @@ test('classroom design: a small stress test runs, shows progress, then results a
     const rows = await stress.resultRows();
     expect(rows).toHaveLength(4);
     // Ignoring the classrooms (ICC 0.15, 25 pupils each), ols's false-positive rate is far above 5%.
-    const ols = rows.find((r) => / ols /.test(` ${r} `));
-    expect(ols, rows.join('\n')).toMatch(/^Assumptions hold .* ols \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
+    const ols = rows.find((r) => / least squares \d/.test(` ${r} `));
+    expect(ols, rows.join('\n')).toMatch(/^Assumptions hold .* least squares \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
     await expect(stress.summary).toContainText('analysed with least squares, the false-positive rate is');
     await expect(stress.falsePositiveChart.locator('.recharts-surface')).toBeVisible();
     await expect(stress.coverageChart.locator('.recharts-surface')).toBeVisible();
@@ -109,8 +109,8 @@ test('sleep-timing design: the cross-over of 8 nights runs from the tab, carry-o
   const rows = await stress.resultRows();
   expect(rows).toHaveLength(8);
   expect(rows.filter((r) => r.startsWith('Carry-over'))).toHaveLength(4);
-  const mixed = rows.find((r) => /^Assumptions hold .* mixed /.test(r));
-  expect(mixed, rows.join('\n')).toMatch(/ mixed \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
+  const mixed = rows.find((r) => /^Assumptions hold .* linear mixed model /.test(r));
+  expect(mixed, rows.join('\n')).toMatch(/ linear mixed model \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
   // Carry-over biases every analysis that adjusts for period only (the design's warning, made visible).
   await expect(stress.summary).toContainText('With carry-over between periods, analysed with linear mixed model, the estimate is off by');
   await expect(page.getByText(/12 volunteers per sequence/).first()).toBeVisible();

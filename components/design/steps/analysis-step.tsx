@@ -56,7 +56,7 @@ export function AnalysisStep({ value, design, onValid, onDraft, disabled }: Step
           </label>
         </fieldset>
       )}
-      <div className="grid gap-3 sm:grid-cols-2">
+      <div className="grid gap-3 @md:grid-cols-2">
         <SelectField label="Family (for a GLM or GLMM)" {...register('glmFamily', asOptional)}>
           <option value="">Not applicable</option>
           {optionsOf(GLM_FAMILY_WORDS).map(([value, words]) => (
