@@ -11,7 +11,7 @@ import { describe, expect, it } from 'vitest';
 const root = path.resolve(__dirname, '..');
 
 const ENGINE = ['lib/stats', 'lib/models', 'lib/sim'];
-const LEAVES = ['lib/citations.ts', 'lib/text-schema.ts'];
+const LEAVES = ['lib/citations.ts', 'lib/field-messages.ts', 'lib/format.ts', 'lib/text-schema.ts'];
 /** What sits above the engine: request envelopes, the checks, the Plan, the server and the UI. */
 const ABOVE = ['lib/validation', 'lib/rules', 'lib/plan', 'lib/api', 'lib/data', 'lib/jobs', 'lib/auth', 'lib/mail', 'lib/db.ts', 'db/', 'components/', 'app/'];
 
@@ -78,7 +78,7 @@ describe('dependency direction', () => {
     expect(wrong).toEqual([]);
   });
 
-  it.each(LEAVES)('%s imports nothing of the app', (leaf) => {
-    expect(appImports(leaf)).toEqual([]);
+  it.each(LEAVES)('%s imports nothing of the app but other leaves', (leaf) => {
+    expect(appImports(leaf).filter((m) => !LEAVES.includes(m))).toEqual([]);
   });
 });

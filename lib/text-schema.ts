@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { sentenceLabel } from './field-messages';
 
 /**
  * Every string a client sends starts from `rawText` (as sent) or `text` (trimmed, no control
@@ -8,7 +9,8 @@ import { z } from 'zod';
  * lib/validation/strings.test.ts walks every input schema and fails on a string that
  * does not start here.
  *
- * A leaf: it imports nothing of the app, so the engine's contracts (lib/sim/spec.ts,
+ * A leaf: it imports only the leaf lib/field-messages.ts (whose import installs the app's zod error
+ * map wherever a schema exists) and nothing else of the app, so the engine's contracts (lib/sim/spec.ts,
  * lib/stats/calculations/request.ts), the design schema and the request envelopes in
  * lib/validation all build on it.
  */
@@ -17,7 +19,8 @@ const LONE_SURROGATE = /\p{Cs}/u;
 const OTHER_CONTROL = /[\u0001-\u0008\u000B\u000C\u000E-\u001F\u007F]/;
 
 /** A string kept as sent (passwords, tokens, machine keys): only NUL and broken characters are refused. */
-export function rawText(label: string, missing = `${label} must be text.`) {
+export function rawText(name: string, missing = `${sentenceLabel(name)} must be text.`) {
+  const label = sentenceLabel(name);
   return z
     .string({ error: missing })
     .refine((v) => !v.includes(NUL), `${label} contains an invisible NUL character: remove it.`)
@@ -25,8 +28,9 @@ export function rawText(label: string, missing = `${label} must be text.`) {
 }
 
 /** Trimmed text with a length range; control characters other than newline and tab are refused. */
-export function text(label: string, min: number, max: number) {
-  return rawText(label)
+export function text(name: string, min: number, max: number) {
+  const label = sentenceLabel(name);
+  return rawText(name)
     .trim()
     .min(min, min === 1 ? `${label} is required.` : `${label} needs at least ${min} characters.`)
     .max(max, `${label} can be at most ${max} characters.`)

@@ -95,7 +95,7 @@ export function CalculatorForm({ kind }: { kind: CalculationKind }) {
       void form.trigger();
       const first = parsed.error.issues[0];
       setOutput(null);
-      setStatus({ tone: 'error', message: `Check the highlighted values. ${first ? `${labelOf(String(first.path[0] ?? 'input'))}: ${first.message}` : ''}`.trim() });
+      setStatus({ tone: 'error', message: `Check the highlighted values. ${first?.message ?? ''}`.trim() });
       return;
     }
     form.clearErrors();

@@ -3,6 +3,7 @@
  * sizes as whole numbers, other numbers to four significant digits. Nothing shows NaN: a value
  * that is missing or not finite reads "—".
  */
+import { formatNumber, formatPercent } from '@/lib/format';
 import type { ResultValue } from '@/lib/stats/calculations/types';
 
 /** Probabilities shown as percentages: power and false-positive rates. */
@@ -14,22 +15,7 @@ export function isPercentKey(key: string): boolean {
   return PERCENT.test(key) || SHARES.has(key);
 }
 
-export function formatNumber(value: number, digits = 4): string {
-  if (!Number.isFinite(value)) return '—';
-  if (Number.isInteger(value)) return value.toLocaleString('en-GB');
-  const abs = Math.abs(value);
-  if (abs !== 0 && (abs < 1e-4 || abs >= 1e9)) return value.toExponential(digits - 1).replace(/\.?0+e/, 'e');
-  return Number(value.toPrecision(digits)).toLocaleString('en-GB', { maximumFractionDigits: 10 });
-}
-
-export function formatPercent(value: number): string {
-  if (!Number.isFinite(value)) return '—';
-  const pct = value * 100;
-  // 99.96% would round to 100.0% and read as certainty; keep two decimals near the ends.
-  if (pct > 99.9 && pct < 100) return `${Math.min(pct, 99.99).toFixed(2)}%`;
-  if (pct < 0.1 && pct > 0) return `${Math.max(pct, 0.01).toFixed(2)}%`;
-  return `${pct.toFixed(1)}%`;
-}
+export { formatNumber, formatPercent };
 
 export function formatValue(key: string, value: ResultValue | undefined): string {
   if (value === null || value === undefined) return '—';

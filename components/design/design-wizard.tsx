@@ -1,5 +1,6 @@
 'use client';
 
+import { plural } from '@/lib/format';
 import Link from 'next/link';
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { Alert } from '@/components/ui/alert';
@@ -169,7 +170,7 @@ export function DesignWizard({
         </ol>
       </nav>
 
-      <section aria-labelledby="step-heading" className="min-w-0 space-y-4">
+      <section aria-labelledby="step-heading" className="@container min-w-0 space-y-4">
         <div className="flex flex-wrap items-center justify-between gap-2">
           <h2 id="step-heading" className="text-xl font-bold">
             {current.label}
@@ -234,8 +235,8 @@ export function DesignWizard({
         <div className="rounded-lg border border-line bg-white p-3" aria-live="polite">
           <h2 className="text-sm font-bold">Checks</h2>
           <p className="mt-1 flex flex-wrap gap-2 text-sm">
-            <Badge tone={counts.blocker ? 'caution' : 'ok'}>{counts.blocker} blocker{counts.blocker === 1 ? '' : 's'}</Badge>
-            <Badge>{counts.warning} warning{counts.warning === 1 ? '' : 's'}</Badge>
+            <Badge tone={counts.blocker ? 'caution' : 'ok'}>{plural(counts.blocker, 'blocker')}</Badge>
+            <Badge>{plural(counts.warning, 'warning')}</Badge>
             <Badge>{counts.advice} advice</Badge>
           </p>
           <ul className="mt-2 space-y-1 text-sm">

@@ -1,5 +1,6 @@
 'use client';
 
+import { formatDateTime, formatNumber, formatPercent } from '@/lib/format';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState } from 'react';
 import { Alert } from '@/components/ui/alert';
@@ -18,7 +19,7 @@ const SEVERITY: Record<Finding['severity'], { label: string; border: string }> =
 
 function numberText(k: string, v: number): string {
   const label = k.replace(/([A-Z])/g, ' $1').toLowerCase();
-  const value = /rate|error|power|coverage|share|fraction/i.test(k) && v <= 1 ? `${(v * 100).toFixed(1)}%` : Number.isInteger(v) ? v.toLocaleString('en-GB') : v.toLocaleString('en-GB', { maximumSignificantDigits: 3 });
+  const value = /rate|error|power|coverage|share|fraction/i.test(k) && v <= 1 ? formatPercent(v) : formatNumber(v, 3);
   return `${label}: ${value}`;
 }
 
@@ -103,7 +104,7 @@ export function FindingsList({ studyId, findings, canAddress }: { studyId: strin
                   <ul className="mt-1 space-y-1">
                     {h.map((n) => (
                       <li key={n.id}>
-                        {n.actorName ?? 'Someone'} marked it {n.status} at revision {n.revision} ({new Date(n.createdAt).toLocaleString('en-GB')}): {n.reason}
+                        {n.actorName ?? 'Someone'} marked it {n.status} at revision {n.revision} ({formatDateTime(n.createdAt)}): {n.reason}
                       </li>
                     ))}
                   </ul>

@@ -1,5 +1,6 @@
 'use client';
 
+import { formatDate } from '@/lib/format';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
@@ -57,7 +58,7 @@ export function InvitationsList({ endpoint, queryKey }: { endpoint: string; quer
                     </span>
                   )}
                   <span className="text-muted">
-                    until <time dateTime={i.expiresAt}>{new Date(i.expiresAt).toLocaleDateString('en-GB')}</time>
+                    until <time dateTime={i.expiresAt}>{formatDate(i.expiresAt)}</time>
                   </span>
                   {i.delivery === 'failed' && (
                     <button

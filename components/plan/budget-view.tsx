@@ -80,7 +80,7 @@ export default function BudgetView({ request, clusterWord, memberWord }: BudgetV
       sides: request.sides,
     });
     if (!parsed.success) {
-      return { state: 'error' as const, message: parsed.error.issues.map((i) => `${String(i.path[0] ?? '')}: ${i.message}`).join(' ') };
+      return { state: 'error' as const, message: parsed.error.issues.map((i) => i.message).join(' ') };
     }
     try {
       const output: CalculationOutput = calculate(parsed.data);

@@ -1,5 +1,6 @@
 'use client';
 
+import { formatDateTime } from '@/lib/format';
 import { useQuery } from '@tanstack/react-query';
 import { formatValue, labelOf } from '@/components/calculations/format';
 import { kindInfo } from '@/components/calculations/kinds';
@@ -17,7 +18,6 @@ export function headline(output: CalculationOutput): string {
   return key === 'power' || output.result.power === undefined ? main : `${main}, power ${formatValue('power', output.result.power)}`;
 }
 
-const WHEN = new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' });
 
 /** Results saved to the study, newest first: revision, who, when and the headline. */
 export function SavedResults({ studyId, initial, currentRevision }: { studyId: string; initial: PlanResultDto[]; currentRevision: number }) {
@@ -69,7 +69,7 @@ export function SavedResults({ studyId, initial, currentRevision }: { studyId: s
                   {r.note && <span className="block text-xs text-muted">{r.note}</span>}
                 </td>
                 <td className="py-1 pr-3">{r.createdByName ?? 'A former member'}</td>
-                <td className="py-1 tabular-nums">{WHEN.format(new Date(r.createdAt))}</td>
+                <td className="py-1 tabular-nums">{formatDateTime(r.createdAt)}</td>
               </tr>
             ))}
           </tbody>

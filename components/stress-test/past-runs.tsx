@@ -1,12 +1,13 @@
 'use client';
 
+import { formatDateTime } from '@/lib/format';
 import Link from 'next/link';
 import type { SimulationDto } from '@/lib/api/simulations';
 
 const STATUS: Record<SimulationDto['status'], string> = { queued: 'Queued', running: 'Running', done: 'Done', failed: 'Failed', cancelled: 'Cancelled' };
 
 function when(iso: string): string {
-  return new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' }) + ' UTC';
+  return formatDateTime(iso);
 }
 
 /** The study's runs, newest first, each linking to its results (?run=id); the one shown is marked. */

@@ -1,5 +1,6 @@
 'use client';
 
+import { analysisLabel } from '@/lib/sim/analysis-words';
 import { usePathname, useSearchParams } from 'next/navigation';
 import { useMemo } from 'react';
 import { formatFailedFits, formatMetric, RESULT_COLUMNS, type MetricValue, type ResultColumn } from './words';
@@ -92,7 +93,7 @@ export function ResultsTable({ rows, replicates, alpha }: { rows: ResultRow[]; r
             <tr key={`${r.scenario}/${r.analysis}`} className="border-b border-line/60 align-top">
               <td className="py-1 pr-3">{r.scenarioLabel}</td>
               <th scope="row" className="py-1 pr-3 font-semibold">
-                {r.analysis}
+                {analysisLabel(r.analysis)}
               </th>
               {RESULT_COLUMNS.map((c) => (
                 <td key={c.key} className="whitespace-nowrap py-1 pr-3 text-right tabular-nums">

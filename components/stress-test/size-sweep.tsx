@@ -1,5 +1,7 @@
 'use client';
 
+import { analysisLabel } from '@/lib/sim/analysis-words';
+import { plural } from '@/lib/format';
 import { useQueries } from '@tanstack/react-query';
 import { CartesianGrid, ErrorBar, Label, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { axisStyle, CHART, chartMargin } from '@/components/plan/chart-style';
@@ -66,7 +68,7 @@ export function SizeSweep({ run, sweepIds, sizeLabel, canRun, starting, error, o
           .map((a) => {
             const first = points[0]!.byAnalysis[a];
             const last = points[points.length - 1]!.byAnalysis[a];
-            return `${a}: ${formatRate(first?.value)} with ${points[0]!.size} to ${formatRate(last?.value)} with ${points[points.length - 1]!.size}`;
+            return `${analysisLabel(a)}: ${formatRate(first?.value)} with ${points[0]!.size} to ${formatRate(last?.value)} with ${points[points.length - 1]!.size}`;
           })
           .join('; ');
 
@@ -89,7 +91,7 @@ export function SizeSweep({ run, sweepIds, sizeLabel, canRun, starting, error, o
         {error && <p className="font-medium text-danger">{error}</p>}
         {pending.length > 0 && (
           <p>
-            {pending.length} run{pending.length === 1 ? '' : 's'} at other sizes in progress: {pending.map((r) => progressText(r.progress)).join('; ')}.
+            {plural(pending.length, 'run')} at other sizes in progress: {pending.map((r) => progressText(r.progress)).join('; ')}.
           </p>
         )}
         {failed.length > 0 && <p className="font-medium text-danger">{failed.length} of the runs at other sizes did not finish ({failed.map((r) => r.error ?? r.status).join('; ')}).</p>}
@@ -115,7 +117,7 @@ export function SizeSweep({ run, sweepIds, sizeLabel, canRun, starting, error, o
                 <Tooltip formatter={(v, n) => [`${Number(v).toFixed(1)}%`, String(n)]} labelFormatter={(l) => `${l} ${sizeLabel}`} contentStyle={{ borderColor: CHART.grid, color: CHART.ink, fontSize: 13 }} />
                 <Legend verticalAlign="top" wrapperStyle={{ color: CHART.ink, fontSize: 13 }} />
                 {analyses.map((a, i) => (
-                  <Line key={a} dataKey={a} name={a} stroke={SERIES_COLOURS[i % SERIES_COLOURS.length]} strokeWidth={2} isAnimationActive={false} connectNulls>
+                  <Line key={a} dataKey={a} name={analysisLabel(a)} stroke={SERIES_COLOURS[i % SERIES_COLOURS.length]} strokeWidth={2} isAnimationActive={false} connectNulls>
                     <ErrorBar dataKey={`${a}-err`} direction="y" width={5} stroke={SERIES_COLOURS[i % SERIES_COLOURS.length]} />
                   </Line>
                 ))}
@@ -133,7 +135,7 @@ export function SizeSweep({ run, sweepIds, sizeLabel, canRun, starting, error, o
                   </th>
                   {analyses.map((a) => (
                     <th key={a} scope="col" className="py-1 pr-3 text-right">
-                      {a}
+                      {analysisLabel(a)}
                     </th>
                   ))}
                 </tr>

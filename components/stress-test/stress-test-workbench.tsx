@@ -1,5 +1,6 @@
 'use client';
 
+import { formatDateTime } from '@/lib/format';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { usePathname, useSearchParams } from 'next/navigation';
 import { useEffect, useState } from 'react';
@@ -146,7 +147,7 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
             Stress test of design revision {run.revision ?? '—'}
           </h2>
           <p className="text-sm text-muted">
-            Started {new Date(run.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' })} UTC ·{' '}
+            Started {formatDateTime(run.createdAt)} ·{' '}
             {sizeOf(run.spec).toLocaleString('en-GB')} {sizeLabel} · {run.spec.replicates.toLocaleString('en-GB')} replicates per scenario · seed {run.spec.seed} · α = {run.spec.alpha}
           </p>
           <RunProgress run={run} canCancel={canRun} cancelling={cancel.isPending} onCancel={() => cancel.mutate(run.id)} />

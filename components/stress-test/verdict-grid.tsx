@@ -2,9 +2,13 @@
 
 import { useId, useRef, useState, type CSSProperties } from 'react';
 import { MORRIS_2019 } from '@/lib/citations';
+import { nounFor } from '@/lib/format';
+import { analysisLabel } from '@/lib/sim/analysis-words';
 import { bestAnalysis, mcInterval, verdictOf, type CellVerdict, type Verdict } from '@/lib/sim/verdict';
 import type { ResultRow } from './results-table';
 import { formatRate, type MetricValue } from './words';
+
+const cap = (x: string) => x.charAt(0).toUpperCase() + x.slice(1);
 
 export interface GridScenario {
   key: string;
@@ -107,7 +111,7 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
           </span>
           {look.word}
           <span className="sr-only">
-            : {analysis} under {scenario.short}
+            : {analysisLabel(analysis)} under {scenario.short}
           </span>
         </span>
         <span className={`text-xs ${cell.verdict.powerCounts ? 'text-ink' : 'text-muted'}`}>{powerLine}</span>
@@ -119,7 +123,7 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
         className={`z-30 rounded-md border border-line bg-white p-3 text-xs text-ink shadow-lg ${open ? 'block' : 'hidden'}`}
       >
         <span className="block font-semibold">
-          {analysis} · {scenario.full}
+          {analysisLabel(analysis)} · {scenario.full}
         </span>
         <span className="mt-1 block">{reasonOf(cell.verdict, alpha, targetPower)}</span>
         <span className="mt-1 block">False-positive rate {withError(cell.metrics.typeIError, replicates)}</span>
@@ -156,18 +160,18 @@ export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetP
   const headline = !planned
     ? 'The design names no analysis that this run includes; every analysis is shown, the best first below.'
     : fails > 0
-      ? `The planned analysis, ${planned}, fails in ${fails} of ${plannedCells.length} scenario${plannedCells.length === 1 ? '' : 's'}: its false-positive rate or its coverage is off by more than the Monte Carlo error allows.`
+      ? `The planned analysis, ${analysisLabel(planned)}, fails in ${fails} of ${plannedCells.length} ${nounFor(plannedCells.length, 'scenario')}: its false-positive rate or its coverage is off by more than the Monte Carlo error allows.`
       : plannedCells.every((c) => c.verdict.cell === 'holds')
-        ? `The planned analysis, ${planned}, keeps its false-positive rate and coverage and reaches the target power in every scenario.`
-        : `The planned analysis, ${planned}, keeps its false-positive rate and coverage within the margin in every scenario; see the cells marked below.`;
+        ? `The planned analysis, ${analysisLabel(planned)}, keeps its false-positive rate and coverage and reaches the target power in every scenario.`
+        : `The planned analysis, ${analysisLabel(planned)}, keeps its false-positive rate and coverage within the margin in every scenario; see the cells marked below.`;
 
   const powers = bestCells.filter((c) => c.verdict.powerCounts && c.power !== null && Number.isFinite(c.power)).map((c) => c.power!);
   const bestWords = (() => {
     if (!best) return null;
     const broken = bestCells.filter((c) => c.verdict.cell === 'broken').length;
     const range = powers.length === 0 ? '' : Math.min(...powers) === Math.max(...powers) ? `; power ${formatRate(powers[0])}` : `; power ${formatRate(Math.min(...powers))} to ${formatRate(Math.max(...powers))}`;
-    if (broken > 0) return `${best} is the least bad of the others, but it too fails in ${broken} scenario${broken === 1 ? '' : 's'}${range}.`;
-    return `${best} keeps its false-positive rate and coverage in every scenario${range} (target ${formatRate(targetPower)}).`;
+    if (broken > 0) return `${cap(analysisLabel(best))} is the least bad of the others, but it too fails in ${broken} ${nounFor(broken, 'scenario')}${range}.`;
+    return `${cap(analysisLabel(best))} keeps its false-positive rate and coverage in every scenario${range} (target ${formatRate(targetPower)}).`;
   })();
 
   return (
@@ -206,7 +210,7 @@ export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetP
             {ordered.map((a) => (
               <tr key={a} data-testid={a === planned ? 'planned-row' : undefined}>
                 <th scope="row" className={`whitespace-nowrap px-1 align-top font-semibold ${a === planned ? 'text-brand-dark' : ''}`}>
-                  {a}
+                  {analysisLabel(a)}
                   {a === planned && <span className="block text-xs font-normal text-muted">planned</span>}
                   {a === best && <span className="block text-xs font-normal text-muted">best alternative</span>}
                 </th>

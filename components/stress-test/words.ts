@@ -3,6 +3,7 @@
  * analysis in plain words, and how a metric with its Monte Carlo SE is written
  * ("81.2% ± 1.2%"). Shared by the form, the results table, the charts and their summaries.
  */
+import { formatNumber, formatPercent } from '@/lib/format';
 import type { AnalysisName } from '@/lib/models/types';
 import type { Scenario, Violation } from '@/lib/sim/spec';
 
@@ -20,7 +21,7 @@ export const VIOLATION_TITLES: Record<Violation, string> = {
 };
 
 function num(x: number): string {
-  return Number(x.toPrecision(4)).toLocaleString('en-GB', { maximumFractionDigits: 4 });
+  return formatNumber(x, 4);
 }
 
 /** "Heavy-tailed errors (t with 3 df)": the scenario with its parameters, in plain words. */
@@ -49,17 +50,17 @@ export function describeScenario(s: Scenario): string {
 }
 
 export const ANALYSIS_TITLES: Record<AnalysisName, string> = {
-  ols: 'ols — least squares, model-based SE (ignores clustering)',
-  'ols-hc3': 'ols-hc3 — least squares with HC3 robust SE',
-  'cluster-robust': 'cluster-robust — CR2 cluster-robust SE, small-sample df',
-  'cluster-means': 'cluster-means — analysis of cluster or unit means',
-  mixed: 'mixed — linear mixed model (REML, random intercepts)',
-  huber: 'huber — Huber M-estimation (k = 1.345), sandwich SE',
-  'log-ols': 'log-ols — least squares on the log outcome (effect as a ratio)',
-  glm: 'glm — logistic or Poisson regression',
-  'glm-nb': 'glm-nb — negative-binomial regression for overdispersed counts',
-  glmm: 'glmm — logistic or Poisson mixed model with a random intercept',
-  'period-difference': 'period-difference — t test on the differences between the two periods (AB/BA cross-over)',
+  ols: 'Least squares, model-based SE (ignores clustering)',
+  'ols-hc3': 'Least squares with HC3 robust SE',
+  'cluster-robust': 'CR2 cluster-robust SE, small-sample df',
+  'cluster-means': 'Analysis of cluster or unit means',
+  mixed: 'Linear mixed model (REML, random intercepts)',
+  huber: 'Huber M-estimation (k = 1.345), sandwich SE',
+  'log-ols': 'Least squares on the log outcome (effect as a ratio)',
+  glm: 'Logistic or Poisson regression',
+  'glm-nb': 'Negative-binomial regression for overdispersed counts',
+  glmm: 'Logistic or Poisson mixed model with a random intercept',
+  'period-difference': 't test on the differences between the two periods (AB/BA cross-over)',
 };
 
 export interface MetricValue {
@@ -80,14 +81,11 @@ export const RESULT_COLUMNS = [
 export type ResultColumn = (typeof RESULT_COLUMNS)[number]['key'];
 
 export function formatRate(p: number | null | undefined): string {
-  if (p === null || p === undefined || !Number.isFinite(p)) return '—';
-  return `${(100 * p).toFixed(1)}%`;
+  return formatPercent(p);
 }
 
 function formatPlain(x: number | null | undefined): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  if (Number.isInteger(x)) return x.toLocaleString('en-GB');
-  return Number(x.toPrecision(3)).toLocaleString('en-GB', { maximumFractionDigits: 6 });
+  return x === null || x === undefined ? '—' : formatNumber(x, 3);
 }
 
 /** "81.2% ± 1.2%" for a rate, "0.012 ± 0.031" otherwise; "—" where the value is missing. */
@@ -102,7 +100,7 @@ export function formatMetric(m: MetricValue | undefined, rate: boolean): string 
 export function formatFailedFits(m: MetricValue | undefined, replicates: number): string {
   if (!m || m.value === null || !Number.isFinite(m.value)) return '—';
   const asked = 2 * replicates;
-  return `${m.value.toLocaleString('en-GB')} of ${asked.toLocaleString('en-GB')} (${formatRate(m.value / asked)})`;
+  return `${formatNumber(m.value)} of ${formatNumber(asked)} (${formatRate(m.value / asked)})`;
 }
 
 /** Monte Carlo SE of an estimated rate p over R replicates, √(p(1 − p)/R) (Morris, White & Crowther 2019, Stat Med 38:2074). */

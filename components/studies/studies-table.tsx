@@ -1,5 +1,6 @@
 'use client';
 
+import { formatDate, plural } from '@/lib/format';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { flexRender, getCoreRowModel, useReactTable, type ColumnDef } from '@tanstack/react-table';
 import Link from 'next/link';
@@ -18,6 +19,9 @@ const STATUS_LABEL: Record<string, string> = { draft: 'Draft', 'in-review': 'In 
  * The studies of one workspace: search, status filter, sort and pages, all kept in the URL so a
  * view can be bookmarked and shared. Sorting and paging happen in the database.
  */
+/** Columns shown from the sm breakpoint up; below it the title cell carries their text. */
+const WIDE_ONLY = new Set(['role', 'updated']);
+
 export function StudiesTable({ workspaceId }: { workspaceId: string }) {
   const router = useRouter();
   const pathname = usePathname();
@@ -66,6 +70,10 @@ export function StudiesTable({ workspaceId }: { workspaceId: string }) {
               {row.original.title}
             </Link>
             {row.original.description && <p className="mt-0.5 line-clamp-1 text-xs text-muted">{row.original.description}</p>}
+            {/* On a phone the role and date columns give way to this line, so that the table fits without scrolling sideways. */}
+            <p className="mt-0.5 text-xs text-muted sm:hidden">
+              <span className="capitalize">{row.original.role}</span> · changed <time dateTime={row.original.updatedAt}>{formatDate(row.original.updatedAt)}</time>
+            </p>
           </div>
         ),
       },
@@ -74,7 +82,7 @@ export function StudiesTable({ workspaceId }: { workspaceId: string }) {
       {
         id: 'updated',
         header: 'Last changed',
-        cell: ({ row }) => <time dateTime={row.original.updatedAt}>{new Date(row.original.updatedAt).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' })}</time>,
+        cell: ({ row }) => <time dateTime={row.original.updatedAt}>{formatDate(row.original.updatedAt)}</time>,
       },
     ],
     [],
@@ -149,7 +157,7 @@ export function StudiesTable({ workspaceId }: { workspaceId: string }) {
                       key={h.id}
                       scope="col"
                       aria-sort={activeSort ? (dir === 'asc' ? 'ascending' : 'descending') : 'none'}
-                      className="px-4 py-2 font-semibold"
+                      className={`px-3 py-2 font-semibold sm:px-4 ${WIDE_ONLY.has(key) ? 'hidden sm:table-cell' : ''}`}
                     >
                       <button
                         type="button"
@@ -171,7 +179,7 @@ export function StudiesTable({ workspaceId }: { workspaceId: string }) {
             {table.getRowModel().rows.map((row) => (
               <tr key={row.id} className="border-b border-line last:border-0">
                 {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="px-4 py-3 align-top">
+                  <td key={cell.id} className={`px-3 py-3 align-top sm:px-4 ${WIDE_ONLY.has(cell.column.id) ? 'hidden sm:table-cell' : ''}`}>
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}
@@ -197,7 +205,7 @@ export function StudiesTable({ workspaceId }: { workspaceId: string }) {
 
       <nav aria-label="Pages of studies" className="flex items-center justify-between text-sm">
         <p aria-live="polite">
-          {data ? `${data.total} stud${data.total === 1 ? 'y' : 'ies'} · page ${page} of ${pages}` : ''}
+          {data ? `${plural(data.total, 'study')} · page ${page} of ${pages}` : ''}
         </p>
         <div className="flex gap-2">
           <button

@@ -9,8 +9,9 @@ export function StudyTabs({ studyId }: { studyId: string }) {
   const base = `/studies/${studyId}`;
   const tabs = [{ slug: '', label: 'Overview' }, ...STUDY_TABS];
   return (
-    <nav aria-label="Study sections" className="-mx-4 overflow-x-auto border-b border-line px-4">
-      <ul className="flex min-w-max gap-1">
+    // The tabs wrap onto a second line on a narrow screen rather than scroll out of sight.
+    <nav aria-label="Study sections" className="border-b border-line">
+      <ul className="flex flex-wrap gap-x-1">
         {tabs.map((t) => {
           const href = t.slug ? `${base}/${t.slug}` : base;
           const current = t.slug ? pathname === href || pathname.startsWith(`${href}/`) : pathname === href;

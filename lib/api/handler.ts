@@ -101,7 +101,7 @@ export function zodFieldErrors(error: z.ZodError): FieldErrors {
 export function invalid(error: z.ZodError): AppError {
   const fields = zodFieldErrors(error);
   const first = Object.entries(fields)[0];
-  const message = first ? `${first[0] === '_' ? '' : `${first[0]}: `}${first[1][0]}` : 'The request is not valid.';
+  const message = first ? first[1][0] : 'The request is not valid.';
   return new AppError('bad_request', `Check the highlighted fields. ${message}`.trim(), { fields });
 }
 

@@ -16,6 +16,9 @@
  */
 import type { Design, Level } from './schema';
 import { designFacts, unitsByArm, type DesignFacts, type LevelInfo } from './facts';
+import { formatCount, nounFor } from '@/lib/format';
+
+export { formatCount };
 
 export type LevelKind = Level['kind'];
 
@@ -130,16 +133,6 @@ const KIND_SENTENCE: Record<LevelKind, string> = {
 
 // ---------------------------------------------------------------- text helpers
 
-const nf0 = new Intl.NumberFormat('en-US', { maximumFractionDigits: 0 });
-const nf1 = new Intl.NumberFormat('en-US', { maximumFractionDigits: 1 });
-
-/** "5,000"; "about 12.5" when the number is not whole. */
-export function formatCount(n: number): string {
-  const r = Math.round(n);
-  if (Math.abs(n - r) < 1e-9) return nf0.format(r);
-  return `about ${Math.abs(n) >= 100 ? nf0.format(r) : nf1.format(n)}`;
-}
-
 function isWhole(n: number): boolean {
   return Math.abs(n - Math.round(n)) < 1e-9;
 }
@@ -150,41 +143,10 @@ function lowerName(name: string): string {
   return name.charAt(0).toLowerCase() + name.slice(1);
 }
 
-const IRREGULAR: Record<string, string> = {
-  leaf: 'leaves',
-  shelf: 'shelves',
-  half: 'halves',
-  calf: 'calves',
-  wolf: 'wolves',
-  knife: 'knives',
-  life: 'lives',
-  child: 'children',
-  person: 'people',
-  mouse: 'mice',
-  tooth: 'teeth',
-  foot: 'feet',
-  sheep: 'sheep',
-  fish: 'fish',
-  deer: 'deer',
-  species: 'species',
-  series: 'series',
-};
-
-function pluralWord(word: string): string {
-  const irregular = IRREGULAR[word.toLowerCase()];
-  if (irregular) return word.charAt(0) === word.charAt(0).toUpperCase() && word.length > 1 ? irregular.charAt(0).toUpperCase() + irregular.slice(1) : irregular;
-  if (/[^aeiou]y$/i.test(word)) return word.slice(0, -1) + 'ies';
-  if (/(s|x|z|ch|sh)$/i.test(word)) return word + 'es';
-  return word + 's';
-}
-
 /** "classroom" / "classrooms"; pluralises the last word of a multi-word name. */
 export function unitName(name: string, n: number): string {
   const base = lowerName(name.trim());
-  if (isWhole(n) && Math.round(n) === 1) return base;
-  const m = /^(.*?)(\S+)$/.exec(base);
-  if (!m) return base;
-  return (m[1] ?? '') + pluralWord(m[2] ?? '');
+  return nounFor(isWhole(n) ? Math.round(n) : n, base);
 }
 
 function counted(n: number, name: string): string {
@@ -527,7 +489,7 @@ export function layoutDiagram(design: Design, options: LayoutOptions = {}): Diag
       totalsText = `${formatCount(observations)} ${obsWord(observations)} · ${counted(k, assigned.level.name)} at the level of assignment${perArm}`;
       if (owner) totalsText += `, not independent: they come from ${counted(owner.total, owner.level.name)}`;
     } else {
-      totalsText = `${formatCount(observations)} ${obsWord(observations)} · ${formatCount(k)} independent ${isWhole(k) && Math.round(k) === 1 ? 'unit' : 'units'} at the level of assignment${perArm}`;
+      totalsText = `${formatCount(observations)} ${obsWord(observations)} · ${formatCount(k)} independent ${unitName('unit', k)} at the level of assignment${perArm}`;
     }
     if (!arms && !continuous) message = 'Add the arms (Assignment step) to see how the units are split between them.';
   }
@@ -585,7 +547,7 @@ export function layoutDiagram(design: Design, options: LayoutOptions = {}): Diag
 }
 
 function obsWord(n: number): string {
-  return isWhole(n) && Math.round(n) === 1 ? 'observation' : 'observations';
+  return unitName('observation', n);
 }
 
 function capitalise(s: string): string {

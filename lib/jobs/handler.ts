@@ -17,6 +17,7 @@
  * If a worker dies between storing the last chunk and completing its job, the retry finds the
  * chunk stored and the run done, and does nothing.
  */
+import { plural } from '@/lib/format';
 import type { Kysely } from 'kysely';
 import type { Database } from '@/db/schema';
 import {
@@ -78,7 +79,7 @@ export async function processChunk<Spec>(db: Kysely<Database>, job: ChunkJobData
 export async function failRun(db: Kysely<Database>, job: ChunkJobData, reason: string, attempts: number): Promise<string[] | undefined> {
   const message =
     `Replicates ${job.from + 1}–${job.to} of scenario ${job.scenarioIndex + 1} could not be computed ` +
-    `(${attempts} attempt${attempts === 1 ? '' : 's'}; last error: ${reason}). ` +
+    `(${plural(attempts, 'attempt')}; last error: ${reason}). ` +
     'The run was stopped. Start it again; if it fails again, try fewer replicates or a smaller design.';
   const ended = await endRun(db, job.simulationId, 'failed', message);
   return ended?.jobIds;

@@ -13,6 +13,7 @@
  * The same code runs inside `npm start` (a worker process beside the web server, see
  * scripts/start.mjs) and as `npm run worker` on any machine that reaches the database.
  */
+import { plural } from '@/lib/format';
 import type { Kysely } from 'kysely';
 import type PgBoss from 'pg-boss';
 import type { Database } from '@/db/schema';
@@ -71,7 +72,7 @@ export async function startWorker<Spec>(options: WorkerOptions<Spec>): Promise<R
     ...Array.from({ length: concurrency }, () => consume(boss, CHUNK_QUEUE, computeChunk, slot)),
     consume(boss, FAILED_CHUNK_QUEUE, failChunk, slot),
   ];
-  log(`taking stress-test chunks with ${concurrency} parallel slot${concurrency === 1 ? '' : 's'}`);
+  log(`taking stress-test chunks with ${plural(concurrency, 'parallel slot')}`);
 
   const pause = async (timeoutMs = Infinity) => {
     stopping.abort();

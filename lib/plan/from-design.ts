@@ -47,6 +47,7 @@
  * on the Plan tab). When the effect is missing but the planned size is known, the smallest
  * detectable effect is solved for instead.
  */
+import { nounFor, plural } from '@/lib/format';
 import { COHEN_1988, DIGGLE_2002, DONNER_KLAR_2000, FLEISS_2003, FRISON_POCOCK_1992, HAYES_BENNETT_1999, narrative, SENN_2002, VICKERS_ALTMAN_2001, ZHU_LAKKIS_2014 } from '@/lib/citations';
 import type { Assumptions, Design, Level, Source } from '@/lib/design/schema';
 import { DESIGN_STEPS } from '@/lib/design/schema';
@@ -431,7 +432,7 @@ function repeated(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, rec: Reco
   // The answer is for ANCOVA where there is a baseline (never less efficient); the Plan shows the
   // three analyses side by side, the plan's own marked (components/calculations/baseline-comparison.tsx).
   b.rationale.push(
-    `${cap(noun(E.level, true))} are assigned to the arms and measured ${nBase > 0 ? `at ${nBase} baseline and ${nFollow} follow-up occasion${nFollow === 1 ? '' : 's'}` : `on ${nFollow} occasions`}; the calculation compares ${nBase > 0 ? `ANCOVA (follow-up mean adjusted for the baseline mean), beside the follow-up only and the change from baseline; the analysis plan uses ${analysisWords}` : analysisWords} between the arms (${FRISON_POCOCK_1992.short}).` +
+    `${cap(noun(E.level, true))} are assigned to the arms and measured ${nBase > 0 ? `at ${nBase} baseline and ${nFollow} ${nounFor(nFollow, 'follow-up occasion')}` : `on ${nFollow} occasions`}; the calculation compares ${nBase > 0 ? `ANCOVA (follow-up mean adjusted for the baseline mean), beside the follow-up only and the change from baseline; the analysis plan uses ${analysisWords}` : analysisWords} between the arms (${FRISON_POCOCK_1992.short}).` +
       (analysis === 'ancova' ? (planAdjusts ? ' The analysis plan adjusts for the baseline.' : ' The Checks recommend adjusting for the baseline.') : ''),
   );
   if (analysis === 'change') b.notes.push(`The plan compares changes from baseline; ANCOVA on the baseline is never less efficient (${FRISON_POCOCK_1992.short}; ${VICKERS_ALTMAN_2001.short}).`);
@@ -477,7 +478,7 @@ function exposure(b: Builder, d: Design, f: DesignFacts, E: LevelInfo | undefine
   b.rationale.push(`The exposure (${name}) is continuous: the calculation is the F test of its slope in a linear regression (${COHEN_1988.short}).`);
   const covariates = d.outcome.explanatoryVariables.filter((x) => x.role === 'covariate').length;
   b.set('testedPredictors', 1, 'Predictors tested', design('Outcome step'));
-  b.set('predictors', 1 + covariates, 'Predictors in the model', design(`Outcome step: the exposure${covariates ? ` and ${covariates} covariate${covariates === 1 ? '' : 's'}` : ''}`));
+  b.set('predictors', 1 + covariates, 'Predictors in the model', design(`Outcome step: the exposure${covariates ? ` and ${plural(covariates, 'covariate')}` : ''}`));
   const sigma = sd(b, f);
   if (sigma !== undefined) {
     b.set('residualSd', sigma, `Residual SD (taken as the SD of ${outcomeName(d)})`, fromSource(f.outcome.sd!.source));
@@ -611,7 +612,7 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
     if (kind && b.missing.length === 0) {
       const parsed = calculationSchema.safeParse({ kind, ...inputs, ...(solveFor ? { solveFor } : {}) });
       if (parsed.success) request = parsed.data;
-      else for (const issue of parsed.error.issues) b.need(String(issue.path[0] ?? 'input'), `${issue.message} (check the ${issue.path.join('.')} input below).`);
+      else for (const issue of parsed.error.issues) b.need(String(issue.path[0] ?? 'input'), issue.message);
     }
     return {
       kind,

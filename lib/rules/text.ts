@@ -4,42 +4,14 @@
  * irregular ones a study design is likely to name.
  */
 import type { Level } from '@/lib/design/schema';
-
-const IRREGULAR: Record<string, string> = {
-  leaf: 'leaves',
-  calf: 'calves',
-  half: 'halves',
-  shelf: 'shelves',
-  mouse: 'mice',
-  child: 'children',
-  person: 'people',
-  man: 'men',
-  woman: 'women',
-  tooth: 'teeth',
-  foot: 'feet',
-  fish: 'fish',
-  sheep: 'sheep',
-  deer: 'deer',
-  series: 'series',
-  species: 'species',
-  analysis: 'analyses',
-  nucleus: 'nuclei',
-  larva: 'larvae',
-};
+import { formatPercent, pluralWord } from '@/lib/format';
 
 /** Lower-case the first letter unless the word looks like an acronym ("GP practice" stays). */
 function lowerFirst(s: string): string {
   return s.length > 1 && s[1] === s[1]!.toLowerCase() ? s[0]!.toLowerCase() + s.slice(1) : s;
 }
 
-export function pluralWord(word: string): string {
-  const lower = word.toLowerCase();
-  const irregular = IRREGULAR[lower];
-  if (irregular) return word[0] === word[0]!.toUpperCase() ? irregular[0]!.toUpperCase() + irregular.slice(1) : irregular;
-  if (/(s|x|z|ch|sh)$/i.test(word)) return `${word}es`;
-  if (/[^aeiou]y$/i.test(word)) return `${word.slice(0, -1)}ies`;
-  return `${word}s`;
-}
+export { pluralWord };
 
 /** A level's name as a noun in running text, singular or plural (the last word is pluralised). */
 export function noun(level: Level, plural = false): string {
@@ -69,11 +41,9 @@ export function dec(x: number, digits = 1): string {
   return String(Number(x.toFixed(digits)));
 }
 
-/** A proportion as a percentage: "37%", "4.9%" below 10%, "<0.1%" when tiny. */
+/** A proportion as a percentage: "37%", "4.9%" below 10% (lib/format.ts). */
 export function pct(p: number): string {
-  const v = p * 100;
-  if (v > 0 && v < 0.1) return '<0.1%';
-  return `${v < 10 ? dec(v, 1) : dec(v, 0)}%`;
+  return formatPercent(p, 'text');
 }
 
 /** Capitalise the first letter of a sentence. */

@@ -103,8 +103,8 @@ describe('operating characteristics against theory (within 3 MC SE)', () => {
     expectWithinMcse('ols SE ratio ≈ 1/√DE', results.ols!.seRatio.value, 1 / Math.sqrt(2.9), results.ols!.seRatio.mcse);
 
     const sentences = summarise(s, { none: results });
-    expect(sentences).toContain(`When the assumptions hold, analysed with ols, the false-positive rate is ${Math.round(100 * results.ols!.typeIError.value)}%, not 5%.`);
-    expect(sentences.filter((x) => !x.includes('analysed with ols,'))).toEqual([]);
+    expect(sentences).toContain(`When the assumptions hold, analysed with least squares, the false-positive rate is ${Math.round(100 * results.ols!.typeIError.value)}%, not 5%.`);
+    expect(sentences.filter((x) => !x.includes('analysed with least squares,'))).toEqual([]);
   }, SLOW);
 
   it('ols on independent units: 5% false positives, 95% coverage and R’s exact power (2,000 replicates, MC SE 0.0049 and 0.010)', () => {

@@ -52,33 +52,33 @@ describe('simulationSpecSchema', () => {
   });
 
   it.each<[string, unknown, string]>([
-    ['three arms', { ...base, design: { ...base.design, arms: 3 } }, 'design.arms: arms must be 2'],
-    ['clusters and units', { ...base, design: { ...base.design, unitsPerArm: 50 } }, 'design.unitsPerArm: Give either clustersPerArm with clusterSize, or unitsPerArm, not both.'],
-    ['no units at all', { ...base, design: { arms: 2 }, truth: { effect: 1, sd: 1 } }, 'design.unitsPerArm: Give unitsPerArm, or clustersPerArm with clusterSize.'],
-    ['a cluster size without clusters', { ...base, design: { arms: 2, unitsPerArm: 10, clusterSize: 5 }, truth: { effect: 1, sd: 1 } }, 'design.clustersPerArm: clustersPerArm is needed with clusterSize.'],
-    ['times that do not match the occasions', { ...base, design: { ...base.design, occasions: 3, times: [0, 1] } }, 'design.times: times needs one value per occasion'],
-    ['times that go back', { ...base, design: { ...base.design, occasions: 3, times: [0, 2, 1] } }, 'design.times: times must increase'],
-    ['a slope target without occasions', { ...base, design: { ...base.design, target: 'treat:time' } }, 'design.target: A difference in slopes (treat:time) needs occasions.'],
+    ['three arms', { ...base, design: { ...base.design, arms: 3 } }, 'design.arms: Choose the arms from the options offered.'],
+    ['clusters and units', { ...base, design: { ...base.design, unitsPerArm: 50 } }, 'design.unitsPerArm: Give either the clusters per arm with the cluster size, or the units per arm, not both.'],
+    ['no units at all', { ...base, design: { arms: 2 }, truth: { effect: 1, sd: 1 } }, 'design.unitsPerArm: Enter the units per arm, or the clusters per arm with the cluster size.'],
+    ['a cluster size without clusters', { ...base, design: { arms: 2, unitsPerArm: 10, clusterSize: 5 }, truth: { effect: 1, sd: 1 } }, 'design.clustersPerArm: Enter the clusters per arm as well as the cluster size.'],
+    ['times that do not match the occasions', { ...base, design: { ...base.design, occasions: 3, times: [0, 1] } }, 'design.times: Enter one time per occasion'],
+    ['times that go back', { ...base, design: { ...base.design, occasions: 3, times: [0, 2, 1] } }, 'design.times: Enter the times in increasing order'],
+    ['a slope target without occasions', { ...base, design: { ...base.design, target: 'treat:time' } }, 'design.target: A difference in slopes needs occasions'],
     ['an unreachable cluster-size CV', { ...base, design: { arms: 2, clustersPerArm: 2, clusterSize: 20, clusterSizeCv: 1.5 } }, 'design.clusterSizeCv: a cluster-size CV of 1.5 cannot be reached with 2 clusters per arm'],
-    ['an ICC without clusters', { ...base, design: { arms: 2, unitsPerArm: 50 } }, 'truth.icc: icc needs clusters'],
-    ['a gaussian outcome without sd', { ...base, truth: { effect: 0.3, icc: 0.1 } }, 'truth.sd: sd is needed for a gaussian outcome.'],
-    ['a random slope without occasions', { ...base, truth: { ...base.truth, randomSlopeSd: 0.1 } }, 'truth.randomSlopeSd: randomSlopeSd needs occasions.'],
-    ['ν = 2 for heavy tails', { ...base, scenarios: [{ violation: 'heavy-tailed', df: 2 }] }, 'scenarios.0.df: df must be above 2, so that the errors have a finite SD.'],
-    ['serial correlation without occasions', { ...base, scenarios: [{ violation: 'serial' }] }, 'scenarios.0.violation: serial correlation needs occasions.'],
-    ['an unknown violation', { ...base, scenarios: [{ violation: 'gremlins' }] }, 'violation is one of none, skewed'],
+    ['an ICC without clusters', { ...base, design: { arms: 2, unitsPerArm: 50 } }, 'truth.icc: An intracluster correlation needs clusters'],
+    ['a gaussian outcome without sd', { ...base, truth: { effect: 0.3, icc: 0.1 } }, 'truth.sd: Enter the standard deviation of the outcome.'],
+    ['a random slope without occasions', { ...base, truth: { ...base.truth, randomSlopeSd: 0.1 } }, 'truth.randomSlopeSd: A spread of the slopes between units needs occasions'],
+    ['ν = 2 for heavy tails', { ...base, scenarios: [{ violation: 'heavy-tailed', df: 2 }] }, 'scenarios.0.df: Enter the degrees of freedom as a number above 2, so that the errors have a finite SD.'],
+    ['serial correlation without occasions', { ...base, scenarios: [{ violation: 'serial' }] }, 'scenarios.0.violation: Serial correlation needs occasions.'],
+    ['an unknown violation', { ...base, scenarios: [{ violation: 'gremlins' }] }, 'violation: Choose the violation from the options offered.'],
     ['two scenarios with one name', { ...base, scenarios: [{ violation: 'outliers' }, { violation: 'outliers', scale: 10 }] }, 'scenarios.1.name: Two scenarios are called "outliers": give each a different name.'],
-    ['a skewed binary outcome', { ...base, truth: { effect: 0.5, icc: 0.1, family: 'binary' }, scenarios: [{ violation: 'skewed' }] }, 'scenarios.0.violation: skewed applies to gaussian outcomes'],
-    ['a binary baseline of 1.5', { ...base, truth: { effect: 0.5, icc: 0.1, family: 'binary', baseline: 1.5 } }, 'truth.baseline: For a binary outcome, baseline is a probability between 0 and 1.'],
-    ['a count baseline of 0', { ...base, truth: { effect: 0.5, icc: 0.1, family: 'count', baseline: 0 } }, 'truth.baseline: For a count outcome, baseline is a mean count above 0.'],
-    ['a slope target for a binary outcome', { ...base, design: { arms: 2, unitsPerArm: 50, occasions: 3, target: 'treat:time' }, truth: { effect: 0.5, family: 'binary' } }, 'design.target: Binary and count outcomes take target treat'],
-    ['glm on a gaussian outcome', { ...base, analyses: ['glm'] }, 'analyses: glm needs a binary or count outcome (family).'],
+    ['a skewed binary outcome', { ...base, truth: { effect: 0.5, icc: 0.1, family: 'binary' }, scenarios: [{ violation: 'skewed' }] }, 'scenarios.0.violation: This scenario applies to measured outcomes'],
+    ['a binary baseline of 1.5', { ...base, truth: { effect: 0.5, icc: 0.1, family: 'binary', baseline: 1.5 } }, 'truth.baseline: For a yes/no outcome, enter the baseline as a proportion between 0 and 1.'],
+    ['a count baseline of 0', { ...base, truth: { effect: 0.5, icc: 0.1, family: 'count', baseline: 0 } }, 'truth.baseline: For a count outcome, enter the baseline as a mean count above 0.'],
+    ['a slope target for a binary outcome', { ...base, design: { arms: 2, unitsPerArm: 50, occasions: 3, target: 'treat:time' }, truth: { effect: 0.5, family: 'binary' } }, 'design.target: For yes/no and count outcomes the stress test estimates the difference between the arms'],
+    ['glm on a gaussian outcome', { ...base, analyses: ['glm'] }, 'analyses: Logistic or Poisson regression needs a yes/no or count outcome.'],
     ['an analysis named twice', { ...base, analyses: ['ols', 'ols'] }, 'analyses: Name each analysis once.'],
-    ['an unknown analysis', { ...base, analyses: ['anova'] }, 'analyses.0: Each analysis is one of ols'],
-    ['too many replicates', { ...base, replicates: 100_001 }, 'replicates: replicates can be at most 100,000.'],
+    ['an unknown analysis', { ...base, analyses: ['anova'] }, 'analyses.0: Choose the analyses from the options offered.'],
+    ['too many replicates', { ...base, replicates: 100_001 }, 'replicates: Enter the number of replicates as a number of at most 100,000.'],
     ['too many rows', { ...base, design: { arms: 2, clustersPerArm: 100, clusterSize: 300 } }, 'design: The design has 60,000 rows per data set; at most 50,000 are simulated.'],
-    ['too much work', { ...base, design: { arms: 2, clustersPerArm: 100, clusterSize: 200 }, replicates: 100_000 }, 'replicates: replicates × scenarios × rows (4,000,000,000) can be at most 500,000,000'],
-    ['alpha above 0.5', { ...base, alpha: 0.6 }, 'alpha: alpha can be at most 0.5.'],
-    ['a fractional seed', { ...base, seed: 1.5 }, 'seed: seed must be a whole number.'],
+    ['too much work', { ...base, design: { arms: 2, clustersPerArm: 100, clusterSize: 200 }, replicates: 100_000 }, 'replicates: Replicates × scenarios × rows of data come to 4,000,000,000, more than the 500,000,000 simulated at most'],
+    ['alpha above 0.5', { ...base, alpha: 0.6 }, 'alpha: Enter the significance level (alpha) as a number of at most 0.5.'],
+    ['a fractional seed', { ...base, seed: 1.5 }, 'seed: Enter the random seed as a whole number.'],
   ])('refuses %s, saying what to fix', (_case, input, message) => {
     expect(problems(input).some((p) => p.includes(message)), `${JSON.stringify(problems(input))} should contain "${message}"`).toBe(true);
   });
@@ -123,25 +123,25 @@ describe('design shapes beyond two arms of clusters or units', () => {
   });
 
   it.each<[string, unknown, string]>([
-    ['a cross-over of clusters', { ...crossover, design: { arms: 2, clustersPerArm: 5, clusterSize: 4, crossover: { periods: 2 } } }, 'design.crossover: A cross-over needs unitsPerArm'],
+    ['a cross-over of clusters', { ...crossover, design: { arms: 2, clustersPerArm: 5, clusterSize: 4, crossover: { periods: 2 } } }, 'design.crossover: A cross-over needs the units per sequence'],
     ['a cross-over with occasions', { ...crossover, design: { ...crossover.design, occasions: 2 } }, 'design.occasions: In a cross-over the periods are the occasions'],
     ['a sequence of the wrong length', { ...crossover, design: { ...crossover.design, crossover: { periods: 2, sequences: ['ABA', 'BA'] } } }, 'design.crossover.sequences.0: Each sequence is 2 letters A or B'],
     ['two equal sequences', { ...crossover, design: { ...crossover.design, crossover: { periods: 2, sequences: ['AB', 'AB'] } } }, 'design.crossover.sequences: Give two different sequences'],
-    ['period effects of the wrong length', { ...crossover, truth: { ...crossover.truth, periodEffects: [0.1, 0.2] } }, 'truth.periodEffects: periodEffects needs one number per period after the first (1).'],
-    ['period effects without a cross-over', { ...blocked, truth: { ...blocked.truth, periodEffects: [0.1] } }, 'truth.periodEffects: periodEffects needs a cross-over.'],
-    ['carry-over without a cross-over', { ...blocked, scenarios: [{ violation: 'carry-over' }] }, 'scenarios.0.violation: carry-over needs a cross-over design.'],
-    ['period-difference with three periods', { ...crossover, design: { ...crossover.design, crossover: { periods: 3 } }, truth: { effect: 0.5, sd: 1 } }, 'analyses: period-difference needs a two-period cross-over'],
-    ['blockIcc without blocks', { ...binaryClusters, truth: { effect: 0.5, sd: 1, icc: 0.1, blockIcc: 0.1 }, analyses: ['ols'] }, 'truth.blockIcc: blockIcc needs blocks'],
-    ['icc and blockIcc adding to 1', { ...blocked, truth: { ...blocked.truth, icc: 0.5, blockIcc: 0.5 } }, 'truth.blockIcc: icc and blockIcc together must stay below 1.'],
-    ['a proportion-scale ICC for counts', { ...countClusters, truth: { effect: 0.3, family: 'count', icc: 0.1, iccScale: 'proportion' } }, 'truth.iccScale: iccScale proportion applies to binary outcomes.'],
-    ['a proportion-scale ICC with a second level', { ...binaryClusters, design: { ...binaryClusters.design, occasions: 3 }, truth: { ...binaryClusters.truth, occasionCorrelation: 0.3 } }, 'truth.iccScale: iccScale proportion takes one level of clusters'],
-    ['clusterCv for a binary outcome', { ...binaryClusters, truth: { effect: 0.5, family: 'binary', clusterCv: 0.3 } }, 'truth.clusterCv: clusterCv applies to count outcomes.'],
-    ['clusterCv and icc', { ...countClusters, truth: { ...countClusters.truth, icc: 0.1 } }, 'truth.clusterCv: Give either icc or clusterCv'],
-    ['a marginal gaussian truth', { ...blocked, truth: { ...blocked.truth, marginal: true } }, 'truth.marginal: marginal applies to binary and count outcomes.'],
-    ['glmm on a gaussian outcome', { ...blocked, analyses: ['glmm'] }, 'analyses: glmm needs a binary or count outcome'],
-    ['glmm without anything to group', { ...binaryClusters, design: { arms: 2, unitsPerArm: 50 }, truth: { effect: 0.5, family: 'binary' } }, 'analyses: glmm needs clusters, occasions, blocks or a cross-over'],
-    ['glm-nb on a binary outcome', { ...binaryClusters, analyses: ['glm-nb'] }, 'analyses: glm-nb needs a count outcome'],
-    ['cluster slopes without occasions', { ...blocked, truth: { ...blocked.truth, clusterSlopeSd: 0.1 } }, 'truth.clusterSlopeSd: clusterSlopeSd needs clusters measured at occasions'],
+    ['period effects of the wrong length', { ...crossover, truth: { ...crossover.truth, periodEffects: [0.1, 0.2] } }, 'truth.periodEffects: Enter one period effect per period after the first (1).'],
+    ['period effects without a cross-over', { ...blocked, truth: { ...blocked.truth, periodEffects: [0.1] } }, 'truth.periodEffects: Leave the period effects out: they apply to a cross-over only.'],
+    ['carry-over without a cross-over', { ...blocked, scenarios: [{ violation: 'carry-over' }] }, 'scenarios.0.violation: Carry-over needs a cross-over design.'],
+    ['period-difference with three periods', { ...crossover, design: { ...crossover.design, crossover: { periods: 3 } }, truth: { effect: 0.5, sd: 1 } }, 'analyses: The t test on the period differences needs a two-period cross-over'],
+    ['blockIcc without blocks', { ...binaryClusters, truth: { effect: 0.5, sd: 1, icc: 0.1, blockIcc: 0.1 }, analyses: ['ols'] }, 'truth.blockIcc: The intracluster correlation of the blocks needs blocks'],
+    ['icc and blockIcc adding to 1', { ...blocked, truth: { ...blocked.truth, icc: 0.5, blockIcc: 0.5 } }, 'truth.blockIcc: The two intracluster correlations (clusters and blocks) together must stay below 1.'],
+    ['a proportion-scale ICC for counts', { ...countClusters, truth: { effect: 0.3, family: 'count', icc: 0.1, iccScale: 'proportion' } }, 'truth.iccScale: An ICC on the proportion scale applies to yes/no outcomes only.'],
+    ['a proportion-scale ICC with a second level', { ...binaryClusters, design: { ...binaryClusters.design, occasions: 3 }, truth: { ...binaryClusters.truth, occasionCorrelation: 0.3 } }, 'truth.iccScale: An ICC on the proportion scale takes one level of clusters'],
+    ['clusterCv for a binary outcome', { ...binaryClusters, truth: { effect: 0.5, family: 'binary', clusterCv: 0.3 } }, 'truth.clusterCv: The variation between clusters (CV) applies to count outcomes only.'],
+    ['clusterCv and icc', { ...countClusters, truth: { ...countClusters.truth, icc: 0.1 } }, 'truth.clusterCv: Describe the clusters by either the ICC or the variation between clusters (CV), not both.'],
+    ['a marginal gaussian truth', { ...blocked, truth: { ...blocked.truth, marginal: true } }, 'truth.marginal: A population-average effect applies to yes/no and count outcomes only.'],
+    ['glmm on a gaussian outcome', { ...blocked, analyses: ['glmm'] }, 'analyses: The logistic or Poisson mixed model needs a yes/no or count outcome'],
+    ['glmm without anything to group', { ...binaryClusters, design: { arms: 2, unitsPerArm: 50 }, truth: { effect: 0.5, family: 'binary' } }, 'analyses: The logistic or Poisson mixed model needs clusters, occasions, blocks or a cross-over'],
+    ['glm-nb on a binary outcome', { ...binaryClusters, analyses: ['glm-nb'] }, 'analyses: Negative-binomial regression needs a count outcome'],
+    ['cluster slopes without occasions', { ...blocked, truth: { ...blocked.truth, clusterSlopeSd: 0.1 } }, 'truth.clusterSlopeSd: A spread of the slopes between clusters needs clusters measured at occasions'],
   ])('refuses %s, saying what to fix', (_case, input, message) => {
     expect(problems(input).some((p) => p.includes(message)), `${JSON.stringify(problems(input))} should contain "${message}"`).toBe(true);
   });
@@ -151,7 +151,7 @@ describe('truths the generator could not build are refused up front', () => {
   const binary = { design: { arms: 2, clustersPerArm: 10, clusterSize: 20 }, scenarios: [{ violation: 'none' }], analyses: ['glm'] };
   it('a marginal log odds ratio that pushes the second arm to 0 or 1', () => {
     expect(problems({ ...binary, truth: { effect: 40, family: 'binary', baseline: 0.3, marginal: true } })).toContain(
-      'truth.effect: With a marginal truth the second arm’s proportion must stay between 0 and 1: give a log odds ratio that keeps logit(baseline) + effect within ±30.',
+      'truth.effect: With a population-average effect the second arm’s proportion must stay between 0 and 1: enter a smaller log odds ratio (logit of the baseline plus the effect within ±30).',
     );
   });
 

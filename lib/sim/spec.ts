@@ -23,6 +23,7 @@ import { z } from 'zod';
 import { ANALYSIS_NAMES } from '@/lib/models/types';
 import { clusterSizes } from './cluster-sizes';
 import { sigmaForIcc } from './logit-normal';
+import { fieldMessage } from '@/lib/field-messages';
 import { rawText } from '@/lib/text-schema';
 
 export const MAX_REPLICATES = 100_000;
@@ -72,48 +73,49 @@ export const SCENARIO_RANGES = {
 /** A bound as written in a message: "1,000", "−0.99". */
 export const formatBound = (x: number) => x.toLocaleString('en-GB', { maximumFractionDigits: 6 }).replace('-', '−');
 
-const num = (label: string) => z.number({ error: `${label} must be a number.` }).finite(`${label} must be finite.`);
+/** A finite number; the refused ones are worded by lib/field-messages.ts, which names the field. */
+const num = () => z.number();
 /** A number in `range`, with its default. */
-const ranged = (label: string, range: Range & { why?: string }) => {
-  const why = range.why ? `, ${range.why}` : '';
-  const low = range.minOpen ? num(label).gt(range.min, `${label} must be above ${formatBound(range.min)}${why}.`) : num(label).min(range.min, `${label} is at least ${formatBound(range.min)}.`);
-  return low.max(range.max, `${label} can be at most ${formatBound(range.max)}.`).default(range.default);
+const ranged = (range: Range & { why?: string }) => {
+  const why = range.why ? { error: (issue: z.core.$ZodRawIssue) => `${fieldMessage(issue).replace(/\.$/, '')}, ${range.why}.` } : undefined;
+  const low = range.minOpen ? num().gt(range.min, why) : num().min(range.min, why);
+  return low.max(range.max).default(range.default);
 };
-const whole = (label: string, min: number, max: number) =>
+const whole = (min: number, max: number) =>
   z
-    .number({ error: `${label} must be a number.` })
-    .int(`${label} must be a whole number.`)
-    .min(min, `${label} is at least ${min}.`)
-    .max(max, `${label} can be at most ${max.toLocaleString('en-GB')}.`);
-const between = (label: string, min: number, max: number) =>
-  num(label).min(min, `${label} is at least ${min}.`).max(max, `${label} can be at most ${max}.`);
+    .number()
+    .int()
+    .min(min)
+    .max(max);
+const between = (min: number, max: number) =>
+  num().min(min).max(max);
 
-const unitsPerArm = z.union([whole('unitsPerArm', 2, MAX_ROWS), z.tuple([whole('unitsPerArm[0]', 2, MAX_ROWS), whole('unitsPerArm[1]', 2, MAX_ROWS)])], {
-  error: 'unitsPerArm is a whole number, or a pair [arm 1, arm 2] of whole numbers.',
+const unitsPerArm = z.union([whole(2, MAX_ROWS), z.tuple([whole(2, MAX_ROWS), whole(2, MAX_ROWS)])], {
+  error: 'Enter the units per arm as a whole number, or as two whole numbers (arm 1, arm 2).',
 });
 
 export const simulationDesignSchema = z
   .object({
-    arms: z.literal(2, { error: 'arms must be 2: the stress test compares two arms.' }),
+    arms: z.literal(2),
     /** Clusters (classes, trays, practices) per arm; each has `clusterSize` units on average. */
-    clustersPerArm: whole('clustersPerArm', 2, 10_000).optional(),
-    clusterSize: whole('clusterSize', 1, 10_000).optional(),
+    clustersPerArm: whole(2, 10_000).optional(),
+    clusterSize: whole(1, 10_000).optional(),
     /** Coefficient of variation of the cluster sizes (SD / mean); 0 for equal sizes. */
-    clusterSizeCv: between('clusterSizeCv', 0, 3).default(0),
+    clusterSizeCv: between(0, 3).default(0),
     /** Independent units per arm when there are no clusters: one number, or [arm 1, arm 2]. */
     unitsPerArm: unitsPerArm.optional(),
     /** Occasions at which each unit is measured (repeated measures). */
-    occasions: whole('occasions', 2, MAX_OCCASIONS).optional(),
+    occasions: whole(2, MAX_OCCASIONS).optional(),
     /** Times of the occasions, increasing; 0, 1, 2, … by default. */
-    times: z.array(num('times[]'), { error: 'times is a list of numbers.' }).optional(),
+    times: z.array(num()).optional(),
     /** The effect of interest: the difference between arms, or (with occasions) the difference in slopes over time. */
-    target: z.enum(['treat', 'treat:time'], { error: 'target is treat or treat:time.' }).default('treat'),
+    target: z.enum(['treat', 'treat:time']).default('treat'),
     /**
      * Blocks (schools, sites, trays) that each hold both arms: the treatment is assigned within
      * every block, to its clusters (then clustersPerArm counts the clusters of one arm in one
      * block) or to its units (unitsPerArm per arm in one block).
      */
-    blocks: whole('blocks', 2, 10_000).optional(),
+    blocks: whole(2, 10_000).optional(),
     /**
      * Each unit receives both arms in turn, one per period, in the order of its sequence (a
      * cross-over, or a within-subject design with several occasions): unitsPerArm counts the
@@ -121,15 +123,15 @@ export const simulationDesignSchema = z
      */
     crossover: z
       .object({
-        periods: whole('crossover.periods', 2, MAX_PERIODS),
+        periods: whole(2, MAX_PERIODS),
         /**
          * The two sequences, as letters A (arm 1) and B (arm 2), one per period, e.g.
          * ["AB", "BA"] or ["ABBA", "BAAB"]. Default: ABBA… repeated to the number of periods and
          * its mirror image (AB/BA, ABB/BAA, ABBA/BAAB, …).
          */
         sequences: z
-          .tuple([rawText('crossover.sequences[0]'), rawText('crossover.sequences[1]')], {
-            error: 'crossover.sequences is a pair of sequences such as ["AB", "BA"].',
+          .tuple([rawText('The first sequence'), rawText('The second sequence')], {
+            error: 'Enter two sequences of the arms, such as AB and BA.',
           })
           .optional(),
       })
@@ -138,40 +140,40 @@ export const simulationDesignSchema = z
   .superRefine((d, ctx) => {
     const clustered = d.clustersPerArm !== undefined;
     if (clustered && d.unitsPerArm !== undefined) {
-      ctx.addIssue({ code: 'custom', path: ['unitsPerArm'], message: 'Give either clustersPerArm with clusterSize, or unitsPerArm, not both.' });
+      ctx.addIssue({ code: 'custom', path: ['unitsPerArm'], message: 'Give either the clusters per arm with the cluster size, or the units per arm, not both.' });
     }
     if (!clustered && d.unitsPerArm === undefined) {
-      ctx.addIssue({ code: 'custom', path: ['unitsPerArm'], message: 'Give unitsPerArm, or clustersPerArm with clusterSize.' });
+      ctx.addIssue({ code: 'custom', path: ['unitsPerArm'], message: 'Enter the units per arm, or the clusters per arm with the cluster size.' });
     }
     if (clustered && d.clusterSize === undefined) {
-      ctx.addIssue({ code: 'custom', path: ['clusterSize'], message: 'clusterSize is needed with clustersPerArm.' });
+      ctx.addIssue({ code: 'custom', path: ['clusterSize'], message: 'Enter the cluster size as well as the clusters per arm.' });
     }
     if (!clustered && d.clusterSize !== undefined) {
-      ctx.addIssue({ code: 'custom', path: ['clustersPerArm'], message: 'clustersPerArm is needed with clusterSize.' });
+      ctx.addIssue({ code: 'custom', path: ['clustersPerArm'], message: 'Enter the clusters per arm as well as the cluster size.' });
     }
     if (!clustered && d.clusterSizeCv > 0) {
-      ctx.addIssue({ code: 'custom', path: ['clusterSizeCv'], message: 'clusterSizeCv needs clusters: give clustersPerArm and clusterSize.' });
+      ctx.addIssue({ code: 'custom', path: ['clusterSizeCv'], message: 'The variation in cluster size needs clusters: enter the clusters per arm and the cluster size.' });
     }
     if (d.times !== undefined) {
       if (d.occasions === undefined || d.times.length !== d.occasions) {
-        ctx.addIssue({ code: 'custom', path: ['times'], message: 'times needs one value per occasion: give occasions and as many times.' });
+        ctx.addIssue({ code: 'custom', path: ['times'], message: 'Enter one time per occasion, as many times as occasions.' });
       } else if (d.times.some((t, i) => i > 0 && !(t > d.times![i - 1]!))) {
-        ctx.addIssue({ code: 'custom', path: ['times'], message: 'times must increase from one occasion to the next.' });
+        ctx.addIssue({ code: 'custom', path: ['times'], message: 'Enter the times in increasing order, one per occasion.' });
       }
     }
     if (d.target === 'treat:time' && d.occasions === undefined) {
-      ctx.addIssue({ code: 'custom', path: ['target'], message: 'A difference in slopes (treat:time) needs occasions.' });
+      ctx.addIssue({ code: 'custom', path: ['target'], message: 'A difference in slopes needs occasions: enter the number of occasions.' });
     }
     if (d.crossover) {
       const { periods, sequences } = d.crossover;
       if (clustered || d.unitsPerArm === undefined) {
-        ctx.addIssue({ code: 'custom', path: ['crossover'], message: 'A cross-over needs unitsPerArm (units per sequence); clusters that cross over are not simulated yet.' });
+        ctx.addIssue({ code: 'custom', path: ['crossover'], message: 'A cross-over needs the units per sequence; clusters that cross over are not simulated yet.' });
       }
-      if (d.blocks !== undefined) ctx.addIssue({ code: 'custom', path: ['blocks'], message: 'blocks and a cross-over cannot be combined yet: leave blocks out.' });
+      if (d.blocks !== undefined) ctx.addIssue({ code: 'custom', path: ['blocks'], message: 'Blocks and a cross-over cannot be combined yet: leave the blocks out.' });
       if (d.occasions !== undefined || d.times !== undefined) {
-        ctx.addIssue({ code: 'custom', path: ['occasions'], message: 'In a cross-over the periods are the occasions: leave occasions and times out.' });
+        ctx.addIssue({ code: 'custom', path: ['occasions'], message: 'In a cross-over the periods are the occasions: leave the occasions and times out.' });
       }
-      if (d.target !== 'treat') ctx.addIssue({ code: 'custom', path: ['target'], message: 'A cross-over takes target treat (the difference between the arms).' });
+      if (d.target !== 'treat') ctx.addIssue({ code: 'custom', path: ['target'], message: 'A cross-over estimates the difference between the arms, not a difference in slopes.' });
       if (sequences) {
         sequences.forEach((q, i) => {
           if (q.length !== periods || !/^[AB]+$/.test(q)) {
@@ -185,7 +187,7 @@ export const simulationDesignSchema = z
       }
     }
     if (d.blocks !== undefined && d.target !== 'treat') {
-      ctx.addIssue({ code: 'custom', path: ['target'], message: 'A design with blocks takes target treat (the difference between the arms).' });
+      ctx.addIssue({ code: 'custom', path: ['target'], message: 'A design with blocks estimates the difference between the arms, not a difference in slopes.' });
     }
     if (clustered && d.clusterSize !== undefined && d.clusterSizeCv > 0) {
       try {
@@ -198,64 +200,64 @@ export const simulationDesignSchema = z
 
 export const simulationTruthSchema = z.object({
   /** Difference between the arms (or in slopes); on the log-odds scale for binary, the log rate ratio for counts. */
-  effect: between('effect', -1e6, 1e6),
+  effect: between(-1e6, 1e6),
   /** Total SD of the outcome (gaussian family). */
-  sd: num('sd').gt(0, 'sd must be above 0.').max(1e6, 'sd can be at most 1,000,000.').optional(),
+  sd: num().gt(0).max(1e6).optional(),
   /** Share of the variance between clusters. */
-  icc: num('icc').min(0, 'icc is at least 0.').lt(1, 'icc must be below 1.').default(0),
+  icc: num().min(0).lt(1).default(0),
   /** Correlation of two occasions of one unit beyond its cluster (the unit's share of the remaining variance). */
-  occasionCorrelation: num('occasionCorrelation').min(0, 'occasionCorrelation is at least 0.').lt(1, 'occasionCorrelation must be below 1.').default(0),
+  occasionCorrelation: num().min(0).lt(1).default(0),
   /** SD of the units' random slopes over time. */
-  randomSlopeSd: between('randomSlopeSd', SLOPE_SD.min, SLOPE_SD.max).default(SLOPE_SD.default),
+  randomSlopeSd: between(SLOPE_SD.min, SLOPE_SD.max).default(SLOPE_SD.default),
   /**
    * SD of the clusters' random slopes over time (clusters with occasions): each cluster's units
    * share a trend beyond their own, so a difference in slopes between arms of clusters is judged
    * against the spread of the clusters' trends.
    */
-  clusterSlopeSd: between('clusterSlopeSd', 0, 1e6).default(0),
-  family: z.enum(['gaussian', 'binary', 'count'], { error: 'family is gaussian, binary or count.' }).default('gaussian'),
+  clusterSlopeSd: between(0, 1e6).default(0),
+  family: z.enum(['gaussian', 'binary', 'count']).default('gaussian'),
   /**
    * The first arm's level: gaussian, its mean (default 0; set it well above sd for a positive
    * outcome that log-ols can analyse); binary, its probability (default 0.3); count, its mean
    * count (default 5) — for binary and count at zero random effects.
    */
-  baseline: between('baseline', -1e6, 1e6).optional(),
+  baseline: between(-1e6, 1e6).optional(),
   /** Count: the negative-binomial shape k (variance μ + μ²/k); leave out for Poisson counts. */
-  overdispersion: num('overdispersion').gt(0, 'overdispersion must be above 0.').max(1e6, 'overdispersion can be at most 1,000,000.').optional(),
+  overdispersion: num().gt(0).max(1e6).optional(),
   /**
    * The scale of `icc`. `latent` (default): the share of the link-scale variance between clusters,
    * with the family's level-one variance (π²/3 for binary). `proportion` (binary only): the
    * correlation of two outcomes in one cluster, Var(P_c)/(p̄(1 − p̄)) in the first arm (Donner &
    * Klar 2000) — the ICC of a design with clusters of individuals and no other random effect.
    */
-  iccScale: z.enum(['latent', 'proportion'], { error: 'iccScale is latent or proportion.' }).default('latent'),
+  iccScale: z.enum(['latent', 'proportion']).default('latent'),
   /**
    * Count: the coefficient of variation of the clusters' true mean counts (SD/mean between
    * clusters; Hayes & Bennett 1999's k), instead of icc.
    */
-  clusterCv: num('clusterCv').gt(0, 'clusterCv must be above 0.').max(5, 'clusterCv can be at most 5.').optional(),
+  clusterCv: num().gt(0).max(5).optional(),
   /** Count with clusterCv: the clusters' rate multipliers are log-normal (default) or gamma with mean 1 (negative binomial cluster totals). */
-  clusterDistribution: z.enum(['log-normal', 'gamma'], { error: 'clusterDistribution is log-normal or gamma.' }).default('log-normal'),
+  clusterDistribution: z.enum(['log-normal', 'gamma']).default('log-normal'),
   /**
    * Binary and count: false (default) — `baseline` and `effect` describe a cluster and unit with
    * zero random effects (for binary, the conditional odds ratio a GLMM estimates); true — they are
    * population averages: the first arm's proportion or mean count over all clusters, and the
    * marginal odds ratio (the rate ratio is the same either way). Binary without random slopes.
    */
-  marginal: z.boolean({ error: 'marginal is true or false.' }).default(false),
+  marginal: z.boolean().default(false),
   /** Share of the variance between blocks (link scale for binary and count), with design.blocks. */
-  blockIcc: num('blockIcc').min(0, 'blockIcc is at least 0.').lt(1, 'blockIcc must be below 1.').default(0),
+  blockIcc: num().min(0).lt(1).default(0),
   /**
    * Cross-over: the mean of periods 2, 3, … minus period 1's, one number per later period (on the
    * outcome's scale for gaussian, the link scale for binary and count). Default 0.
    */
-  periodEffects: z.array(between('periodEffects[]', -1e6, 1e6), { error: 'periodEffects is a list of numbers.' }).optional(),
+  periodEffects: z.array(between(-1e6, 1e6)).optional(),
 });
 
-const scenarioName = rawText('name')
+const scenarioName = rawText('The scenario name')
   .trim()
-  .min(1, 'name is required when given.')
-  .max(60, 'name can be at most 60 characters.')
+  .min(1)
+  .max(60)
   .optional();
 
 const scenario = <V extends string, S extends z.ZodRawShape>(violation: V, shape: S) =>
@@ -266,28 +268,28 @@ export const scenarioSchema = z.discriminatedUnion(
   [
     scenario('none', {}),
     scenario('skewed', {
-      sigmaLog: ranged('sigmaLog', SCENARIO_RANGES.skewed.sigmaLog),
+      sigmaLog: ranged(SCENARIO_RANGES.skewed.sigmaLog),
     }),
     scenario('heavy-tailed', {
-      df: ranged('df', SCENARIO_RANGES['heavy-tailed'].df),
+      df: ranged(SCENARIO_RANGES['heavy-tailed'].df),
     }),
     scenario('outliers', {
-      fraction: ranged('fraction', SCENARIO_RANGES.outliers.fraction),
-      scale: ranged('scale', SCENARIO_RANGES.outliers.scale),
+      fraction: ranged(SCENARIO_RANGES.outliers.fraction),
+      scale: ranged(SCENARIO_RANGES.outliers.scale),
     }),
     scenario('unequal-variance', {
-      model: z.enum(['arm', 'covariate', 'mean'], { error: 'model is arm, covariate or mean.' }).default('arm'),
-      sdRatio: ranged('sdRatio', SCENARIO_RANGES['unequal-variance'].sdRatio),
+      model: z.enum(['arm', 'covariate', 'mean']).default('arm'),
+      sdRatio: ranged(SCENARIO_RANGES['unequal-variance'].sdRatio),
     }),
     scenario('nonlinear', {
-      shape: z.enum(['quadratic', 'logarithmic', 'threshold'], { error: 'shape is quadratic, logarithmic or threshold.' }).default('quadratic'),
+      shape: z.enum(['quadratic', 'logarithmic', 'threshold']).default('quadratic'),
       /** The predictor whose relation is curved; time by default when there are occasions, else a covariate. */
-      on: z.enum(['time', 'covariate'], { error: 'on is time or covariate.' }).optional(),
+      on: z.enum(['time', 'covariate']).optional(),
       /** Rise of the curve over the predictor's range, in SDs of the outcome. */
-      strength: ranged('strength', SCENARIO_RANGES.nonlinear.strength),
+      strength: ranged(SCENARIO_RANGES.nonlinear.strength),
     }),
     scenario('serial', {
-      ar: ranged('ar', SCENARIO_RANGES.serial.ar),
+      ar: ranged(SCENARIO_RANGES.serial.ar),
     }),
     scenario('carry-over', {
       /**
@@ -295,11 +297,10 @@ export const scenarioSchema = z.discriminatedUnion(
        * of the run's effect (default 0.5, so none when there is no effect), or, when given, a fixed
        * `size` (outcome scale for gaussian, link scale otherwise) in both runs.
        */
-      fraction: ranged('fraction', SCENARIO_RANGES['carry-over'].fraction),
-      size: between('size', -1e6, 1e6).optional(),
+      fraction: ranged(SCENARIO_RANGES['carry-over'].fraction),
+      size: between(-1e6, 1e6).optional(),
     }),
   ],
-  { error: 'violation is one of none, skewed, heavy-tailed, outliers, unequal-variance, nonlinear, serial, carry-over.' },
 );
 
 export const simulationSpecSchema = z
@@ -307,60 +308,60 @@ export const simulationSpecSchema = z
     design: simulationDesignSchema,
     truth: simulationTruthSchema,
     scenarios: z
-      .array(scenarioSchema, { error: 'scenarios is a list.' })
-      .min(1, 'Give at least one scenario (e.g. {"violation": "none"}).')
-      .max(MAX_SCENARIOS, `Give at most ${MAX_SCENARIOS} scenarios.`),
+      .array(scenarioSchema)
+      .min(1)
+      .max(MAX_SCENARIOS),
     analyses: z
-      .array(z.enum(ANALYSIS_NAMES, { error: `Each analysis is one of ${ANALYSIS_NAMES.join(', ')}.` }), { error: 'analyses is a list.' })
-      .min(1, 'Give at least one analysis.')
-      .max(ANALYSIS_NAMES.length, `Give at most ${ANALYSIS_NAMES.length} analyses.`),
-    replicates: whole('replicates', REPLICATES.min, REPLICATES.max).default(REPLICATES.default),
-    seed: whole('seed', SEED.min, SEED.max).default(SEED.default),
-    alpha: ranged('alpha', ALPHA),
+      .array(z.enum(ANALYSIS_NAMES))
+      .min(1)
+      .max(ANALYSIS_NAMES.length),
+    replicates: whole(REPLICATES.min, REPLICATES.max).default(REPLICATES.default),
+    seed: whole(SEED.min, SEED.max).default(SEED.default),
+    alpha: ranged(ALPHA),
   })
   .superRefine((spec, ctx) => {
     const { design, truth } = spec;
     const clustered = design.clustersPerArm !== undefined;
     const hasOccasions = design.occasions !== undefined;
     const gaussian = truth.family === 'gaussian';
-    if (gaussian && truth.sd === undefined) ctx.addIssue({ code: 'custom', path: ['truth', 'sd'], message: 'sd is needed for a gaussian outcome.' });
+    if (gaussian && truth.sd === undefined) ctx.addIssue({ code: 'custom', path: ['truth', 'sd'], message: 'Enter the standard deviation of the outcome.' });
     if (truth.family === 'binary' && truth.baseline !== undefined && !(truth.baseline > 0 && truth.baseline < 1)) {
-      ctx.addIssue({ code: 'custom', path: ['truth', 'baseline'], message: 'For a binary outcome, baseline is a probability between 0 and 1.' });
+      ctx.addIssue({ code: 'custom', path: ['truth', 'baseline'], message: 'For a yes/no outcome, enter the baseline as a proportion between 0 and 1.' });
     }
     if (truth.family === 'count' && truth.baseline !== undefined && !(truth.baseline > 0)) {
-      ctx.addIssue({ code: 'custom', path: ['truth', 'baseline'], message: 'For a count outcome, baseline is a mean count above 0.' });
+      ctx.addIssue({ code: 'custom', path: ['truth', 'baseline'], message: 'For a count outcome, enter the baseline as a mean count above 0.' });
     }
     if (!gaussian && design.target !== 'treat') {
-      ctx.addIssue({ code: 'custom', path: ['design', 'target'], message: 'Binary and count outcomes take target treat (a difference between arms).' });
+      ctx.addIssue({ code: 'custom', path: ['design', 'target'], message: 'For yes/no and count outcomes the stress test estimates the difference between the arms, not a difference in slopes.' });
     }
     if (truth.overdispersion !== undefined && truth.family !== 'count') {
-      ctx.addIssue({ code: 'custom', path: ['truth', 'overdispersion'], message: 'overdispersion applies to count outcomes only.' });
+      ctx.addIssue({ code: 'custom', path: ['truth', 'overdispersion'], message: 'Leave the overdispersion out: it applies to count outcomes only.' });
     }
-    if (truth.icc > 0 && !clustered) ctx.addIssue({ code: 'custom', path: ['truth', 'icc'], message: 'icc needs clusters: give clustersPerArm and clusterSize, or set icc to 0.' });
+    if (truth.icc > 0 && !clustered) ctx.addIssue({ code: 'custom', path: ['truth', 'icc'], message: 'An intracluster correlation needs clusters: enter the clusters per arm and the cluster size, or set the ICC to 0.' });
     if (truth.occasionCorrelation > 0 && !hasOccasions && design.crossover === undefined) {
-      ctx.addIssue({ code: 'custom', path: ['truth', 'occasionCorrelation'], message: 'occasionCorrelation needs occasions.' });
+      ctx.addIssue({ code: 'custom', path: ['truth', 'occasionCorrelation'], message: 'A correlation between occasions needs occasions: enter the number of occasions, or set it to 0.' });
     }
-    if (truth.randomSlopeSd > 0 && !hasOccasions) ctx.addIssue({ code: 'custom', path: ['truth', 'randomSlopeSd'], message: 'randomSlopeSd needs occasions.' });
+    if (truth.randomSlopeSd > 0 && !hasOccasions) ctx.addIssue({ code: 'custom', path: ['truth', 'randomSlopeSd'], message: 'A spread of the slopes between units needs occasions: enter the number of occasions, or set it to 0.' });
     if (truth.clusterSlopeSd > 0 && !(clustered && hasOccasions)) {
-      ctx.addIssue({ code: 'custom', path: ['truth', 'clusterSlopeSd'], message: 'clusterSlopeSd needs clusters measured at occasions (clustersPerArm, clusterSize and occasions).' });
+      ctx.addIssue({ code: 'custom', path: ['truth', 'clusterSlopeSd'], message: 'A spread of the slopes between clusters needs clusters measured at occasions: enter the clusters per arm, the cluster size and the occasions, or set it to 0.' });
     }
     const crossover = design.crossover;
     const withinUnits = crossover !== undefined;
-    if (withinUnits && truth.randomSlopeSd > 0) ctx.addIssue({ code: 'custom', path: ['truth', 'randomSlopeSd'], message: 'randomSlopeSd needs occasions; a cross-over has periods.' });
+    if (withinUnits && truth.randomSlopeSd > 0) ctx.addIssue({ code: 'custom', path: ['truth', 'randomSlopeSd'], message: 'A cross-over has periods, not occasions: set the spread of the slopes between units to 0.' });
     if (truth.periodEffects !== undefined && (!crossover || truth.periodEffects.length !== crossover.periods - 1)) {
       ctx.addIssue({
         code: 'custom',
         path: ['truth', 'periodEffects'],
-        message: crossover ? `periodEffects needs one number per period after the first (${crossover.periods - 1}).` : 'periodEffects needs a cross-over.',
+        message: crossover ? `Enter one period effect per period after the first (${crossover.periods - 1}).` : 'Leave the period effects out: they apply to a cross-over only.',
       });
     }
-    if (truth.blockIcc > 0 && design.blocks === undefined) ctx.addIssue({ code: 'custom', path: ['truth', 'blockIcc'], message: 'blockIcc needs blocks, or set it to 0.' });
-    if (truth.blockIcc + truth.icc >= 1) ctx.addIssue({ code: 'custom', path: ['truth', 'blockIcc'], message: 'icc and blockIcc together must stay below 1.' });
+    if (truth.blockIcc > 0 && design.blocks === undefined) ctx.addIssue({ code: 'custom', path: ['truth', 'blockIcc'], message: 'The intracluster correlation of the blocks needs blocks: enter the blocks, or set it to 0.' });
+    if (truth.blockIcc + truth.icc >= 1) ctx.addIssue({ code: 'custom', path: ['truth', 'blockIcc'], message: 'The two intracluster correlations (clusters and blocks) together must stay below 1.' });
     const binaryBaseline = truth.family === 'binary' && truth.baseline !== undefined && truth.baseline > 0 && truth.baseline < 1 ? truth.baseline : 0.3;
     if (truth.iccScale === 'proportion') {
-      if (truth.family !== 'binary') ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'iccScale proportion applies to binary outcomes.' });
+      if (truth.family !== 'binary') ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'An ICC on the proportion scale applies to yes/no outcomes only.' });
       else if (truth.blockIcc > 0 || truth.occasionCorrelation > 0 || truth.randomSlopeSd > 0 || truth.clusterSlopeSd > 0) {
-        ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'iccScale proportion takes one level of clusters and no other random effect (blockIcc, occasionCorrelation, randomSlopeSd and clusterSlopeSd 0).' });
+        ctx.addIssue({ code: 'custom', path: ['truth', 'iccScale'], message: 'An ICC on the proportion scale takes one level of clusters and no other random effect: set the ICC of the blocks, the correlation between occasions and the spreads of the slopes to 0.' });
       } else {
         try {
           sigmaForIcc(truth.icc, truth.marginal ? { marginal: binaryBaseline } : { eta: Math.log(binaryBaseline / (1 - binaryBaseline)) });
@@ -370,16 +371,16 @@ export const simulationSpecSchema = z
       }
     }
     if (truth.marginal && truth.family === 'binary' && Math.abs(Math.log(binaryBaseline / (1 - binaryBaseline)) + truth.effect) > 30) {
-      ctx.addIssue({ code: 'custom', path: ['truth', 'effect'], message: 'With a marginal truth the second arm’s proportion must stay between 0 and 1: give a log odds ratio that keeps logit(baseline) + effect within ±30.' });
+      ctx.addIssue({ code: 'custom', path: ['truth', 'effect'], message: 'With a population-average effect the second arm’s proportion must stay between 0 and 1: enter a smaller log odds ratio (logit of the baseline plus the effect within ±30).' });
     }
     if (truth.clusterCv !== undefined) {
-      if (truth.family !== 'count') ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'clusterCv applies to count outcomes.' });
-      if (!clustered) ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'clusterCv needs clusters: give clustersPerArm and clusterSize.' });
-      if (truth.icc > 0) ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'Give either icc or clusterCv for the clusters, not both.' });
+      if (truth.family !== 'count') ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'The variation between clusters (CV) applies to count outcomes only.' });
+      if (!clustered) ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'The variation between clusters (CV) needs clusters: enter the clusters per arm and the cluster size.' });
+      if (truth.icc > 0) ctx.addIssue({ code: 'custom', path: ['truth', 'clusterCv'], message: 'Describe the clusters by either the ICC or the variation between clusters (CV), not both.' });
     }
-    if (truth.marginal && gaussian) ctx.addIssue({ code: 'custom', path: ['truth', 'marginal'], message: 'marginal applies to binary and count outcomes.' });
+    if (truth.marginal && gaussian) ctx.addIssue({ code: 'custom', path: ['truth', 'marginal'], message: 'A population-average effect applies to yes/no and count outcomes only.' });
     if (truth.marginal && truth.family === 'binary' && (truth.randomSlopeSd > 0 || truth.clusterSlopeSd > 0)) {
-      ctx.addIssue({ code: 'custom', path: ['truth', 'marginal'], message: 'A marginal binary truth takes no random slopes (randomSlopeSd and clusterSlopeSd 0).' });
+      ctx.addIssue({ code: 'custom', path: ['truth', 'marginal'], message: 'A population-average effect on a yes/no outcome takes no random slopes: set the spreads of the slopes to 0.' });
     }
 
     const names = new Set<string>();
@@ -390,30 +391,30 @@ export const simulationSpecSchema = z
       }
       names.add(name);
       if (!gaussian && s.violation !== 'none' && s.violation !== 'carry-over') {
-        ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: `${s.violation} applies to gaussian outcomes; binary and count outcomes take violation none or carry-over.` });
+        ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'This scenario applies to measured outcomes; for yes/no and count outcomes choose assumptions that hold or carry-over.' });
       }
-      if (s.violation === 'carry-over' && !design.crossover) ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'carry-over needs a cross-over design.' });
-      if (s.violation === 'serial' && design.crossover) ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'serial correlation is not simulated in a cross-over yet.' });
-      if (s.violation === 'serial' && !hasOccasions) ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'serial correlation needs occasions.' });
+      if (s.violation === 'carry-over' && !design.crossover) ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'Carry-over needs a cross-over design.' });
+      if (s.violation === 'serial' && design.crossover) ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'Serial correlation is not simulated in a cross-over yet.' });
+      if (s.violation === 'serial' && !hasOccasions) ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'violation'], message: 'Serial correlation needs occasions.' });
       if (s.violation === 'nonlinear' && s.on === 'time' && !hasOccasions) {
-        ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'on'], message: 'A curved relation with time needs occasions; use on: covariate.' });
+        ctx.addIssue({ code: 'custom', path: ['scenarios', i, 'on'], message: 'A curved relation with time needs occasions; choose a curve in a covariate instead.' });
       }
     });
     if (new Set(spec.analyses).size !== spec.analyses.length) ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'Name each analysis once.' });
     if (spec.analyses.includes('glm') && gaussian) {
-      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'glm needs a binary or count outcome (family).' });
+      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'Logistic or Poisson regression needs a yes/no or count outcome.' });
     }
     if (spec.analyses.includes('glmm') && gaussian) {
-      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'glmm needs a binary or count outcome (family); use mixed for a gaussian one.' });
+      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'The logistic or Poisson mixed model needs a yes/no or count outcome; for a measured outcome choose the linear mixed model.' });
     }
     if (spec.analyses.includes('glmm') && !clustered && !hasOccasions && !design.crossover && design.blocks === undefined) {
-      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'glmm needs clusters, occasions, blocks or a cross-over to give a random intercept.' });
+      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'The logistic or Poisson mixed model needs clusters, occasions, blocks or a cross-over to give a random intercept.' });
     }
     if (spec.analyses.includes('glm-nb') && truth.family !== 'count') {
-      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'glm-nb needs a count outcome (family count).' });
+      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'Negative-binomial regression needs a count outcome.' });
     }
     if (spec.analyses.includes('period-difference') && design.crossover?.periods !== 2) {
-      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'period-difference needs a two-period cross-over (crossover with periods 2).' });
+      ctx.addIssue({ code: 'custom', path: ['analyses'], message: 'The t test on the period differences needs a two-period cross-over.' });
     }
 
     const rows = rowsPerDataset(design);
@@ -423,7 +424,7 @@ export const simulationSpecSchema = z
       ctx.addIssue({
         code: 'custom',
         path: ['replicates'],
-        message: `replicates × scenarios × rows (${(rows * spec.replicates * spec.scenarios.length).toLocaleString('en-GB')}) can be at most ${MAX_GENERATED_OBSERVATIONS.toLocaleString('en-GB')}: use fewer replicates or scenarios.`,
+        message: `Replicates × scenarios × rows of data come to ${(rows * spec.replicates * spec.scenarios.length).toLocaleString('en-GB')}, more than the ${MAX_GENERATED_OBSERVATIONS.toLocaleString('en-GB')} simulated at most: use fewer replicates or scenarios.`,
       });
     }
   })

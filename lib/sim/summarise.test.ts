@@ -37,11 +37,11 @@ describe('summarise', () => {
       'big outliers': { ols: nominal({ bias: { value: 0.1, mcse: 0.01 } }), mixed: nominal() },
     };
     expect(summarise(spec, results)).toEqual([
-      'When the assumptions hold, analysed with ols, the false-positive rate is 25%, not 5%.',
-      'When the assumptions hold, analysed with ols, the 95% confidence interval covers the true effect 83% of the time, not 95%.',
-      'When the assumptions hold, analysed with ols, the reported standard error is 40% smaller than the real spread of the estimates.',
-      'When the assumptions hold, analysed with mixed, 12 of the 2,000 fits asked for (0.6%; 1,000 replicates, each fitted with and without the effect) did not converge or could not be estimated, and were left out of the other figures.',
-      'With outliers (big outliers), analysed with ols, the estimate is off by 0.1 on average (20% of the true effect).',
+      'When the assumptions hold, analysed with least squares, the false-positive rate is 25%, not 5%.',
+      'When the assumptions hold, analysed with least squares, the 95% confidence interval covers the true effect 83% of the time, not 95%.',
+      'When the assumptions hold, analysed with least squares, the reported standard error is 40% smaller than the real spread of the estimates.',
+      'When the assumptions hold, analysed with linear mixed model, 12 of the 2,000 fits asked for (0.6%; 1,000 replicates, each fitted with and without the effect) did not converge or could not be estimated, and were left out of the other figures.',
+      'With outliers (big outliers), analysed with least squares, the estimate is off by 0.1 on average (20% of the true effect).',
     ]);
   });
 
@@ -49,7 +49,7 @@ describe('summarise', () => {
     const failed = nominal({ nonConverged: { value: 2000, mcse: 0 } });
     for (const k of ['typeIError', 'coverage', 'bias', 'seRatio', 'power'] as const) failed[k] = { value: NaN, mcse: NaN };
     expect(summarise(spec, { none: { ols: nominal(), mixed: failed } })).toEqual([
-      'When the assumptions hold, analysed with mixed, 2,000 of the 2,000 fits asked for (100%; 1,000 replicates, each fitted with and without the effect) did not converge or could not be estimated, so this analysis has no figures here.',
+      'When the assumptions hold, analysed with linear mixed model, 2,000 of the 2,000 fits asked for (100%; 1,000 replicates, each fitted with and without the effect) did not converge or could not be estimated, so this analysis has no figures here.',
     ]);
   });
 
@@ -57,7 +57,7 @@ describe('summarise', () => {
     const few = { ...spec, replicates: 10 };
     expect(summarise(few, { none: { ols: nominal({ typeIError: { value: 0, mcse: 0 } }) } })).toEqual([]);
     expect(summarise(spec, { none: { ols: nominal({ typeIError: { value: 0, mcse: 0 } }) } })).toEqual([
-      'When the assumptions hold, analysed with ols, the false-positive rate is 0%, not 5%.',
+      'When the assumptions hold, analysed with least squares, the false-positive rate is 0%, not 5%.',
     ]);
   });
 

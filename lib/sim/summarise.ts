@@ -20,6 +20,8 @@
  * is not called a departure on a handful of replicates. Power has no nominal value and gets no
  * sentence. (MC SEs: Morris, White & Crowther 2019, Stat Med 38:2074.)
  */
+import { analysisLabel } from './analysis-words';
+import { formatPercent } from '@/lib/format';
 import type { AnalysisName } from '@/lib/models/types';
 import { scenarioKey, type Scenario, type SimulationSpec } from './spec';
 import type { Metric } from './metrics';
@@ -39,11 +41,9 @@ const SCENARIO_PHRASES: Record<Scenario['violation'], string> = {
   'carry-over': 'With carry-over between periods',
 };
 
-/** 0.25 → "25%", 0.051 → "5.1%", 0.0004 → "0.04%". */
+/** 0.25 → "25%", 0.051 → "5.1%", 0.0004 → "0.04%" (lib/format.ts). */
 export function percent(p: number): string {
-  const x = 100 * p;
-  if (x === 0 || Math.abs(x) >= 10) return `${Math.round(x)}%`;
-  return `${Number(x.toPrecision(2))}%`;
+  return formatPercent(p, 'text');
 }
 
 function departs(metric: Metric, nominal: number, nominalMcse: number): boolean {
@@ -77,7 +77,7 @@ export function summarise(spec: SimulationSpec, results: SimulationResults): str
     for (const analysis of spec.analyses) {
       const m = byAnalysis[analysis as AnalysisName];
       if (!m) continue;
-      const lead = `${scenarioPhrase(scenario)}, analysed with ${analysis}`;
+      const lead = `${scenarioPhrase(scenario)}, analysed with ${analysisLabel(analysis)}`;
       if (departs(m.typeIError, alpha, rateMcse(alpha))) {
         sentences.push(`${lead}, the false-positive rate is ${percent(m.typeIError.value)}, not ${percent(alpha)}.`);
       }

@@ -6,7 +6,7 @@ import { rawText, text } from '@/lib/text-schema';
 export const designSaveSchema = z
   .object({
     /** The revision the edit started from; a save against an older one is merged or refused. */
-    baseRevision: z.number({ error: 'baseRevision must be a number.' }).int().min(0),
+    baseRevision: z.number().int().min(0),
     design: designSchema,
     note: text('Note', 0, 500).optional(),
   })

@@ -46,7 +46,7 @@ test.describe('calculators, signed out', () => {
     await expect(calc.answer('Power')).toHaveText('80.4%');
 
     await calc.set('Standard deviation', '-1');
-    await expect(calc.status).toContainText('Standard deviation');
+    await expect(calc.status).toContainText('Enter the standard deviation as a number above 0.');
     await expect(calc.field('Standard deviation')).toHaveAttribute('aria-invalid', 'true');
     await expectNoSeriousA11yViolations(page, 'Two group means calculator with an error');
   });

@@ -62,13 +62,13 @@ test('classroom design: a small stress test runs, shows progress, then results a
   await test.step('results: the verdict grid first, the best alternative, the detail table collapsed', async () => {
     await expect(stress.grid).toBeVisible({ timeout: 30_000 });
     // The planned analysis leads: a t test of the pupils ignores the classrooms (ICC 0.15).
-    await expect(stress.plannedRow.getByRole('rowheader')).toContainText('ols');
+    await expect(stress.plannedRow.getByRole('rowheader')).toContainText('least squares');
     await expect(stress.plannedRow.getByRole('rowheader')).toContainText('planned');
     const cell = stress.plannedRow.getByTestId('verdict-cell');
     await expect(cell).toHaveAttribute('data-verdict', 'broken');
     await expect(cell).toContainText('Fails');
     await expect(cell).toContainText('Power not counted');
-    await expect(page.getByTestId('verdict-headline')).toContainText('The planned analysis, ols, fails in 1 of 1 scenario');
+    await expect(page.getByTestId('verdict-headline')).toContainText('The planned analysis, least squares, fails in 1 of 1 scenario');
     // The Monte Carlo error on keyboard focus, as a tooltip the cell is described by.
     await cell.focus();
     const tip = page.getByRole('tooltip');
@@ -77,17 +77,17 @@ test('classroom design: a small stress test runs, shows progress, then results a
     await expect(cell).toHaveAccessibleDescription(/not counted/);
     await page.keyboard.press('Escape');
     await expect(tip).toBeHidden();
-    await expect(stress.bestAlternative).toContainText(/^(cluster-robust|cluster-means|mixed) keeps its false-positive rate and coverage in every scenario/);
+    await expect(stress.bestAlternative).toContainText(/^(Cluster-robust SE \(CR2\)|Analysis of cluster or unit means|Linear mixed model) keeps its false-positive rate and coverage in every scenario/);
     // Every figure is still there, collapsed.
     await expect(stress.results).toBeHidden();
     await stress.openDetails();
     await expect(stress.results).toBeVisible();
     const rows = await stress.resultRows();
     expect(rows).toHaveLength(4);
-    // Ignoring the classrooms (ICC 0.15, 23 pupils analysed in each), ols's false-positive rate is far above 5%.
-    const ols = rows.find((r) => / ols /.test(` ${r} `));
-    expect(ols, rows.join('\n')).toMatch(/^Assumptions hold .* ols \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
-    await expect(stress.summary).toContainText('analysed with ols, the false-positive rate is');
+    // Ignoring the classrooms (ICC 0.15, 23 pupils analysed in each), least squares' false-positive rate is far above 5%.
+    const ols = rows.find((r) => / least squares \d/.test(` ${r} `));
+    expect(ols, rows.join('\n')).toMatch(/^Assumptions hold .* least squares \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
+    await expect(stress.summary).toContainText('analysed with least squares, the false-positive rate is');
     await expect(stress.pastRuns.getByRole('row').filter({ hasText: 'Shown above' })).toContainText(`${revision}`);
     await checkA11y(page, 'stress test tab with results');
     await atBothWidths(page, 'stress-test-classroom-results');
@@ -99,7 +99,7 @@ test('classroom design: a small stress test runs, shows progress, then results a
     await stress.results.getByRole('button', { name: /False-positive rate/ }).click();
     await expect(page).toHaveURL(/sort=typeIError\.desc/);
     await expect(stress.results.getByRole('columnheader', { name: /False-positive rate/ })).toHaveAttribute('aria-sort', 'descending');
-    await expect(stress.results.locator('tbody tr').first().getByRole('rowheader')).toHaveText('ols');
+    await expect(stress.results.locator('tbody tr').first().getByRole('rowheader')).toHaveText('least squares');
   });
 
   await test.step('cancelling asks first, and the finished run stays in view', async () => {
@@ -153,10 +153,10 @@ test('sleep-timing design: the cross-over of 8 nights runs from the tab, carry-o
   const rows = await stress.resultRows();
   expect(rows).toHaveLength(8);
   expect(rows.filter((r) => r.startsWith('Carry-over'))).toHaveLength(4);
-  const mixed = rows.find((r) => /^Assumptions hold .* mixed /.test(r));
-  expect(mixed, rows.join('\n')).toMatch(/ mixed \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
+  const mixed = rows.find((r) => /^Assumptions hold .* linear mixed model /.test(r));
+  expect(mixed, rows.join('\n')).toMatch(/ linear mixed model \d+\.\d% ± \d+\.\d% \d+\.\d% ± \d+\.\d%/);
   // Carry-over biases every analysis that adjusts for period only (the design's warning, made visible).
-  await expect(stress.summary).toContainText('With carry-over between periods, analysed with mixed, the estimate is off by');
+  await expect(stress.summary).toContainText('With carry-over between periods, analysed with linear mixed model, the estimate is off by');
   await expect(page.getByText(/12 volunteers per sequence/).first()).toBeVisible();
   await atBothWidths(page, 'stress-test-sleep-results');
 });

@@ -407,11 +407,11 @@ describe('limits per person', () => {
     const me = await makeUser('typo');
     const none = await post(me, {});
     expect(none.status).toBe(400);
-    expect(none.body.error.fields.spec).toEqual(['Send a specification (spec), or the studyId of a study whose design to use.']);
+    expect(none.body.error.fields.spec).toEqual(['Send a stress-test specification, or the study whose design to use.']);
     const stray = await post(me, { spec: SMALL, seed: 4 });
-    expect(stray.body.error.fields.seed).toEqual(['With a specification, put seed inside spec.']);
+    expect(stray.body.error.fields.seed).toEqual(['With a specification, give the random seed inside the specification.']);
     const wrong = await post(me, { spec: { ...SMALL, scenarios: [{ violation: 'serial' }] } });
     expect(wrong.status).toBe(400);
-    expect(wrong.body.error.fields['spec.scenarios.0.violation']).toEqual(['serial correlation needs occasions.']);
+    expect(wrong.body.error.fields['spec.scenarios.0.violation']).toEqual(['Serial correlation needs occasions.']);
   });
 });

@@ -1,3 +1,4 @@
+import { formatDateTime } from '@/lib/format';
 import type { Metadata } from 'next';
 import { headers } from 'next/headers';
 import { notFound } from 'next/navigation';
@@ -57,7 +58,7 @@ export default async function OutboxPage({ searchParams }: { searchParams: Promi
               <article aria-label={m.subject} className="rounded-lg border border-line bg-white p-4">
                 <h2 className="font-bold">{m.subject}</h2>
                 <p className="text-sm text-muted">
-                  To {m.to.join(', ')} · <time dateTime={m.receivedAt}>{new Date(m.receivedAt).toLocaleString('en-GB')}</time>
+                  To {m.to.join(', ')} · <time dateTime={m.receivedAt}>{formatDateTime(m.receivedAt)}</time>
                 </p>
                 <pre className="mt-3 whitespace-pre-wrap font-sans text-sm">
                   <Linked text={m.text} />

@@ -1,6 +1,7 @@
 'use client';
 
 import { useState } from 'react';
+import { DF_METHOD_WORDS, GLM_FAMILY_WORDS, optionsOf, STANDARD_ERROR_WORDS } from '../analysis-words';
 import { SelectField, TextAreaField } from '@/components/ui/field';
 import { analysisSchema } from '@/lib/design/schema';
 import { asOptional, errorAt, useStepForm } from '../step-form';
@@ -91,27 +92,28 @@ export function AnalysisStep({ value, design, onValid, onDraft, disabled }: Step
           <option value="random">As a random effect</option>
         </SelectField>
       )}
-      <div className="grid gap-3 sm:grid-cols-2">
+      <div className="grid gap-3 @md:grid-cols-2">
         <SelectField label="Family (for a GLM or GLMM)" {...register('glmFamily', asOptional)}>
           <option value="">Not applicable</option>
-          <option value="gaussian">Gaussian</option>
-          <option value="binomial">Binomial (logistic)</option>
-          <option value="poisson">Poisson</option>
-          <option value="negative-binomial">Negative binomial</option>
-          <option value="gamma">Gamma</option>
-          <option value="beta">Beta</option>
+          {optionsOf(GLM_FAMILY_WORDS).map(([value, words]) => (
+            <option key={value} value={value}>
+              {words}
+            </option>
+          ))}
         </SelectField>
         <SelectField label="Standard errors" {...register('standardErrors')}>
-          <option value="model">From the model</option>
-          <option value="hc3">Robust (HC3)</option>
-          <option value="cluster-robust">Cluster-robust</option>
-          <option value="cr2">Cluster-robust, small-sample (CR2)</option>
+          {optionsOf(STANDARD_ERROR_WORDS).map(([value, words]) => (
+            <option key={value} value={value}>
+              {words}
+            </option>
+          ))}
         </SelectField>
         <SelectField label="Degrees of freedom" {...register('dfMethod')}>
-          <option value="residual">Residual</option>
-          <option value="satterthwaite">Satterthwaite</option>
-          <option value="kenward-roger">Kenward–Roger</option>
-          <option value="between-within">Between–within</option>
+          {optionsOf(DF_METHOD_WORDS).map(([value, words]) => (
+            <option key={value} value={value}>
+              {words}
+            </option>
+          ))}
         </SelectField>
         <SelectField label="Scale of the outcome" {...register('transformation')}>
           <option value="none">As measured</option>

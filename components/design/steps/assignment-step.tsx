@@ -42,7 +42,7 @@ export function AssignmentStep({ value, design, onValid, onDraft, disabled }: St
         <div className="space-y-2">
           <h3 className="text-sm font-semibold">Arms and allocation</h3>
           {arms.fields.map((f, i) => (
-            <div key={f.id} className="grid gap-2 sm:grid-cols-[1fr_10rem_auto]">
+            <div key={f.id} className="grid gap-2 @md:grid-cols-[1fr_10rem_auto]">
               <TextField label={`Arm ${i + 1} name`} {...register(`arms.${i}.name`)} error={errorAt(e, `arms.${i}.name`)} />
               <TextField label="Share" type="number" step="any" help="e.g. 1 and 1 for equal arms, 2 and 1 for 2:1" {...register(`arms.${i}.allocation`, asNumber)} error={errorAt(e, `arms.${i}.allocation`)} />
               <div className="flex items-end">
@@ -58,7 +58,7 @@ export function AssignmentStep({ value, design, onValid, onDraft, disabled }: St
           </Button>
         </div>
       )}
-      <div className="grid gap-3 sm:grid-cols-2">
+      <div className="grid gap-3 @md:grid-cols-2">
         <SelectField label="Blocking, stratification or matching" {...register('blocking.kind')}>
           <option value="none">None</option>
           <option value="blocked">Blocked</option>
@@ -76,7 +76,7 @@ export function AssignmentStep({ value, design, onValid, onDraft, disabled }: St
           <input type="checkbox" {...register('crossover.enabled')} /> Cross-over: each unit receives every arm in turn
         </label>
         {crossover && (
-          <div className="grid gap-3 sm:grid-cols-2">
+          <div className="grid gap-3 @md:grid-cols-2">
             <TextField label="Periods" type="number" min={2} {...register('crossover.periods', asNumber)} error={errorAt(e, 'crossover.periods')} />
             <TextField label="Washout between periods" help="e.g. 7 days, none" {...register('crossover.washout')} />
             <label className="flex items-center gap-2 text-sm">

@@ -40,7 +40,7 @@ type OutcomeNumber = 'controlProportion' | 'baselineRate' | 'rateRatio' | 'follo
 
 function SourceFields({ path, register, e }: { path: string; register: UseFormRegister<Assumptions>; e: Record<string, unknown> }) {
   return (
-    <div className="grid gap-2 sm:grid-cols-3">
+    <div className="grid gap-2 @md:grid-cols-2 @2xl:grid-cols-3">
       <SelectField label="Source" {...register(`${path}.source.kind` as never)}>
         <option value="none">No source yet</option>
         <option value="published">A published study</option>
@@ -91,7 +91,7 @@ export function AssumptionsStep({ value, design, onValid, onDraft, disabled }: S
         <>
           {sourced('controlProportion', 'Proportion expected without the intervention', 'The share with the outcome in the comparison arm, as a fraction (0.55 = 55%).', { min: 0, max: 1 })}
           <section className="space-y-2 rounded-md border border-line bg-white p-3">
-            <div className="grid gap-2 sm:grid-cols-2">
+            <div className="grid gap-2 @md:grid-cols-2">
               <SelectField label="State the effect worth detecting as" {...register('proportionEffect.measure')}>
                 <option value="p2">The proportion expected with the intervention</option>
                 <option value="difference">A difference in proportions</option>
@@ -185,7 +185,7 @@ export function AssumptionsStep({ value, design, onValid, onDraft, disabled }: S
           <SourceFields path="occasionCorrelation" register={register} e={e} />
         </section>
       )}
-      <div className="grid gap-3 sm:grid-cols-2">
+      <div className="grid gap-3 @md:grid-cols-2">
         <TextField label="Significance level (α)" type="number" step="any" {...register('alpha', asNumber)} error={errorAt(e, 'alpha')} />
         <TextField label="Target power" type="number" step="any" {...register('power', asNumber)} error={errorAt(e, 'power')} />
       </div>

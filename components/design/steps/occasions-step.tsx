@@ -20,17 +20,23 @@ export function OccasionsStep({ value, onValid, onDraft, disabled }: StepProps<'
       <TextField label="Time unit" {...register('timeUnit')} error={errorAt(e, 'timeUnit')} />
       <ol className="space-y-2">
         {list.fields.map((f, i) => (
-          <li key={f.id} className="grid gap-2 rounded-md border border-line bg-white p-3 sm:grid-cols-[1fr_8rem_9rem_auto_auto]">
-            <TextField label="Label" {...register(`list.${i}.label`)} error={errorAt(e, `list.${i}.label`)} />
-            <TextField label={`Time (${unit || 'units'})`} type="number" step="any" {...register(`list.${i}.time`, asNumber)} error={errorAt(e, `list.${i}.time`)} />
-            <TextField label="Dropped out by then" type="number" step="any" min={0} max={1} help="A share, e.g. 0.1" {...register(`list.${i}.attrition`, asNumber)} error={errorAt(e, `list.${i}.attrition`)} />
-            <label className="flex items-end gap-2 pb-2 text-sm">
-              <input type="checkbox" {...register(`list.${i}.baseline`)} /> Baseline
-            </label>
-            <div className="flex items-end">
-              <Button variant="ghost" onClick={() => list.remove(i)}>
-                Remove<span className="sr-only"> occasion {i + 1}</span>
-              </Button>
+          // The card sits in the wizard's middle column, whose width is that of the card and not of the
+          // window: its layout follows its own width (a container query), one row only when all fits.
+          <li key={f.id} className="@container rounded-md border border-line bg-white p-3">
+            <div className="grid grid-cols-2 gap-2 @2xl:grid-cols-[minmax(10rem,1fr)_8rem_9rem_auto]">
+              <div className="col-span-2 @2xl:col-span-1">
+                <TextField label="Label" {...register(`list.${i}.label`)} error={errorAt(e, `list.${i}.label`)} />
+              </div>
+              <TextField label={`Time (${unit || 'units'})`} type="number" step="any" {...register(`list.${i}.time`, asNumber)} error={errorAt(e, `list.${i}.time`)} />
+              <TextField label="Dropped out by then" type="number" step="any" min={0} max={1} help="A share, e.g. 0.1" {...register(`list.${i}.attrition`, asNumber)} error={errorAt(e, `list.${i}.attrition`)} />
+              <div className="col-span-2 flex items-end justify-between gap-2 @2xl:col-span-1">
+                <label className="flex items-center gap-2 pb-2 text-sm">
+                  <input type="checkbox" {...register(`list.${i}.baseline`)} /> Baseline
+                </label>
+                <Button variant="ghost" onClick={() => list.remove(i)}>
+                  Remove<span className="sr-only"> occasion {i + 1}</span>
+                </Button>
+              </div>
             </div>
           </li>
         ))}

@@ -24,7 +24,7 @@ export function OutcomeStep({ value, onValid, onDraft, disabled }: StepProps<'ou
   return (
     <fieldset disabled={disabled} className="space-y-4">
       <legend className="sr-only">Outcome</legend>
-      <div className="grid gap-4 sm:grid-cols-2">
+      <div className="grid gap-4 @md:grid-cols-2">
         <TextField label="Primary outcome" help="What is measured to answer the question, e.g. reading score." {...register('name')} error={errorAt(e, 'name')} />
         <TextField label="Unit" help="e.g. points, ms, µg/cm²." {...register('unit')} error={errorAt(e, 'unit')} />
       </div>
@@ -66,7 +66,7 @@ export function OutcomeStep({ value, onValid, onDraft, disabled }: StepProps<'ou
         <h3 className="text-sm font-semibold">Explanatory variables</h3>
         <p className="text-sm text-muted">The treatment or exposure, and covariates. For a continuous variable give the range it will cover and the range you want conclusions about.</p>
         {vars.fields.map((f, i) => (
-          <div key={(f as unknown as { _key: string })._key} className="grid gap-2 rounded-md border border-line p-3 sm:grid-cols-4">
+          <div key={(f as unknown as { _key: string })._key} className="grid gap-2 rounded-md border border-line p-3 @md:grid-cols-2 @2xl:grid-cols-4">
             <TextField label="Name" {...register(`explanatoryVariables.${i}.name`)} error={errorAt(e, `explanatoryVariables.${i}.name`)} />
             <SelectField label="Role" {...register(`explanatoryVariables.${i}.role`)}>
               <option value="treatment">Treatment</option>

@@ -57,7 +57,7 @@ export function StructureStep({ value, onValid, onDraft, disabled }: StepProps<'
                   </Button>
                 </div>
               </div>
-              <div className="grid gap-3 sm:grid-cols-3">
+              <div className="grid gap-3 @md:grid-cols-2 @2xl:grid-cols-3">
                 <TextField label="Name" {...register(`levels.${i}.name`)} error={errorAt(e, `levels.${i}.name`)} />
                 <SelectField label="Kind of level" help={kind ? KIND_HELP[kind] : undefined} {...register(`levels.${i}.kind`)}>
                   <option value="independent">Independent units</option>
@@ -115,7 +115,7 @@ export function StructureStep({ value, onValid, onDraft, disabled }: StepProps<'
         <h3 className="text-sm font-semibold">Crossed factors</h3>
         <p className="text-sm text-muted">A factor whose every level meets every unit of a level, e.g. each rater scores every pupil.</p>
         {crossed.fields.map((f, i) => (
-          <div key={(f as unknown as { _key: string })._key} className="grid gap-2 sm:grid-cols-4">
+          <div key={(f as unknown as { _key: string })._key} className="grid gap-2 @md:grid-cols-2 @2xl:grid-cols-4">
             <TextField label="Name" {...register(`crossedFactors.${i}.name`)} error={errorAt(e, `crossedFactors.${i}.name`)} />
             <TextField label="How many" type="number" min={1} {...register(`crossedFactors.${i}.count`, asNumber)} />
             <SelectField label="Crossed with" {...register(`crossedFactors.${i}.crossedWithLevelId`)}>

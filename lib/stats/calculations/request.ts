@@ -11,39 +11,40 @@ import { z } from 'zod';
 import { DIGGLE_2002, FRISON_POCOCK_1992, HAYES_BENNETT_1999, narrative, RAUDENBUSH_1997 } from '@/lib/citations';
 import { rawText } from '@/lib/text-schema';
 
-const num = (label: string) => z.number({ error: `${label} must be a number.` }).finite(`${label} must be finite.`);
-const positive = (label: string, max = 1e9) => num(label).gt(0, `${label} must be above 0.`).max(max, `${label} can be at most ${max.toLocaleString('en-GB')}.`);
-const whole = (label: string, min: number, max: number) =>
+/** A finite number; the refused ones are worded by lib/field-messages.ts, which names the field. */
+const num = () => z.number();
+const positive = (max = 1e9) => num().gt(0).max(max);
+const whole = (min: number, max: number) =>
   z
-    .number({ error: `${label} must be a number.` })
-    .int(`${label} must be a whole number.`)
-    .min(min, `${label} is at least ${min}.`)
-    .max(max, `${label} can be at most ${max.toLocaleString('en-GB')}.`);
-const openUnit = (label: string) => num(label).gt(0, `${label} must be above 0.`).lt(1, `${label} must be below 1.`);
+    .number()
+    .int()
+    .min(min)
+    .max(max);
+const openUnit = () => num().gt(0).lt(1);
 /** A ratio of rates, risks or odds: between 1/1,000,000 and 1,000,000. */
-const ratioOf = (label: string) => num(label).min(1e-6, `${label} must be at least 0.000001.`).max(1e6, `${label} can be at most 1,000,000.`);
+const ratioOf = () => num().min(1e-6).max(1e6);
 
 /** Shared by every kind: significance level, target power, attrition and several outcomes. */
 const common = {
-  alpha: num('alpha').gt(0, 'alpha must be above 0.').max(0.5, 'alpha can be at most 0.5.').default(0.05),
-  power: num('power').gt(0, 'power must be above 0.').max(0.9999, 'power can be at most 0.9999.').optional(),
+  alpha: num().gt(0).max(0.5).default(0.05),
+  power: num().gt(0).max(0.9999).optional(),
   /** Share of units expected to be lost before the analysis, 0 ≤ d < 1. */
-  dropout: num('dropout').min(0, 'dropout is at least 0.').max(0.9, 'dropout can be at most 0.9.').default(0),
+  dropout: num().min(0).max(0.9).default(0),
   /** Number of primary outcomes tested, each at the adjusted alpha. */
-  outcomes: whole('outcomes', 1, 100).default(1),
-  multiplicity: z.enum(['none', 'bonferroni', 'holm'], { error: 'multiplicity is none, bonferroni or holm.' }).default('none'),
-  solveFor: rawText('solveFor').max(40, 'solveFor names one quantity of the kind.').optional(),
+  outcomes: whole(1, 100).default(1),
+  multiplicity: z.enum(['none', 'bonferroni', 'holm']).default('none'),
+  solveFor: rawText('solveFor').max(40).optional(),
 };
 
-const sides = z.union([z.literal(1), z.literal(2)], { error: 'sides is 1 or 2.' }).default(2);
+const sides = z.union([z.literal(1), z.literal(2)]).default(2);
 
 export const twoGroupMeansSchema = z
   .object({
     kind: z.literal('two-group-means'),
-    delta: positive('delta').optional(),
-    sd: positive('sd'),
-    nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
-    ratio: num('ratio').min(0.01, 'ratio is at least 0.01.').max(100, 'ratio can be at most 100.').default(1),
+    delta: positive().optional(),
+    sd: positive(),
+    nPerGroup: whole(2, 10_000_000).optional(),
+    ratio: num().min(0.01).max(100).default(1),
     sides,
     ...common,
   })
@@ -52,13 +53,13 @@ export const twoGroupMeansSchema = z
 export const regressionSchema = z
   .object({
     kind: z.literal('regression'),
-    f2: positive('f2', 1e4).optional(),
-    slope: positive('slope').optional(),
-    sdX: positive('sdX').optional(),
-    residualSd: positive('residualSd').optional(),
-    testedPredictors: whole('testedPredictors', 1, 1000).default(1),
-    predictors: whole('predictors', 1, 1000).optional(),
-    n: whole('n', 3, 10_000_000).optional(),
+    f2: positive(1e4).optional(),
+    slope: positive().optional(),
+    sdX: positive().optional(),
+    residualSd: positive().optional(),
+    testedPredictors: whole(1, 1000).default(1),
+    predictors: whole(1, 1000).optional(),
+    n: whole(3, 10_000_000).optional(),
     ...common,
   })
   .meta({ id: 'Regression', description: 'F test of testedPredictors of predictors in a linear regression.' });
@@ -66,14 +67,14 @@ export const regressionSchema = z
 export const clusterMeansSchema = z
   .object({
     kind: z.literal('cluster-means'),
-    delta: positive('delta').optional(),
-    sd: positive('sd'),
-    icc: num('icc').min(0, 'icc is at least 0.').max(1, 'icc is at most 1.'),
-    clusterSize: whole('clusterSize', 1, 1_000_000).optional(),
-    cv: num('cv').min(0, 'cv is at least 0.').max(3, 'cv can be at most 3.').default(0),
-    clustersPerArm: whole('clustersPerArm', 2, 1_000_000).optional(),
+    delta: positive().optional(),
+    sd: positive(),
+    icc: num().min(0).max(1),
+    clusterSize: whole(1, 1_000_000).optional(),
+    cv: num().min(0).max(3).default(0),
+    clustersPerArm: whole(2, 1_000_000).optional(),
     /** Share of whole clusters expected to drop out. */
-    clusterDropout: num('clusterDropout').min(0, 'clusterDropout is at least 0.').max(0.9, 'clusterDropout can be at most 0.9.').default(0),
+    clusterDropout: num().min(0).max(0.9).default(0),
     sides,
     ...common,
   })
@@ -82,13 +83,13 @@ export const clusterMeansSchema = z
 export const repeatedMeasuresSchema = z
   .object({
     kind: z.literal('repeated-measures'),
-    delta: positive('delta').optional(),
-    sd: positive('sd'),
-    rho: num('rho').min(0, 'rho is at least 0.').lt(1, 'rho must be below 1.'),
-    baselines: whole('baselines', 0, 50).default(1),
-    followUps: whole('followUps', 1, 50).default(1),
-    analysis: z.enum(['post', 'change', 'ancova'], { error: 'analysis is post, change or ancova.' }).default('ancova'),
-    nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
+    delta: positive().optional(),
+    sd: positive(),
+    rho: num().min(0).lt(1),
+    baselines: whole(0, 50).default(1),
+    followUps: whole(1, 50).default(1),
+    analysis: z.enum(['post', 'change', 'ancova']).default('ancova'),
+    nPerGroup: whole(2, 10_000_000).optional(),
     sides,
     ...common,
   })
@@ -97,11 +98,11 @@ export const repeatedMeasuresSchema = z
 export const longitudinalSlopesSchema = z
   .object({
     kind: z.literal('longitudinal-slopes'),
-    slopeDifference: positive('slopeDifference').optional(),
-    sd: positive('sd'),
-    rho: num('rho').min(0, 'rho is at least 0.').lt(1, 'rho must be below 1.'),
-    times: z.array(num('Each time'), { error: 'times must be a list of numbers.' }).min(2, 'Give at least two times.').max(200, 'At most 200 times.'),
-    nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
+    slopeDifference: positive().optional(),
+    sd: positive(),
+    rho: num().min(0).lt(1),
+    times: z.array(num()).min(2).max(200),
+    nPerGroup: whole(2, 10_000_000).optional(),
     sides,
     ...common,
   })
@@ -113,25 +114,25 @@ export const longitudinalSlopesSchema = z
  * (lib/stats/calculations/proportion-effect.ts turns any of them into p2).
  */
 const proportionEffect = {
-  p2: openUnit('p2').optional(),
-  difference: num('difference').gt(-1, 'difference must be above −1.').lt(1, 'difference must be below 1.').optional(),
-  riskRatio: ratioOf('riskRatio').optional(),
-  oddsRatio: ratioOf('oddsRatio').optional(),
+  p2: openUnit().optional(),
+  difference: num().gt(-1).lt(1).optional(),
+  riskRatio: ratioOf().optional(),
+  oddsRatio: ratioOf().optional(),
 };
 
 export const twoProportionsSchema = z
   .object({
     kind: z.literal('two-proportions'),
-    p1: openUnit('p1'),
+    p1: openUnit(),
     ...proportionEffect,
-    nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
+    nPerGroup: whole(2, 10_000_000).optional(),
     sides,
     continuityCorrection: z.boolean().default(false),
     /** When solving for p2: whether it lies above p1 (the default) or below. */
-    direction: z.enum(['higher', 'lower'], { error: 'direction is higher or lower.' }).optional(),
-    icc: num('icc').min(0, 'icc is at least 0.').max(1, 'icc is at most 1.').optional(),
-    clusterSize: whole('clusterSize', 1, 1_000_000).optional(),
-    cv: num('cv').min(0, 'cv is at least 0.').max(3, 'cv can be at most 3.').default(0),
+    direction: z.enum(['higher', 'lower']).optional(),
+    icc: num().min(0).max(1).optional(),
+    clusterSize: whole(1, 1_000_000).optional(),
+    cv: num().min(0).max(3).default(0),
     ...common,
   })
   .meta({ id: 'TwoProportions', description: 'Two independent proportions (normal approximation), optionally clustered.' });
@@ -139,14 +140,14 @@ export const twoProportionsSchema = z
 export const clusterProportionsSchema = z
   .object({
     kind: z.literal('cluster-proportions'),
-    p1: openUnit('p1'),
+    p1: openUnit(),
     ...proportionEffect,
-    icc: num('icc').min(0, 'icc is at least 0.').max(1, 'icc is at most 1.'),
-    clusterSize: whole('clusterSize', 1, 1_000_000).optional(),
-    cv: num('cv').min(0, 'cv is at least 0.').max(3, 'cv can be at most 3.').default(0),
-    clustersPerArm: whole('clustersPerArm', 2, 1_000_000).optional(),
-    clusterDropout: num('clusterDropout').min(0, 'clusterDropout is at least 0.').max(0.9, 'clusterDropout can be at most 0.9.').default(0),
-    direction: z.enum(['higher', 'lower'], { error: 'direction is higher or lower.' }).optional(),
+    icc: num().min(0).max(1),
+    clusterSize: whole(1, 1_000_000).optional(),
+    cv: num().min(0).max(3).default(0),
+    clustersPerArm: whole(2, 1_000_000).optional(),
+    clusterDropout: num().min(0).max(0.9).default(0),
+    direction: z.enum(['higher', 'lower']).optional(),
     sides,
     ...common,
   })
@@ -155,15 +156,15 @@ export const clusterProportionsSchema = z
 /** Rate ratio, the solved direction and the shared inputs of both rate kinds. */
 const rateInputs = {
   /** Events per unit of exposure (person-year, person-month …) in the comparison arm. */
-  baselineRate: positive('baselineRate', 1e6),
+  baselineRate: positive(1e6),
   /** Rate in the treated arm divided by baselineRate. */
-  rateRatio: ratioOf('rateRatio').optional(),
+  rateRatio: ratioOf().optional(),
   /** Follow-up time of each participant, in the time unit of the rate. */
-  exposure: positive('exposure', 1e6).default(1),
+  exposure: positive(1e6).default(1),
   /** Negative binomial dispersion κ between participants: variance = mean + κ·mean²; 0 for Poisson counts. */
-  dispersion: num('dispersion').min(0, 'dispersion is at least 0.').max(100, 'dispersion can be at most 100.').default(0),
+  dispersion: num().min(0).max(100).default(0),
   /** When solving for rateRatio: a reduction (the default) or an increase. */
-  direction: z.enum(['lower', 'higher'], { error: 'direction is lower or higher.' }).optional(),
+  direction: z.enum(['lower', 'higher']).optional(),
   sides,
 };
 
@@ -171,8 +172,8 @@ export const twoRatesSchema = z
   .object({
     kind: z.literal('two-rates'),
     ...rateInputs,
-    nPerGroup: whole('nPerGroup', 2, 10_000_000).optional(),
-    ratio: num('ratio').min(0.01, 'ratio is at least 0.01.').max(100, 'ratio can be at most 100.').default(1),
+    nPerGroup: whole(2, 10_000_000).optional(),
+    ratio: num().min(0.01).max(100).default(1),
     ...common,
   })
   .meta({ id: 'TwoRates', description: 'Two event rates (counts per unit of exposure), participants randomised one by one: Wald test on the log rate ratio, Poisson or negative binomial.' });
@@ -182,10 +183,10 @@ export const clusterRatesSchema = z
     kind: z.literal('cluster-rates'),
     ...rateInputs,
     /** Coefficient of variation of the true rates between clusters of one arm (Hayes & Bennett's k). */
-    betweenClusterCv: num('betweenClusterCv').min(0, 'betweenClusterCv is at least 0.').max(5, 'betweenClusterCv can be at most 5.'),
-    clusterSize: whole('clusterSize', 1, 1_000_000).optional(),
-    clustersPerArm: whole('clustersPerArm', 2, 1_000_000).optional(),
-    clusterDropout: num('clusterDropout').min(0, 'clusterDropout is at least 0.').max(0.9, 'clusterDropout can be at most 0.9.').default(0),
+    betweenClusterCv: num().min(0).max(5),
+    clusterSize: whole(1, 1_000_000).optional(),
+    clustersPerArm: whole(2, 1_000_000).optional(),
+    clusterDropout: num().min(0).max(0.9).default(0),
     ...common,
   })
   .meta({ id: 'ClusterRates', description: `Two event rates, whole clusters randomised: clusters per arm by ${narrative(HAYES_BENNETT_1999)}.` });
@@ -193,10 +194,10 @@ export const clusterRatesSchema = z
 export const designEffectSchema = z
   .object({
     kind: z.literal('design-effect'),
-    icc: num('icc').min(0, 'icc is at least 0.').max(1, 'icc is at most 1.'),
-    clusterSize: num('clusterSize').min(1, 'clusterSize is at least 1.').max(1_000_000),
-    cv: num('cv').min(0, 'cv is at least 0.').max(3, 'cv can be at most 3.').default(0),
-    totalObservations: whole('totalObservations', 1, 1_000_000_000).optional(),
+    icc: num().min(0).max(1),
+    clusterSize: num().min(1).max(1_000_000),
+    cv: num().min(0).max(3).default(0),
+    totalObservations: whole(1, 1_000_000_000).optional(),
     alpha: common.alpha,
   })
   .meta({ id: 'DesignEffect', description: 'Design effect, effective sample size and the false-positive rate of an analysis that ignores clustering.' });
@@ -204,12 +205,12 @@ export const designEffectSchema = z
 export const optimalAllocationSchema = z
   .object({
     kind: z.literal('optimal-allocation'),
-    icc: num('icc').gt(0, 'icc must be above 0 for an optimum to exist.').lt(1, 'icc must be below 1.'),
-    costPerCluster: positive('costPerCluster'),
-    costPerUnit: positive('costPerUnit'),
-    budget: positive('budget', 1e12).optional(),
-    delta: positive('delta').optional(),
-    sd: positive('sd').optional(),
+    icc: num().gt(0).lt(1),
+    costPerCluster: positive(),
+    costPerUnit: positive(),
+    budget: positive(1e12).optional(),
+    delta: positive().optional(),
+    sd: positive().optional(),
     alpha: common.alpha,
     power: common.power,
     sides,
@@ -235,10 +236,7 @@ export const calculationSchema = z
       designEffectSchema,
       optimalAllocationSchema,
     ],
-    {
-      error:
-        'kind must be one of two-group-means, regression, cluster-means, repeated-measures, longitudinal-slopes, two-proportions, cluster-proportions, two-rates, cluster-rates, design-effect, optimal-allocation.',
-    },
+    { error: 'Choose the kind of calculation from the options offered.' },
   )
   .meta({ id: 'CalculationRequest' });
 

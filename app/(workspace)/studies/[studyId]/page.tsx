@@ -1,3 +1,4 @@
+import { formatDateTime } from '@/lib/format';
 import type { Metadata } from 'next';
 import { InvitationsList } from '@/components/members/invitations-list';
 import { InviteForm } from '@/components/members/invite-form';
@@ -106,7 +107,7 @@ export default async function StudyOverviewPage({ params }: { params: Promise<{ 
               <span className="font-semibold">{a.actorName ?? a.actorEmail ?? 'Someone'}</span> {ACTIVITY_WORDS[a.action] ?? a.action}
               <br />
               <time dateTime={a.createdAt.toISOString()} className="text-xs text-muted">
-                {a.createdAt.toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}
+                {formatDateTime(a.createdAt)}
               </time>
             </li>
           ))}

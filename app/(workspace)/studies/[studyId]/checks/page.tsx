@@ -1,3 +1,7 @@
+import { DF_METHOD_WORDS, GLM_FAMILY_WORDS, LINK_WORDS, STANDARD_ERROR_WORDS } from '@/components/design/analysis-words';
+import { formatCount, plural } from '@/lib/format';
+import { methodName } from '@/lib/rules/phrases';
+import { cap } from '@/lib/rules/text';
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { FindingsList } from '@/components/design/findings-list';
@@ -23,7 +27,7 @@ export default async function ChecksPage({ params }: { params: Promise<{ studyId
           Findings for revision {state.revision}
         </h2>
         <p className="text-sm text-muted">
-          {findings.length} finding{findings.length === 1 ? '' : 's'}, {blockers} blocker{blockers === 1 ? '' : 's'}. Checks run on the saved design;{' '}
+          {plural(findings.length, 'finding')}, {plural(blockers, 'blocker')}. Checks run on the saved design;{' '}
           <Link href={`/studies/${studyId}/design`} className="text-brand underline">
             edit the design
           </Link>{' '}
@@ -42,35 +46,35 @@ export default async function ChecksPage({ params }: { params: Promise<{ studyId
           <dl className="mt-3 space-y-1 text-sm">
             <div>
               <dt className="inline font-semibold">Method: </dt>
-              <dd className="inline">{recommendation.method}</dd>
+              <dd className="inline">{cap(methodName(recommendation.method))}</dd>
             </div>
             {recommendation.family && (
               <div>
                 <dt className="inline font-semibold">Family and link: </dt>
                 <dd className="inline">
-                  {recommendation.family}
-                  {recommendation.link ? `, ${recommendation.link}` : ''}
+                  {GLM_FAMILY_WORDS[recommendation.family]}
+                  {recommendation.link ? `, ${LINK_WORDS[recommendation.link]}` : ''}
                 </dd>
               </div>
             )}
             {recommendation.dfMethod && (
               <div>
                 <dt className="inline font-semibold">Degrees of freedom: </dt>
-                <dd className="inline">{recommendation.dfMethod}</dd>
+                <dd className="inline">{DF_METHOD_WORDS[recommendation.dfMethod]}</dd>
               </div>
             )}
             {recommendation.standardErrors && (
               <div>
                 <dt className="inline font-semibold">Standard errors: </dt>
-                <dd className="inline">{recommendation.standardErrors}</dd>
+                <dd className="inline">{STANDARD_ERROR_WORDS[recommendation.standardErrors]}</dd>
               </div>
             )}
             {recommendation.unitOfAnalysis && (
               <div>
                 <dt className="inline font-semibold">Unit that counts as n: </dt>
                 <dd className="inline">
-                  {recommendation.unitOfAnalysis.name} ({recommendation.unitOfAnalysis.total.toLocaleString('en-GB')}
-                  {recommendation.unitOfAnalysis.perArm !== undefined ? `, ${recommendation.unitOfAnalysis.perArm.toLocaleString('en-GB')} per arm` : ''})
+                  {recommendation.unitOfAnalysis.name} ({formatCount(recommendation.unitOfAnalysis.total)}
+                  {recommendation.unitOfAnalysis.perArm !== undefined ? `, ${formatCount(recommendation.unitOfAnalysis.perArm)} per arm` : ''})
                 </dd>
               </div>
             )}
