@@ -271,3 +271,7 @@ export const simulationSpecDerivedSchema = z
   .object({ revision: z.number().int(), spec: simulationSpecSchema.nullable(), missing: z.array(z.string()), unsupported: z.array(z.string()) })
   .meta({ id: 'SimulationSpecFromDesign' });
 export type SimulationSpecDerived = z.output<typeof simulationSpecDerivedSchema>;
+
+/** GET /api/health: the app and its database answer (200), or the database does not (503). */
+export const healthSchema = z.object({ status: z.literal('ok'), database: z.literal('ok') }).meta({ id: 'Health' });
+export const healthDegradedSchema = z.object({ status: z.literal('degraded'), database: z.literal('unreachable') }).meta({ id: 'HealthDegraded' });

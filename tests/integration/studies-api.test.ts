@@ -7,6 +7,7 @@ import * as archive from '@/app/api/v1/studies/[studyId]/archive/route';
 import * as studyMember from '@/app/api/v1/studies/[studyId]/members/[userId]/route';
 import * as wsMember from '@/app/api/v1/workspaces/[workspaceId]/members/[userId]/route';
 import * as health from '@/app/api/health/route';
+import { recordResponse } from '../support/api-contract';
 import { ctx, makeWorld, request } from '../support/fixtures';
 
 async function create(w: Awaited<ReturnType<typeof makeWorld>>, title: string, description = '') {
@@ -119,6 +120,8 @@ describe('membership rules', () => {
 describe('health', () => {
   it('reports the database as reachable', async () => {
     const res = await health.GET();
+    // Not built with api(), so the contract check is called here (tests/support/api-contract.ts).
+    await recordResponse(new Request('http://localhost/api/health'), res);
     expect(res.status).toBe(200);
     expect(await res.json()).toEqual({ status: 'ok', database: 'ok' });
   });

@@ -3,7 +3,7 @@
  * integration suite is checked against the response the document declares for its route,
  * method and status (integration-setup.ts wraps `api()` so that no test can skip it).
  *
- * The document is generated from `API_ROUTES` (lib/api/openapi.ts), so the zod schema found
+ * The document is generated from `API_ROUTES` and `HEALTH_ROUTE` (lib/api/openapi.ts), so the zod schema found
  * there is the one the document names. A response fails when
  * - no route of the document matches its method and path,
  * - the route does not declare its status,
@@ -13,7 +13,10 @@
  */
 import type { RouteConfig } from '@asteasolutions/zod-to-openapi';
 import type { z } from 'zod';
-import { API_ROUTES } from '@/lib/api/openapi';
+import { API_ROUTES, HEALTH_ROUTE } from '@/lib/api/openapi';
+
+/** Every route of the document: the /api/v1 routes and the health probe. */
+const DOCUMENTED = [...API_ROUTES, HEALTH_ROUTE];
 
 export interface ContractCheck {
   /** `METHOD /template status`, e.g. `GET /api/v1/studies/{studyId} 200`; null when no route matched. */
@@ -22,7 +25,7 @@ export interface ContractCheck {
 }
 
 const pattern = (template: string) => new RegExp(`^${template.replace(/\{[^}]+\}/g, '[^/]+')}$`);
-const ROUTES = API_ROUTES.map((route) => ({ route, pattern: pattern(route.path), params: (route.path.match(/\{/g) ?? []).length }));
+const ROUTES = DOCUMENTED.map((route) => ({ route, pattern: pattern(route.path), params: (route.path.match(/\{/g) ?? []).length }));
 
 /** The document's route for a method and a concrete path; a literal segment wins over a parameter. */
 export function findRoute(method: string, pathname: string): RouteConfig | undefined {
@@ -75,7 +78,7 @@ export function checkResponse(method: string, url: string, status: number, text:
 
 /** Every route × method × 2xx status the document declares, as `METHOD /template status`. */
 export function declaredSuccesses(): string[] {
-  return API_ROUTES.flatMap((route) =>
+  return DOCUMENTED.flatMap((route) =>
     Object.keys(route.responses)
       .map(Number)
       .filter((s) => s >= 200 && s <= 299)

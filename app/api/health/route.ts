@@ -1,4 +1,6 @@
 import { sql } from 'kysely';
+import type { z } from 'zod';
+import type { healthDegradedSchema, healthSchema } from '@/lib/api/dto';
 import { db } from '@/lib/db';
 import { isDatabaseUnavailable } from '@/lib/errors';
 import { logger } from '@/lib/log';
@@ -15,9 +17,9 @@ const log = logger('health');
 export async function GET() {
   try {
     await sql`select 1`.execute(db());
-    return Response.json({ status: 'ok', database: 'ok' });
+    return Response.json({ status: 'ok', database: 'ok' } satisfies z.output<typeof healthSchema>);
   } catch (err) {
     if (!isDatabaseUnavailable(err)) log.error('database check failed', err);
-    return Response.json({ status: 'degraded', database: 'unreachable' }, { status: 503 });
+    return Response.json({ status: 'degraded', database: 'unreachable' } satisfies z.output<typeof healthDegradedSchema>, { status: 503 });
   }
 }
