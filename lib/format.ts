@@ -113,3 +113,8 @@ export function formatDate(when: Date | string | number): string {
 export function formatDateTime(when: Date | string | number): string {
   return `${DATE_TIME.format(new Date(when))} UTC`;
 }
+
+/** The text with its first letter in capitals: a sentence that starts with a name. */
+export function capitalise(s: string): string {
+  return s.length === 0 ? s : s[0]!.toUpperCase() + s.slice(1);
+}

@@ -2,6 +2,7 @@
 
 import { useMemo, useState } from 'react';
 import { RAUDENBUSH_1997 } from '@/lib/citations';
+import { capitalise as cap } from '@/lib/format';
 import { formatNumber, formatPercent } from '@/components/calculations/format';
 import { costSummary } from './cost-summary';
 import { ResultPanel } from '@/components/calculations/result-panel';
@@ -156,7 +157,6 @@ export default function BudgetView({ request, clusterWord, memberWord }: BudgetV
  */
 function CandidateTable({ candidates, optimum, budget, clusterWord, memberWord, target }: { candidates: Candidate[]; optimum: number; budget: number | undefined; clusterWord: string; memberWord: string; target: number }) {
   const top = Math.max(...candidates.map((c) => c.cost ?? 0), budget ?? 0);
-  const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
   return (
     <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Cost and power of each cluster size (scrolls sideways)">
       <table className="w-full min-w-[20rem] text-left text-sm">

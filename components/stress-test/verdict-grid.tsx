@@ -2,13 +2,11 @@
 
 import { useId, useRef, useState, type CSSProperties } from 'react';
 import { MORRIS_2019 } from '@/lib/citations';
-import { nounFor } from '@/lib/format';
+import { capitalise as cap, nounFor } from '@/lib/format';
 import { analysisLabel } from '@/lib/sim/analysis-words';
 import { bestAnalysis, mcInterval, verdictOf, type CellVerdict, type Verdict } from '@/lib/sim/verdict';
 import type { ResultRow } from './results-table';
 import { formatRate, type MetricValue } from './words';
-
-const cap = (x: string) => x.charAt(0).toUpperCase() + x.slice(1);
 
 export interface GridScenario {
   key: string;

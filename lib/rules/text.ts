@@ -4,7 +4,7 @@
  * irregular ones a study design is likely to name.
  */
 import type { Level } from '@/lib/design/schema';
-import { formatPercent, pluralWord } from '@/lib/format';
+import { capitalise, formatPercent, pluralWord } from '@/lib/format';
 
 /** Lower-case the first letter unless the word looks like an acronym ("GP practice" stays). */
 function lowerFirst(s: string): string {
@@ -47,9 +47,7 @@ export function pct(p: number): string {
 }
 
 /** Capitalise the first letter of a sentence. */
-export function cap(s: string): string {
-  return s.length === 0 ? s : s[0]!.toUpperCase() + s.slice(1);
-}
+export const cap = capitalise;
 
 /** "a, b and c". */
 export function list(items: readonly string[]): string {
