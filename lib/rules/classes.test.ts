@@ -309,6 +309,13 @@ describe('4b. a cross-over that the structure does not show as one still is one'
     expect(recommendation.model).toBe(model);
   });
 
+  it('a cross-over described with no periods in the structure or the occasions still gets both findings', () => {
+    const bare = variant(tinnitus, (d) => void (d.occasions.list = []));
+    expect(designFacts(bare).withinUnit).toBe(false);
+    const keys = runChecks(bare).findings.filter((x) => x.ruleId === 'crossover').map((x) => x.key);
+    expect(keys).toEqual(['carry-over', 'period']);
+  });
+
   it('a unit measured on replicates (not over time) that receives both arms gets no cross-over finding', () => {
     const halves = variant(calves, (d) => {
       d.structure.levels[1] = { ...d.structure.levels[1]!, kind: 'replicate', name: 'Udder quarter', count: 4 };

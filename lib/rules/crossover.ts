@@ -35,8 +35,8 @@ export const crossover: Rule = {
   severity: 'warning',
   check(design) {
     const f = designFacts(design);
-    if (!f.changesOverTime) return [];
     const c = design.assignment.crossover;
+    if (!c.enabled && !f.changesOverTime) return [];
     // Not described as a cross-over: the assigned occasions (nights, sessions) are its periods.
     const described = c.enabled;
     const A = f.assignment;
