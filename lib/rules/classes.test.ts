@@ -374,3 +374,35 @@ describe('2b. the correlation between occasions serves as the ICC of the unit me
     expect(find(none, 'uncertain-icc', 'household')!.severity).toBe('warning');
   });
 });
+
+describe('1b. the degrees of freedom between units leave out the blocks the model enters as fixed effects', () => {
+  /** Strips of an orchard row assigned to pruning regimes, trees measured in each strip. */
+  const orchard = (rows: number) =>
+    parse({
+      outcome: { name: 'Fruit set', type: 'continuous', shape: 'symmetric' },
+      structure: {
+        levels: [
+          { id: 'row', name: 'Row', kind: 'grouping', groupingType: 'plot', count: rows },
+          { id: 'strip', name: 'Strip', kind: 'grouping', groupingType: 'plot', count: 2 },
+          { id: 'tree', name: 'Tree', kind: 'independent', count: 4 },
+        ],
+      },
+      assignment: { kind: 'randomised', variableName: 'Pruning', levelId: 'strip', arms: twoArms, blocking: { kind: 'blocked', factor: 'Row', inAnalysis: true } },
+      assumptions: { outcomeSd: { value: 5, source: SRC }, effect: { value: 3, source: SRC }, iccs: [{ levelId: 'row', value: 0.2, source: SRC }, { levelId: 'strip', value: 0.1, source: SRC }] },
+    });
+  // One strip of each arm per row: an RCBD on strip means, error df (rows − 1)(arms − 1); R 4.2.2
+  // aov(y ~ arm + row + Error(strip)) on 4 rows gives 3 in the strip stratum.
+  it.each<[string, Design, string, number]>([
+    ['5 rows: 10 strips, 5 per arm', orchard(5), 'per-arm', 4],
+    ['3 rows: 6 strips, too few for their variance', orchard(3), 'variance', 2],
+  ])('%s', (_label, design, key, df) => {
+    const { findings, recommendation } = runChecks(design);
+    const f = findings.find((x) => x.ruleId === 'few-units' && x.key === key)!;
+    expect(f.numbers!.betweenUnitDf).toBe(df);
+    expect(recommendation.model).toBe('fruit_set ~ pruning + row + (1 | row:strip)');
+    if (key === 'variance') {
+      expect(f.why).toContain(`leaving about ${df} degrees of freedom once the arms and rows are fitted`);
+      expect(f.todo).toContain(`a linear model of the 6 means on the arms and rows with ${df} df`);
+    }
+  });
+});
