@@ -328,6 +328,52 @@ describe('levels the model carries and cross-overs given as occasions', () => {
     if (sd !== 3) expect(got.rationale.join(' ')).toContain('the variance between sows (ICC 0.35) drops out of the comparison');
   });
 
+  // R 4.2.2: power.t.test(delta = 3, sd = 8 * sqrt(0.4 / 6), power = 0.8) → n = 8.52, 9 per order;
+  // power.t.test(delta = 3, sd = 12 * sqrt(0.3 / 4), power = 0.8) → n = 19.8, 20 per order.
+  const runners = parse({
+    outcome: { name: 'Lactate', type: 'continuous', shape: 'symmetric' },
+    structure: {
+      levels: [
+        { id: 'runner', name: 'Runner', kind: 'independent', count: 24 },
+        { id: 'session', name: 'Session', kind: 'repeated', count: 6 },
+      ],
+    },
+    assignment: { kind: 'randomised', variableName: 'Shoe', levelId: 'session', arms },
+    occasions: { timeUnit: 'days', list: [1, 2, 3, 4, 5, 6].map((t) => ({ label: `Session ${t}`, time: t })) },
+    assumptions: { outcomeSd: { value: 8, source: SRC }, effect: { value: 3, source: SRC }, iccs: [{ levelId: 'runner', value: 0.6, source: SRC }] },
+  });
+  it.each<[string, Design, number, number]>([
+    ['sessions of a runner assigned in turn (6, a cross-over in effect)', runners, 8 * Math.sqrt(0.4 / 6), 9],
+    [
+      'a described four-period cross-over of two arms',
+      variant(runners, (d) => {
+        d.structure.levels[1]!.count = 4;
+        d.occasions.list = d.occasions.list.slice(0, 4);
+        d.assignment.crossover = { enabled: true, periods: 4, washout: 'Two days' };
+        d.assumptions.outcomeSd = { value: 12, source: SRC };
+        d.assumptions.iccs = [{ levelId: 'runner', value: 0.7, source: SRC }];
+      }),
+      12 * Math.sqrt(0.3 / 4),
+      20,
+    ],
+  ])('two arms over an even number of periods: %s', (_label, design, sd, n) => {
+    const got = draft(design);
+    expect(got.kind).toBe('two-group-means');
+    expect(got.labels.size).toBe('runners per sequence');
+    expect(got.inputs.sd).toBeCloseTo(sd, 8);
+    expect(got.rationale.join(' ')).toContain('in one of two mirrored orders');
+    expect(calculate(got.request!).result.nPerGroup).toBe(n);
+  });
+
+  it.each<[string, (d: Design) => void]>([
+    ['5 sessions (odd)', (d) => void ((d.structure.levels[1]!.count = 5), (d.occasions.list = d.occasions.list.slice(0, 5)))],
+    ['three arms', (d) => void d.assignment.arms.push({ name: 'Barefoot', allocation: 1 })],
+  ])('no calculation for a within-unit design of %s', (_label, change) => {
+    const got = draft(variant(runners, change));
+    expect(got.kind).toBeNull();
+    expect(got.missing.map((m) => m.input)).toEqual(['crossover']);
+  });
+
   it('a two-period cross-over whose periods are only occasions: the AB/BA t test on one observation per period', () => {
     const tinnitus = parse({
       outcome: { name: 'Tinnitus loudness', type: 'continuous', shape: 'symmetric' },

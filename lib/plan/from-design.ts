@@ -41,6 +41,11 @@
  * period differences of the two sequences, so the test is the two-sample t test of the halved
  * period differences between sequences (Senn 2002, the basic AB/BA analysis, df n − 2):
  * delta = the effect, SD = σ·√((1 − ρ)/(2k)), n per group = units per sequence.
+ * The same holds for two arms over an even number P of periods, each arm in half of them in one
+ * of two mirrored orders (ABAB… / BABA…, or nights of a volunteer assigned in turn, a cross-over
+ * in effect): the unit's contrast of its two arm means over P·k observations has variance
+ * 4σ²(1 − ρ)/(P·k), so SD = σ·√((1 − ρ)/(P·k)) for the halved contrast — with P = 2 the formula
+ * above. Compound symmetry is an approximation where neighbouring periods are more alike.
  *
  * Numbers that the design does not give are never made up: each is listed in `missing` with the
  * design step where it is entered (or none, when the design has no field for it and it is typed
@@ -370,11 +375,12 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
   return { kind: 'cluster-means' as const, solveFor };
 }
 
-function crossover(b: Builder, d: Design, f: DesignFacts, E: LevelInfo) {
-  const periods = f.crossover?.periods ?? 2;
+function crossover(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, periods: number) {
   b.labels.size = `${noun(E.level, true)} per sequence`;
   b.rationale.push(
-    `Each ${noun(E.level)} receives both arms in a two-period cross-over, so ${noun(E.level, true)} are compared with themselves: the size to plan is the number of ${noun(E.level, true)} per sequence (AB or BA), and the test is the two-sample t test of the halved period differences between the sequences (${SENN_2002.short}).`,
+    periods === 2
+      ? `Each ${noun(E.level)} receives both arms in a two-period cross-over, so ${noun(E.level, true)} are compared with themselves: the size to plan is the number of ${noun(E.level, true)} per sequence (AB or BA), and the test is the two-sample t test of the halved period differences between the sequences (${SENN_2002.short}).`
+      : `Each ${noun(E.level)} receives both arms in turn over ${num(periods)} periods, half each, in one of two mirrored orders, so ${noun(E.level, true)} are compared with themselves: the size to plan is the number of ${noun(E.level, true)} per order, and the test is the two-sample t test, between the orders, of each ${noun(E.level)}'s halved contrast of its two arm means (the AB/BA analysis extended to ${num(periods)} periods; ${SENN_2002.short}).`,
   );
   const perUnit = measurementsPerUnit(f, E);
   const k = perUnit / periods;
@@ -387,7 +393,12 @@ function crossover(b: Builder, d: Design, f: DesignFacts, E: LevelInfo) {
   if (rhoSource && rhoSource.value >= 0 && rhoSource.value < 1 && sigma !== undefined) {
     b.note(`SD of ${outcomeName(d)}`, sigma, fromSource(f.outcome.sd!.source));
     b.note(`Correlation between observations of one ${noun(E.level)}`, rhoSource.value, fromSource(rhoSource.source));
-    b.set('sd', tidy(sigma * Math.sqrt((1 - rhoSource.value) / (2 * k))), 'SD of the halved period difference', derived('σ·√((1 − ρ)/(2k)), k observations per period'));
+    b.set(
+      'sd',
+      tidy(sigma * Math.sqrt((1 - rhoSource.value) / (periods * k))),
+      periods === 2 ? 'SD of the halved period difference' : `SD of the halved contrast of the arm means of one ${noun(E.level)}`,
+      derived(periods === 2 ? 'σ·√((1 − ρ)/(2k)), k observations per period' : `σ·√((1 − ρ)/(P·k)), P = ${periods} periods of k observations`),
+    );
   }
   if (d.occasions.correlationStructure === 'ar1') {
     b.notes.push('The occasions are described as AR(1) (neighbouring observations more alike); the calculation assumes equal correlation between all observations of a unit, which is only an approximation then.');
@@ -701,14 +712,16 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
   common(b, d, f, recommendation);
 
   if (f.withinUnit) {
-    if (f.crossover?.periods !== 2 || binary || count) {
+    // Periods: as the Assignment step gives them, or the assigned occasions of a cross-over in effect.
+    const periods = f.crossover?.periods ?? (f.changesOverTime && f.assignment ? Math.round(f.assignment.perParent) : undefined);
+    if (periods === undefined || periods % 2 !== 0 || f.armShares.length !== 2 || binary || count) {
       b.rationale.push(
-        `The treatment varies within each ${noun(E.level)}${f.crossover ? ` over ${f.crossover.periods} periods` : ''}; Unitwise calculates within-unit comparisons only for a two-period cross-over with a continuous outcome.`,
+        `The treatment varies within each ${noun(E.level)}${periods !== undefined ? ` over ${periods} periods` : ''}; Unitwise calculates within-unit comparisons only for two arms over an even number of periods (a two-period cross-over, or arms in turn) with a continuous outcome.`,
       );
       b.need('crossover', 'A two-period cross-over (Assignment step), or ask a statistician for this design.', 'assignment');
       return done(null, null);
     }
-    const r = crossover(b, d, f, E);
+    const r = crossover(b, d, f, E, periods);
     return done(r.kind, r.solveFor);
   }
 
