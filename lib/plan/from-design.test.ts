@@ -368,6 +368,7 @@ describe('levels the model carries and cross-overs given as occasions', () => {
   it.each<[string, (d: Design) => void]>([
     ['5 sessions (odd)', (d) => void ((d.structure.levels[1]!.count = 5), (d.occasions.list = d.occasions.list.slice(0, 5)))],
     ['three arms', (d) => void d.assignment.arms.push({ name: 'Barefoot', allocation: 1 })],
+    ['3 laps measured in each of the 6 sessions', (d) => void d.structure.levels.push({ id: 'lap', name: 'Lap', kind: 'independent', count: 3, countIsTotal: false, countCv: 0, sharedEnvironment: false, spatialOrSerial: false })],
   ])('no calculation for a within-unit design of %s', (_label, change) => {
     const got = draft(variant(runners, change));
     expect(got.kind).toBeNull();

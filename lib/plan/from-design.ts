@@ -714,7 +714,10 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
   if (f.withinUnit) {
     // Periods: as the Assignment step gives them, or the assigned occasions of a cross-over in effect.
     const periods = f.crossover?.periods ?? (f.changesOverTime && f.assignment ? Math.round(f.assignment.perParent) : undefined);
-    if (periods === undefined || periods % 2 !== 0 || f.armShares.length !== 2 || binary || count) {
+    // Beyond two periods, only one observation per period: with several (patients of a ward in
+    // each period, a stepped or cluster cross-over) the period-within-unit variance is not modelled.
+    const onePerPeriod = periods !== undefined && Math.abs(measurementsPerUnit(f, E) - periods) < 1e-9;
+    if (periods === undefined || periods % 2 !== 0 || (periods > 2 && !onePerPeriod) || f.armShares.length !== 2 || binary || count) {
       b.rationale.push(
         `The treatment varies within each ${noun(E.level)}${periods !== undefined ? ` over ${periods} periods` : ''}; Unitwise calculates within-unit comparisons only for two arms over an even number of periods (a two-period cross-over, or arms in turn) with a continuous outcome.`,
       );
