@@ -406,3 +406,33 @@ describe('1b. the degrees of freedom between units leave out the blocks the mode
     }
   });
 });
+
+describe('2c. periods that hold several members (a cluster cross-over) are clusters of people, not repeats of one unit', () => {
+  /** Schools switch between two timetables from term to term; pupils are measured in each term. */
+  const schools = parse({
+    outcome: { name: 'Attention score', type: 'continuous', shape: 'symmetric' },
+    structure: {
+      levels: [
+        { id: 'school', name: 'School', kind: 'grouping', groupingType: 'school', count: 12 },
+        { id: 'term', name: 'Term', kind: 'repeated', count: 4 },
+        { id: 'pupil', name: 'Pupil', kind: 'independent', count: 20 },
+      ],
+    },
+    assignment: { kind: 'randomised', variableName: 'Timetable', levelId: 'term', arms: twoArms },
+    occasions: { list: [1, 2, 3, 4].map((t) => ({ label: `Term ${t}`, time: t })) },
+    assumptions: { outcomeSd: { value: 15, source: SRC }, effect: { value: 4, source: SRC }, iccs: [{ levelId: 'school', value: 0.08, source: { kind: 'published', certainty: 'high' } }] },
+  });
+  it('the ICC range for the school-term is that of clusters of pupils (0.01–0.2)', () => {
+    const f = find(schools, 'uncertain-icc', 'term')!;
+    expect(f.severity).toBe('warning');
+    expect([f.numbers!.iccLow, f.numbers!.iccHigh]).toEqual([0.01, 0.2]);
+  });
+  it('the repeated measurements are counted in terms, with the pupils of each', () => {
+    const f = runChecks(schools).findings.find((x) => x.ruleId === 'repeated-measures')!;
+    expect(f.found).toBe('Each school is measured in 4 terms, 20 pupils in each: 960 measurements of attention score from 12 schools.');
+  });
+  it('nights of one volunteer keep the range of repeated measurements (0.2–0.8)', () => {
+    const f = find(variant(calves, (d) => void (d.assumptions.iccs = [])), 'uncertain-icc', 'calf')!;
+    expect([f.numbers!.iccLow, f.numbers!.iccHigh]).toEqual([0.2, 0.8]);
+  });
+});

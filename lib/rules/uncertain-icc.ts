@@ -21,7 +21,7 @@
  * nothing.
  */
 import { CONSORT_CLUSTER_2010, DONNER_KLAR_2000, HAYES_MOULTON_2017, SENN_2002 } from '@/lib/citations';
-import { comparedWithin, designFacts, givenIccs, type IccValue, type LevelInfo, withinCorrelation } from '@/lib/design/facts';
+import { comparedWithin, designFacts, type DesignFacts, givenIccs, type IccValue, type LevelInfo, withinCorrelation } from '@/lib/design/facts';
 import type { Design } from '@/lib/design/schema';
 import { clusteringEffect, plausibleIccRange } from './clustering';
 import { sourcePhrase, treatmentName } from './phrases';
@@ -52,12 +52,12 @@ export const uncertainIcc: Rule = {
       if (icc && !weak) continue;
       if (comparedWithin(f, L)) {
         // Above the experimental unit the ICC only says how much a term for the level removes: no design effect, no risk in a low guess.
-        if (L === f.eu) out.push(withinFinding(design, L, icc));
+        if (L === f.eu) out.push(withinFinding(design, f, L, icc));
         continue;
       }
       const restSum = [...others].filter(([id]) => id !== L.level.id).reduce((s, [, v]) => s + v, 0);
       const upper = Math.max(0, 1 - restSum);
-      const [pLo, pHi] = plausibleIccRange(L.level);
+      const [pLo, pHi] = plausibleIccRange(f, L);
       const lo = icc ? icc.value / 2 : Math.min(pLo, upper);
       const hi = icc ? Math.min(2 * icc.value, upper) : Math.min(pHi, upper);
       const at = (v: number) => clusteringEffect(f, L.index, B.index, new Map([...others, [L.level.id, v]]));
@@ -92,8 +92,8 @@ export const uncertainIcc: Rule = {
 };
 
 /** The experimental unit receives every arm: a higher correlation within it helps the comparison. */
-function withinFinding(design: Design, L: LevelInfo, icc: IccValue | undefined): Finding {
-  const [pLo, pHi] = plausibleIccRange(L.level);
+function withinFinding(design: Design, f: DesignFacts, L: LevelInfo, icc: IccValue | undefined): Finding {
+  const [pLo, pHi] = plausibleIccRange(f, L);
   // Capped at 0.95, so that 1 − ρ (and the ratio) stays finite for a correlation given as 1.
   const hi = Math.min(icc ? (1 + icc.value) / 2 : pHi, 0.95);
   const lo = Math.min(icc ? icc.value / 2 : pLo, hi);
