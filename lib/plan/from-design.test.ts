@@ -6,7 +6,7 @@
  * (`fixtures/generate_variance.R` → `fixtures/variance.json`, R version in the file).
  */
 import { describe, expect, it } from 'vitest';
-import { classroom, empty, greenhouse, longitudinal, narrowDose, parse, simple, sleep, variant } from '@/lib/rules/__fixtures__/designs';
+import { classroom, empty, greenhouse, longitudinal, narrowDose, occasionsCrossover, parse, simple, sleep, variant } from '@/lib/rules/__fixtures__/designs';
 import type { Design, DesignInput } from '@/lib/design/schema';
 import { runChecks } from '@/lib/rules/registry';
 import { expectRelativelyClose } from './expect-close';
@@ -152,18 +152,19 @@ describe('sources and links', () => {
   it('mentions the baseline of a cluster trial without taking credit for it', () => {
     expect(draft(classroom).notes.join(' ')).toMatch(/1 − ρ² = 0\.64.*does not count on it/);
   });
+  /** The classroom demo (stratified by school, a t-test planned) with its classrooms in 10 schools. */
+  const schools = parse({
+    ...(structuredClone(classroom) as DesignInput),
+    structure: {
+      levels: [
+        { id: 'school', name: 'School', kind: 'grouping', count: 10 },
+        { id: 'classroom', name: 'Classroom', kind: 'grouping', count: 2 },
+        { id: 'pupil', name: 'Pupil', kind: 'independent', count: 25 },
+      ],
+    },
+    assumptions: { ...classroom.assumptions, iccs: [...classroom.assumptions.iccs, { levelId: 'school', value: 0.05, source: { kind: 'expert', certainty: 'low' } }] },
+  });
   it('adds the ICC of a level above the cluster when the randomisation is not blocked by it', () => {
-    const schools = parse({
-      ...(structuredClone(classroom) as DesignInput),
-      structure: {
-        levels: [
-          { id: 'school', name: 'School', kind: 'grouping', count: 10 },
-          { id: 'classroom', name: 'Classroom', kind: 'grouping', count: 2 },
-          { id: 'pupil', name: 'Pupil', kind: 'independent', count: 25 },
-        ],
-      },
-      assumptions: { ...classroom.assumptions, iccs: [...classroom.assumptions.iccs, { levelId: 'school', value: 0.05, source: { kind: 'expert', certainty: 'low' } }] },
-    });
     const unblocked = variant(schools, (d) => void (d.assignment.blocking = { kind: 'none', inAnalysis: false }));
     expect(draft(unblocked).inputs.icc).toBeCloseTo(0.2, 12);
     expect(draft(unblocked).inputs.sd).toBe(10);
@@ -177,17 +178,6 @@ describe('sources and links', () => {
     ['only the recommended model carries them (classroom demo: stratified, a t-test planned)', () => {}],
     ['the planned model has a fixed term for them', (d) => void (d.analysis.blockEffect = 'fixed')],
   ])('leaves out the ICC of the blocks when %s', (_label, change) => {
-    const schools = parse({
-      ...(structuredClone(classroom) as DesignInput),
-      structure: {
-        levels: [
-          { id: 'school', name: 'School', kind: 'grouping', count: 10 },
-          { id: 'classroom', name: 'Classroom', kind: 'grouping', count: 2 },
-          { id: 'pupil', name: 'Pupil', kind: 'independent', count: 25 },
-        ],
-      },
-      assumptions: { ...classroom.assumptions, iccs: [...classroom.assumptions.iccs, { levelId: 'school', value: 0.05, source: { kind: 'expert', certainty: 'low' } }] },
-    });
     const d = draft(variant(schools, change));
     expect(d.inputs.icc).toBeCloseTo(0.15 / 0.95, 9);
     expect(d.inputs.sd).toBeCloseTo(10 * Math.sqrt(0.95), 8);
@@ -376,14 +366,7 @@ describe('levels the model carries and cross-overs given as occasions', () => {
   });
 
   it('a two-period cross-over whose periods are only occasions: the AB/BA t test on one observation per period', () => {
-    const tinnitus = parse({
-      outcome: { name: 'Tinnitus loudness', type: 'continuous', shape: 'symmetric' },
-      structure: { levels: [{ id: 'participant', name: 'Participant', kind: 'independent', count: 34 }] },
-      assignment: { kind: 'randomised', variableName: 'Sound therapy', levelId: 'participant', arms, crossover: { enabled: true, periods: 2, washout: 'Four weeks' } },
-      occasions: { list: [{ label: 'End of period 1', time: 4 }, { label: 'End of period 2', time: 12 }] },
-      assumptions: { outcomeSd: { value: 4, source: SRC }, effect: { value: 2, source: SRC }, occasionCorrelation: { value: 0.5, source: SRC } },
-    });
-    const got = draft(tinnitus);
+    const got = draft(occasionsCrossover);
     expect(got.kind).toBe('two-group-means');
     expect(got.labels.size).toBe('participants per sequence');
     expect(got.inputs.sd).toBeCloseTo(2, 9);

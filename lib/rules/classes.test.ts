@@ -20,6 +20,7 @@ import {
   fewSites,
   greenhouse,
   matchedPaired,
+  occasionsCrossover,
   parse,
   perVisitTests,
   sleep,
@@ -253,16 +254,6 @@ const twoArms = [
   { name: 'Sham', allocation: 1 },
 ];
 
-/** A two-period cross-over whose periods are given only as occasions of the one level. */
-const tinnitus = parse({
-  outcome: { name: 'Tinnitus loudness', type: 'continuous', shape: 'symmetric' },
-  structure: { levels: [{ id: 'participant', name: 'Participant', kind: 'independent', count: 34 }] },
-  assignment: { kind: 'randomised', variableName: 'Sound therapy', levelId: 'participant', arms: twoArms, crossover: { enabled: true, periods: 2, washout: 'Four weeks' } },
-  occasions: { list: [{ label: 'End of period 1', time: 4 }, { label: 'End of period 2', time: 12 }] },
-  assumptions: { outcomeSd: { value: 4, source: SRC }, effect: { value: 2, source: SRC }, occasionCorrelation: { value: 0.5, source: SRC } },
-  analysis: { method: 't-test', unitOfAnalysisLevelId: 'participant' },
-});
-
 /** Days of one calf assigned to the arms: a cross-over in effect, not described as one. */
 const calves = parse({
   outcome: { name: 'Milk intake', type: 'continuous', shape: 'symmetric' },
@@ -280,14 +271,14 @@ const calves = parse({
 
 describe('4b. a cross-over that the structure does not show as one still is one', () => {
   it('periods given only as occasions: the participant receives both arms and counts as n once', () => {
-    const f = designFacts(tinnitus);
+    const f = designFacts(occasionsCrossover);
     expect([f.withinUnit, f.changesOverTime, f.eu?.level.id]).toEqual([true, true, 'participant']);
-    const { findings, recommendation } = runChecks(tinnitus);
+    const { findings, recommendation } = runChecks(occasionsCrossover);
     // Not two parallel groups of 17: no per-arm count, no design effect between participants.
     expect(findings.find((x) => x.ruleId === 'few-units' && x.key === 'per-arm')).toBeUndefined();
     const rm = findings.find((x) => x.ruleId === 'repeated-measures')!;
     expect(rm.numbers).toEqual({ units: 34, measurementsPerUnit: 2, measurements: 68, correlation: 0.5, varianceFactorWithin: 0.5 });
-    expect(find(tinnitus, 'crossover', 'carry-over')!.why).toContain('carry-over cannot be tested away');
+    expect(find(occasionsCrossover, 'crossover', 'carry-over')!.why).toContain('carry-over cannot be tested away');
     expect(recommendation.model).toBe('tinnitus_loudness ~ sound_therapy + period + (1 | participant)');
     expect(recommendation.unitOfAnalysis).toEqual({ levelId: 'participant', name: 'Participant', total: 34 });
   });
@@ -310,7 +301,7 @@ describe('4b. a cross-over that the structure does not show as one still is one'
   });
 
   it('a cross-over described with no periods in the structure or the occasions still gets both findings', () => {
-    const bare = variant(tinnitus, (d) => void (d.occasions.list = []));
+    const bare = variant(occasionsCrossover, (d) => void (d.occasions.list = []));
     expect(designFacts(bare).withinUnit).toBe(false);
     const keys = runChecks(bare).findings.filter((x) => x.ruleId === 'crossover').map((x) => x.key);
     expect(keys).toEqual(['carry-over', 'period']);
