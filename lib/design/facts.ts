@@ -113,6 +113,13 @@ export interface DesignFacts {
   withinUnit: boolean;
   /** The cross-over, when the Assignment step describes one. */
   crossover?: CrossoverFacts;
+  /**
+   * The treatment changes over time within each experimental unit: a described cross-over, or
+   * repeated measurements of one unit (nights, sessions, visits) assigned to the arms — a
+   * cross-over in effect even when the Assignment step does not call it one. Period effects and
+   * carry-over threaten both alike.
+   */
+  changesOverTime: boolean;
   /** The level measured over time: parent of the first repeated level, or the bottom level when several follow-ups are listed and no repeated level is. */
   subject?: LevelInfo;
   /** The occasions imply repeated measurement of the bottom level that the structure does not show. */
@@ -178,6 +185,14 @@ function computeFacts(design: Design): DesignFacts {
   const assignment = byId(design.assignment.levelId);
   const cross = design.assignment.crossover;
 
+  const occasions = [...design.occasions.list].sort((a, b) => a.time - b.time);
+  const baselines = occasions.filter((o) => o.baseline);
+  const followUps = occasions.filter((o) => !o.baseline);
+  const firstRepeated = levels.find((l) => l.level.kind === 'repeated');
+  let subject = firstRepeated && firstRepeated.index > 0 ? levels[firstRepeated.index - 1] : undefined;
+  const implicitRepeats = !firstRepeated && followUps.length >= 2 && bottom !== undefined;
+  if (implicitRepeats) subject = bottom;
+
   let eu = assignment;
   let withinUnit = false;
   if (assignment && (assignment.level.kind === 'repeated' || assignment.level.kind === 'replicate')) {
@@ -186,17 +201,10 @@ function computeFacts(design: Design): DesignFacts {
       eu = parent;
       withinUnit = true;
     }
-  } else if (assignment && cross.enabled && assignment.groupsObservations) {
+  } else if (assignment && cross.enabled && (assignment.groupsObservations || (implicitRepeats && assignment === bottom))) {
+    // A cross-over whose periods are listed only as occasions of the assigned unit is still one.
     withinUnit = true;
   }
-
-  const occasions = [...design.occasions.list].sort((a, b) => a.time - b.time);
-  const baselines = occasions.filter((o) => o.baseline);
-  const followUps = occasions.filter((o) => !o.baseline);
-  const firstRepeated = levels.find((l) => l.level.kind === 'repeated');
-  let subject = firstRepeated && firstRepeated.index > 0 ? levels[firstRepeated.index - 1] : undefined;
-  const implicitRepeats = !firstRepeated && followUps.length >= 2 && bottom !== undefined;
-  if (implicitRepeats) subject = bottom;
 
   const shares = (() => {
     const arms = design.assignment.arms;
@@ -233,6 +241,7 @@ function computeFacts(design: Design): DesignFacts {
     eu,
     withinUnit,
     ...(cross.enabled ? { crossover: { periods: cross.periods, ...(cross.carryoverPossible !== undefined ? { carryoverPossible: cross.carryoverPossible } : {}) } } : {}),
+    changesOverTime: withinUnit && (cross.enabled || assignment?.level.kind === 'repeated'),
     subject,
     implicitRepeats,
     occasions,
@@ -251,6 +260,29 @@ function computeFacts(design: Design): DesignFacts {
 
 export function levelById(f: DesignFacts, id: string | undefined): LevelInfo | undefined {
   return id ? f.levels.find((l) => l.level.id === id) : undefined;
+}
+
+/**
+ * Measurements of each unit of level L over the whole study: its observations, times the
+ * follow-up occasions when the occasions repeat the bottom level without a level of their own
+ * (a cross-over whose periods are listed only as occasions, or visits of one patient).
+ */
+export function measurementsPerUnit(f: DesignFacts, L: LevelInfo): number {
+  return f.implicitRepeats ? L.obsPerUnit * f.followUps.length : L.obsPerUnit;
+}
+
+/**
+ * The correlation within the units of level L as a share of the total variance: its ICC, or — for
+ * the unit measured over time with no ICC of its own — the correlation between two of its
+ * occasions less the shares of the levels above it (which that correlation also contains).
+ * The Assumptions step asks for one or the other; both say how alike two measurements of one
+ * unit are.
+ */
+export function withinCorrelation(f: DesignFacts, L: LevelInfo): IccValue | undefined {
+  if (L.icc) return L.icc;
+  if (L !== f.subject || !f.occasionCorrelation) return undefined;
+  const above = f.levels.slice(0, L.index).reduce((s, l) => s + (l.icc?.value ?? 0), 0);
+  return { value: Math.max(0, f.occasionCorrelation.value - above), source: f.occasionCorrelation.source };
 }
 
 /** The ICC given for a level (a share of the total variance), if any. */

@@ -6,7 +6,7 @@
  * (`fixtures/generate_variance.R` → `fixtures/variance.json`, R version in the file).
  */
 import { describe, expect, it } from 'vitest';
-import { classroom, empty, greenhouse, longitudinal, narrowDose, parse, simple, sleep, variant } from '@/lib/rules/__fixtures__/designs';
+import { classroom, empty, greenhouse, longitudinal, narrowDose, occasionsCrossover, parse, simple, sleep, variant } from '@/lib/rules/__fixtures__/designs';
 import type { Design, DesignInput } from '@/lib/design/schema';
 import { runChecks } from '@/lib/rules/registry';
 import { expectRelativelyClose } from './expect-close';
@@ -152,21 +152,40 @@ describe('sources and links', () => {
   it('mentions the baseline of a cluster trial without taking credit for it', () => {
     expect(draft(classroom).notes.join(' ')).toMatch(/1 − ρ² = 0\.64.*does not count on it/);
   });
+  /** The classroom demo (stratified by school, a t-test planned) with its classrooms in 10 schools. */
+  const schools = parse({
+    ...(structuredClone(classroom) as DesignInput),
+    structure: {
+      levels: [
+        { id: 'school', name: 'School', kind: 'grouping', count: 10 },
+        { id: 'classroom', name: 'Classroom', kind: 'grouping', count: 2 },
+        { id: 'pupil', name: 'Pupil', kind: 'independent', count: 25 },
+      ],
+    },
+    assumptions: { ...classroom.assumptions, iccs: [...classroom.assumptions.iccs, { levelId: 'school', value: 0.05, source: { kind: 'expert', certainty: 'low' } }] },
+  });
   it('adds the ICC of a level above the cluster when the randomisation is not blocked by it', () => {
-    const schools = parse({
-      ...(structuredClone(classroom) as DesignInput),
-      structure: {
-        levels: [
-          { id: 'school', name: 'School', kind: 'grouping', count: 10 },
-          { id: 'classroom', name: 'Classroom', kind: 'grouping', count: 2 },
-          { id: 'pupil', name: 'Pupil', kind: 'independent', count: 25 },
-        ],
-      },
-      assumptions: { ...classroom.assumptions, iccs: [...classroom.assumptions.iccs, { levelId: 'school', value: 0.05, source: { kind: 'expert', certainty: 'low' } }] },
-    });
-    expect(draft(schools).inputs.icc).toBeCloseTo(0.2, 12);
-    const blocked = variant(schools, (d) => void (d.assignment.blocking = { kind: 'stratified', factor: 'School', inAnalysis: true }));
-    expect(draft(blocked).inputs.icc).toBe(0.15);
+    const unblocked = variant(schools, (d) => void (d.assignment.blocking = { kind: 'none', inAnalysis: false }));
+    expect(draft(unblocked).inputs.icc).toBeCloseTo(0.2, 12);
+    expect(draft(unblocked).inputs.sd).toBe(10);
+  });
+  // Stratified by school with the schools in the model: the school share (0.05) leaves the
+  // comparison and the variance within classrooms alike. Var of a classroom-mean difference within
+  // a school = 2σ²(ρc + (1 − ρs − ρc)/m); the calculation gets it from the SD and ICC within
+  // schools, σ·√(1 − ρs) = 10·√0.95 and ρc/(1 − ρs) = 0.15/0.95 (2σ'²(ρ' + (1 − ρ')/m) is the same).
+  it.each<[string, (d: Design) => void]>([
+    ['the Assignment step says the analysis includes them', (d) => void (d.assignment.blocking = { kind: 'stratified', factor: 'School', inAnalysis: true })],
+    ['only the recommended model carries them (classroom demo: stratified, a t-test planned)', () => {}],
+    ['the planned model has a fixed term for them', (d) => void (d.analysis.blockEffect = 'fixed')],
+  ])('leaves out the ICC of the blocks when %s', (_label, change) => {
+    const d = draft(variant(schools, change));
+    expect(d.inputs.icc).toBeCloseTo(0.15 / 0.95, 9);
+    expect(d.inputs.sd).toBeCloseTo(10 * Math.sqrt(0.95), 8);
+    const m = 23; // 25 pupils, 8% lost
+    const sdPrime = d.inputs.sd as number;
+    const iccPrime = d.inputs.icc as number;
+    expect(2 * sdPrime ** 2 * (iccPrime + (1 - iccPrime) / m)).toBeCloseTo(2 * 100 * (0.15 + (1 - 0.05 - 0.15) / m), 6);
+    expect(d.notes.join(' ')).toContain('The variance between schools (ICC 0.05) is left out');
   });
 });
 
@@ -258,5 +277,100 @@ describe('the scale of the analysis (issue 11 point 12)', () => {
 
   it('an outcome analysed as it is gets no such note', () => {
     expect(draft(classroom).notes.join(' ')).not.toContain('raw scale');
+  });
+});
+
+/*
+ * Classes found by trying designs from fields the demos do not cover (issue 11, an outside
+ * methods consultant's pass); the designs are made up for these tests. Sizes checked in R 4.2.2:
+ * power.t.test(delta = 1.5, sd = 3 * sqrt(0.65), power = 0.8) → n = 41.3, 42 per arm (64 with
+ * sd = 3); power.t.test(delta = 2, sd = 4 * sqrt((1 - 0.5) / 2), power = 0.8) → n = 16.7, 17 per
+ * sequence.
+ */
+describe('levels the model carries and cross-overs given as occasions', () => {
+  const SRC = { kind: 'expert', certainty: 'low' } as const;
+  const arms = [
+    { name: 'Creep feed', allocation: 1 },
+    { name: 'Sow milk only', allocation: 1 },
+  ];
+  /** Piglets assigned to the arms within sows. */
+  const piglets = parse({
+    outcome: { name: 'Weight gain', type: 'continuous', shape: 'symmetric' },
+    structure: {
+      levels: [
+        { id: 'sow', name: 'Sow', kind: 'grouping', groupingType: 'litter', count: 12 },
+        { id: 'piglet', name: 'Piglet', kind: 'independent', count: 8 },
+      ],
+    },
+    assignment: { kind: 'randomised', variableName: 'Creep feeding', levelId: 'piglet', arms, blocking: { kind: 'blocked', factor: 'Sow', inAnalysis: true } },
+    assumptions: { outcomeSd: { value: 3, source: SRC }, effect: { value: 1.5, source: SRC }, iccs: [{ levelId: 'sow', value: 0.35, source: SRC }] },
+  });
+
+  it.each<[string, Design, number, number]>([
+    ['no analysis planned: the recommended model has a random intercept for sow', piglets, 3 * Math.sqrt(0.65), 42],
+    ['a planned model with a fixed effect for sow', variant(piglets, (d) => void (d.analysis = { ...d.analysis, method: 'linear-regression', fixedEffectLevels: ['sow'] })), 3 * Math.sqrt(0.65), 42],
+    ['no ICC for sow: nothing to remove', variant(piglets, (d) => void (d.assumptions.iccs = [])), 3, 64],
+  ])('units compared within a level the model carries: %s', (_label, design, sd, n) => {
+    const got = draft(design);
+    expect(got.kind).toBe('two-group-means');
+    expect(got.inputs.sd).toBeCloseTo(sd, 8);
+    expect(calculate(got.request!).result.nPerGroup).toBe(n);
+    if (sd !== 3) expect(got.rationale.join(' ')).toContain('the variance between sows (ICC 0.35) drops out of the comparison');
+  });
+
+  // R 4.2.2: power.t.test(delta = 3, sd = 8 * sqrt(0.4 / 6), power = 0.8) → n = 8.52, 9 per order;
+  // power.t.test(delta = 3, sd = 12 * sqrt(0.3 / 4), power = 0.8) → n = 19.8, 20 per order.
+  const runners = parse({
+    outcome: { name: 'Lactate', type: 'continuous', shape: 'symmetric' },
+    structure: {
+      levels: [
+        { id: 'runner', name: 'Runner', kind: 'independent', count: 24 },
+        { id: 'session', name: 'Session', kind: 'repeated', count: 6 },
+      ],
+    },
+    assignment: { kind: 'randomised', variableName: 'Shoe', levelId: 'session', arms },
+    occasions: { timeUnit: 'days', list: [1, 2, 3, 4, 5, 6].map((t) => ({ label: `Session ${t}`, time: t })) },
+    assumptions: { outcomeSd: { value: 8, source: SRC }, effect: { value: 3, source: SRC }, iccs: [{ levelId: 'runner', value: 0.6, source: SRC }] },
+  });
+  it.each<[string, Design, number, number]>([
+    ['sessions of a runner assigned in turn (6, a cross-over in effect)', runners, 8 * Math.sqrt(0.4 / 6), 9],
+    [
+      'a described four-period cross-over of two arms',
+      variant(runners, (d) => {
+        d.structure.levels[1]!.count = 4;
+        d.occasions.list = d.occasions.list.slice(0, 4);
+        d.assignment.crossover = { enabled: true, periods: 4, washout: 'Two days' };
+        d.assumptions.outcomeSd = { value: 12, source: SRC };
+        d.assumptions.iccs = [{ levelId: 'runner', value: 0.7, source: SRC }];
+      }),
+      12 * Math.sqrt(0.3 / 4),
+      20,
+    ],
+  ])('two arms over an even number of periods: %s', (_label, design, sd, n) => {
+    const got = draft(design);
+    expect(got.kind).toBe('two-group-means');
+    expect(got.labels.size).toBe('runners per sequence');
+    expect(got.inputs.sd).toBeCloseTo(sd, 8);
+    expect(got.rationale.join(' ')).toContain('in one of two mirrored orders');
+    expect(calculate(got.request!).result.nPerGroup).toBe(n);
+  });
+
+  it.each<[string, (d: Design) => void]>([
+    ['5 sessions (odd)', (d) => void ((d.structure.levels[1]!.count = 5), (d.occasions.list = d.occasions.list.slice(0, 5)))],
+    ['three arms', (d) => void d.assignment.arms.push({ name: 'Barefoot', allocation: 1 })],
+    ['3 laps measured in each of the 6 sessions', (d) => void d.structure.levels.push({ id: 'lap', name: 'Lap', kind: 'independent', count: 3, countIsTotal: false, countCv: 0, sharedEnvironment: false, spatialOrSerial: false })],
+  ])('no calculation for a within-unit design of %s', (_label, change) => {
+    const got = draft(variant(runners, change));
+    expect(got.kind).toBeNull();
+    expect(got.missing.map((m) => m.input)).toEqual(['crossover']);
+  });
+
+  it('a two-period cross-over whose periods are only occasions: the AB/BA t test on one observation per period', () => {
+    const got = draft(occasionsCrossover);
+    expect(got.kind).toBe('two-group-means');
+    expect(got.labels.size).toBe('participants per sequence');
+    expect(got.inputs.sd).toBeCloseTo(2, 9);
+    expect(got.notes.join(' ')).not.toMatch(/do not split evenly/);
+    expect(calculate(got.request!).result.nPerGroup).toBe(17);
   });
 });

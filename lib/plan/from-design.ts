@@ -41,6 +41,11 @@
  * period differences of the two sequences, so the test is the two-sample t test of the halved
  * period differences between sequences (Senn 2002, the basic AB/BA analysis, df n − 2):
  * delta = the effect, SD = σ·√((1 − ρ)/(2k)), n per group = units per sequence.
+ * The same holds for two arms over an even number P of periods, each arm in half of them in one
+ * of two mirrored orders (ABAB… / BABA…, or nights of a volunteer assigned in turn, a cross-over
+ * in effect): the unit's contrast of its two arm means over P·k observations has variance
+ * 4σ²(1 − ρ)/(P·k), so SD = σ·√((1 − ρ)/(P·k)) for the halved contrast — with P = 2 the formula
+ * above. Compound symmetry is an approximation where neighbouring periods are more alike.
  *
  * Numbers that the design does not give are never made up: each is listed in `missing` with the
  * design step where it is entered (or none, when the design has no field for it and it is typed
@@ -51,7 +56,7 @@ import { nounFor, plural } from '@/lib/format';
 import { COHEN_1988, DIGGLE_2002, DONNER_KLAR_2000, FLEISS_2003, FRISON_POCOCK_1992, HAYES_BENNETT_1999, narrative, SENN_2002, VICKERS_ALTMAN_2001, ZHU_LAKKIS_2014 } from '@/lib/citations';
 import type { Assumptions, Design, Level, Source } from '@/lib/design/schema';
 import { DESIGN_STEPS } from '@/lib/design/schema';
-import { analysedPerParent, clusterRandomised as wholeClustersRandomised, designFacts, iccOf, sizeCv, smallestArm, type DesignFacts, type LevelInfo, type OutcomeFacts } from '@/lib/design/facts';
+import { analysedPerParent, clusterRandomised as wholeClustersRandomised, designFacts, iccOf, measurementsPerUnit, sizeCv, smallestArm, type DesignFacts, type LevelInfo, type OutcomeFacts } from '@/lib/design/facts';
 import { cap, dec, noun, num } from '@/lib/rules/text';
 import { outcomeName } from '@/lib/rules/phrases';
 import type { Recommendation } from '@/lib/rules/types';
@@ -245,7 +250,7 @@ function armsNotes(b: Builder, f: DesignFacts, kindCanTakeRatio: boolean) {
 
 // ---------------------------------------------------------------- kinds
 
-function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: boolean) {
+function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: boolean, rec: Recommendation | undefined) {
   const member = f.levels[E.index + 1]!;
   const bottom = f.bottom!;
   const m = member.perParent;
@@ -259,12 +264,19 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
   const own = iccOf(f, E.level.id);
   if (!own) iccNeeded(b, E.level, 'icc', `the share of the variance of ${outcomeName(d)} between ${noun(E.level, true)}`);
   let clusterShare = own?.value ?? 0;
-  const blocked = d.assignment.blocking.kind !== 'none' && d.assignment.blocking.inAnalysis;
+  // The blocks are in the analysis when the Assignment step says so, or the planned or the
+  // recommended model carries a term for them (as for the baseline: the plan or the recommendation).
+  const blocking = d.assignment.blocking;
+  const blocked = blocking.kind !== 'none' && (blocking.inAnalysis || d.analysis.blockEffect !== undefined || rec?.analysisPatch.blockEffect !== undefined);
+  // Shares removed with the blocks: they leave the comparison and the variance within clusters alike.
+  let removed = 0;
   for (const up of f.levels.slice(0, E.index)) {
     const c = iccOf(f, up.level.id);
     if (!c || c.value === 0) continue;
     if (blocked) {
-      b.notes.push(`The ICC of ${noun(up.level)} (${dec(c.value, 3)}) is left out: the randomisation is ${d.assignment.blocking.kind} and the analysis includes the blocks.`);
+      removed += c.value;
+      b.note(`ICC of ${noun(up.level)}`, c.value, fromSource(c.source));
+      b.notes.push(`The variance between ${noun(up.level, true)} (ICC ${dec(c.value, 3)}) is left out: the randomisation is ${blocking.kind} and the analysis includes the blocks, so it drops out of the comparison; the SD and ICC are those within ${noun(up.level, true)}.`);
     } else {
       clusterShare += c.value;
       b.note(`ICC of ${noun(up.level)}`, c.value, fromSource(c.source));
@@ -273,10 +285,10 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
   }
 
   // Shares below the member level (deeper nesting), as described in the header.
-  let within: number | undefined = 1 - clusterShare;
+  let within: number | undefined = 1 - clusterShare - removed;
   if (member !== bottom) {
     const sharesBelow: { L: LevelInfo; rho: number }[] = [];
-    let sumAbove = clusterShare;
+    let sumAbove = clusterShare + removed;
     for (const L of f.levels.slice(member.index, bottom.index)) {
       const c = iccOf(f, L.level.id);
       if (!c) {
@@ -310,16 +322,22 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
     const total = clusterShare + within;
     const icc = total > 0 ? Math.min(1, clusterShare / total) : 0;
     const deeper = member !== bottom;
-    if (deeper || clusterShare !== own.value) {
+    const withinBlocks = removed > 0;
+    if (deeper || withinBlocks || clusterShare !== own.value) {
       b.note(`ICC of ${noun(E.level)}`, own.value, fromSource(own.source));
-      b.set('icc', tidy(icc), deeper ? `ICC of ${noun(E.level)}, on ${noun(member.level)} means` : `ICC of ${noun(E.level)} with the levels above`, derived(deeper ? 'ρ / (ρ + v), from the ICCs of every level' : 'sum of the ICCs of the cluster and the levels above'));
+      b.set(
+        'icc',
+        tidy(icc),
+        deeper ? `ICC of ${noun(E.level)}, on ${noun(member.level)} means` : withinBlocks ? `ICC of ${noun(E.level)} within blocks` : `ICC of ${noun(E.level)} with the levels above`,
+        derived(deeper ? 'ρ / (ρ + v), from the ICCs of every level' : withinBlocks ? 'ρ / (1 − the shares of the blocks)' : 'sum of the ICCs of the cluster and the levels above'),
+      );
     } else {
       b.set('icc', own.value, `ICC of ${noun(E.level)}`, fromSource(own.source));
     }
     if (sigma !== undefined) {
-      if (deeper) {
+      if (deeper || withinBlocks) {
         b.note(`SD of ${outcomeName(d)}`, sigma, fromSource(f.outcome.sd!.source));
-        b.set('sd', tidy(sigma * Math.sqrt(total)), `SD of ${noun(member.level)} means`, derived('σ·√(ρ + v), from the outcome SD and the ICCs'));
+        b.set('sd', tidy(sigma * Math.sqrt(total)), deeper ? `SD of ${noun(member.level)} means` : `SD of ${outcomeName(d)} within blocks`, derived(deeper ? 'σ·√(ρ + v), from the outcome SD and the ICCs' : 'σ·√(1 − the shares of the blocks)'));
       } else {
         b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(f.outcome.sd!.source));
       }
@@ -357,23 +375,30 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
   return { kind: 'cluster-means' as const, solveFor };
 }
 
-function crossover(b: Builder, d: Design, f: DesignFacts, E: LevelInfo) {
-  const periods = f.crossover?.periods ?? 2;
+function crossover(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, periods: number) {
   b.labels.size = `${noun(E.level, true)} per sequence`;
   b.rationale.push(
-    `Each ${noun(E.level)} receives both arms in a two-period cross-over, so ${noun(E.level, true)} are compared with themselves: the size to plan is the number of ${noun(E.level, true)} per sequence (AB or BA), and the test is the two-sample t test of the halved period differences between the sequences (${SENN_2002.short}).`,
+    periods === 2
+      ? `Each ${noun(E.level)} receives both arms in a two-period cross-over, so ${noun(E.level, true)} are compared with themselves: the size to plan is the number of ${noun(E.level, true)} per sequence (AB or BA), and the test is the two-sample t test of the halved period differences between the sequences (${SENN_2002.short}).`
+      : `Each ${noun(E.level)} receives both arms in turn over ${num(periods)} periods, half each, in one of two mirrored orders, so ${noun(E.level, true)} are compared with themselves: the size to plan is the number of ${noun(E.level, true)} per order, and the test is the two-sample t test, between the orders, of each ${noun(E.level)}'s halved contrast of its two arm means (the AB/BA analysis extended to ${num(periods)} periods; ${SENN_2002.short}).`,
   );
-  const k = E.obsPerUnit / periods;
+  const perUnit = measurementsPerUnit(f, E);
+  const k = perUnit / periods;
   const rhoSource = iccOf(f, E.level.id) ?? f.occasionCorrelation;
   if (!rhoSource) b.need('rho', `The correlation between observations of one ${noun(E.level)}: the ICC of ${noun(E.level)} or the occasion correlation (Assumptions step).`, 'assumptions');
   else if (rhoSource.value < 0 || rhoSource.value >= 1) b.need('rho', `The correlation between observations of one ${noun(E.level)} must be between 0 and 1 (Assumptions step).`, 'assumptions');
   const sigma = sd(b, f);
   b.note(`${cap(noun(f.bottom!.level, true))} per ${noun(E.level)} in each period`, tidy(k), design('Structure and Assignment steps'));
-  if (!Number.isInteger(k)) b.notes.push(`${num(E.obsPerUnit)} observations per ${noun(E.level)} do not split evenly over ${periods} periods; the calculation uses ${dec(k, 2)} per period.`);
+  if (!Number.isInteger(k)) b.notes.push(`${num(perUnit)} observations per ${noun(E.level)} do not split evenly over ${periods} periods; the calculation uses ${dec(k, 2)} per period.`);
   if (rhoSource && rhoSource.value >= 0 && rhoSource.value < 1 && sigma !== undefined) {
     b.note(`SD of ${outcomeName(d)}`, sigma, fromSource(f.outcome.sd!.source));
     b.note(`Correlation between observations of one ${noun(E.level)}`, rhoSource.value, fromSource(rhoSource.source));
-    b.set('sd', tidy(sigma * Math.sqrt((1 - rhoSource.value) / (2 * k))), 'SD of the halved period difference', derived('σ·√((1 − ρ)/(2k)), k observations per period'));
+    b.set(
+      'sd',
+      tidy(sigma * Math.sqrt((1 - rhoSource.value) / (periods * k))),
+      periods === 2 ? 'SD of the halved period difference' : `SD of the halved contrast of the arm means of one ${noun(E.level)}`,
+      derived(periods === 2 ? 'σ·√((1 − ρ)/(2k)), k observations per period' : `σ·√((1 − ρ)/(P·k)), P = ${periods} periods of k observations`),
+    );
   }
   if (d.occasions.correlationStructure === 'ar1') {
     b.notes.push('The occasions are described as AR(1) (neighbouring observations more alike); the calculation assumes equal correlation between all observations of a unit, which is only an approximation then.');
@@ -447,7 +472,20 @@ function repeated(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, rec: Reco
   return { kind: 'repeated-measures' as const, solveFor };
 }
 
-function independent(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: boolean) {
+/**
+ * Does the planned or the recommended model carry a term for level L (a random intercept or a
+ * fixed effect)? Like the baseline adjustment, the Plan sizes for an analysis that includes what
+ * either of them includes; the Checks flag a planned analysis that leaves it out.
+ */
+function carriedByModel(d: Design, L: LevelInfo, rec: Recommendation | undefined): boolean {
+  const id = L.level.id;
+  const a = d.analysis;
+  const planned = ((a.method === 'mixed-model' || a.method === 'glmm') && a.randomIntercepts.includes(id)) || (a.fixedEffectLevels ?? []).includes(id);
+  const recommended = rec !== undefined && (rec.randomIntercepts.includes(id) || (rec.analysisPatch.fixedEffectLevels ?? []).includes(id));
+  return planned || recommended;
+}
+
+function independent(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: boolean, rec: Recommendation | undefined) {
   b.labels.size = `${noun(E.level, true)} per arm`;
   const shares = f.armShares;
   const planned = smallestArm(f, E);
@@ -460,12 +498,25 @@ function independent(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary
   if (binary) return planForBinaryOutcome(b, f.outcome, { clustered: false, planned });
   b.rationale.push(`${cap(noun(E.level, true))} are assigned to the arms and measured once each, independently: the calculation is the two-sample t test (${COHEN_1988.short}).`);
   const above = f.levels.slice(0, E.index).filter((l) => l.groupsObservations);
-  if (above.length > 0) {
-    const names = above.map((l) => noun(l.level, true)).join(' and ');
+  // Levels above the units that the planned or recommended model carries, with an ICC: the arms
+  // are compared within them, so their share of the variance leaves the comparison.
+  const removed = above.filter((l) => l.icc && carriedByModel(d, l, rec));
+  const removedShare = removed.reduce((s, l) => s + l.icc!.value, 0);
+  const rest = above.filter((l) => !removed.includes(l));
+  if (rest.length > 0) {
+    const names = rest.map((l) => noun(l.level, true)).join(' and ');
     b.notes.push(`The ${noun(E.level, true)} share ${names}; if both arms are found within each, an analysis that accounts for the ${names} (see Checks) compares the arms within them and is at least as precise as this t test assumes.`);
   }
   const sigma = sd(b, f);
-  if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(f.outcome.sd!.source));
+  if (sigma !== undefined && removed.length > 0 && removedShare < 1) {
+    const names = removed.map((l) => noun(l.level, true)).join(' and ');
+    b.note(`SD of ${outcomeName(d)}`, sigma, fromSource(f.outcome.sd!.source));
+    for (const l of removed) b.note(`ICC of ${noun(l.level)}`, l.icc!.value, fromSource(l.icc!.source));
+    b.set('sd', tidy(sigma * Math.sqrt(1 - removedShare)), `SD of ${outcomeName(d)} within ${names}`, derived('σ·√(1 − the ICCs of the levels the model carries)'));
+    b.rationale.push(
+      `The ${noun(E.level, true)} are compared within ${names}, and the analysis has a term for ${removed.length > 1 ? 'them' : 'it'}: the variance between ${names} (ICC ${removed.map((l) => dec(l.icc!.value, 3)).join(' and ')}) drops out of the comparison, so the calculation uses the SD within ${names}. This holds when both arms are found within each of the ${names}, as randomisation within them ensures.`,
+    );
+  } else if (sigma !== undefined) b.set('sd', sigma, `SD of ${outcomeName(d)}`, fromSource(f.outcome.sd!.source));
   const hasEffect = effect(b, f, 'delta', 'Smallest difference worth detecting');
   const solveFor = chooseUnknown(b, hasEffect, 'nPerGroup', 'delta', planned, 2);
   return { kind: 'two-group-means' as const, solveFor };
@@ -661,14 +712,19 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
   common(b, d, f, recommendation);
 
   if (f.withinUnit) {
-    if (f.crossover?.periods !== 2 || binary || count) {
+    // Periods: as the Assignment step gives them, or the assigned occasions of a cross-over in effect.
+    const periods = f.crossover?.periods ?? (f.changesOverTime && f.assignment ? Math.round(f.assignment.perParent) : undefined);
+    // Beyond two periods, only one observation per period: with several (patients of a ward in
+    // each period, a stepped or cluster cross-over) the period-within-unit variance is not modelled.
+    const onePerPeriod = periods !== undefined && Math.abs(measurementsPerUnit(f, E) - periods) < 1e-9;
+    if (periods === undefined || periods % 2 !== 0 || (periods > 2 && !onePerPeriod) || f.armShares.length !== 2 || binary || count) {
       b.rationale.push(
-        `The treatment varies within each ${noun(E.level)}${f.crossover ? ` over ${f.crossover.periods} periods` : ''}; Unitwise calculates within-unit comparisons only for a two-period cross-over with a continuous outcome.`,
+        `The treatment varies within each ${noun(E.level)}${periods !== undefined ? ` over ${periods} periods` : ''}; Unitwise calculates within-unit comparisons only for two arms over an even number of periods (a two-period cross-over, or arms in turn) with a continuous outcome.`,
       );
       b.need('crossover', 'A two-period cross-over (Assignment step), or ask a statistician for this design.', 'assignment');
       return done(null, null);
     }
-    const r = crossover(b, d, f, E);
+    const r = crossover(b, d, f, E, periods);
     return done(r.kind, r.solveFor);
   }
 
@@ -681,7 +737,7 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
     return done(r.kind, r.solveFor);
   }
   if (clusterRandomised) {
-    const r = clustered(b, d, f, E, binary);
+    const r = clustered(b, d, f, E, binary, recommendation);
     return done(r.kind, r.solveFor);
   }
   if (measuredOverTime && !binary) {
@@ -689,7 +745,7 @@ export function planFromDesign(input: Design, recommendation?: Recommendation): 
     return done(r.kind, r.solveFor);
   }
   if (measuredOverTime && binary) b.notes.push('The outcome is binary and measured on several occasions; the calculation uses one occasion (the primary one).');
-  const r = independent(b, d, f, E, binary);
+  const r = independent(b, d, f, E, binary, recommendation);
   return done(r.kind, r.solveFor);
 }
 

@@ -20,6 +20,8 @@ import {
   fewSites,
   greenhouse,
   matchedPaired,
+  occasionsCrossover,
+  parse,
   perVisitTests,
   sleep,
   twins,
@@ -29,6 +31,7 @@ import {
   washedOutCrossover,
   wizardNames,
 } from './__fixtures__/designs';
+import { designFacts } from '@/lib/design/facts';
 import { runChecks } from './registry';
 import type { Finding, Severity } from './types';
 
@@ -238,5 +241,189 @@ describe('6. the user’s names, and blocker and recommendation naming the same 
     if (/GLMM|mixed/.test(kind)) expect(['glmm', 'mixed-model']).toContain(recommendation.method);
     if (kind.includes('Poisson')) expect(recommendation.family).toBe('poisson');
     if (kind.includes('negative binomial')) expect(recommendation.family).toBe('negative-binomial');
+  });
+});
+
+/*
+ * Classes found by trying designs from fields the demos do not cover (issue 11, an outside
+ * methods consultant's pass). The designs below are made up for these tests.
+ */
+const SRC = { kind: 'expert', certainty: 'low' } as const;
+const twoArms = [
+  { name: 'Active', allocation: 1 },
+  { name: 'Sham', allocation: 1 },
+];
+
+/** Days of one calf assigned to the arms: a cross-over in effect, not described as one. */
+const calves = parse({
+  outcome: { name: 'Milk intake', type: 'continuous', shape: 'symmetric' },
+  structure: {
+    levels: [
+      { id: 'calf', name: 'Calf', kind: 'independent', count: 14 },
+      { id: 'feeding-day', name: 'Feeding day', kind: 'repeated', count: 6 },
+    ],
+  },
+  assignment: { kind: 'randomised', variableName: 'Teat type', levelId: 'feeding-day', arms: twoArms },
+  occasions: { timeUnit: 'days', list: [1, 2, 3, 4, 5, 6].map((t) => ({ label: `Day ${t}`, time: t })) },
+  assumptions: { outcomeSd: { value: 1.2, source: SRC }, effect: { value: 0.5, source: SRC }, iccs: [{ levelId: 'calf', value: 0.55, source: SRC }] },
+  analysis: { method: 'mixed-model', randomIntercepts: ['calf'], unitOfAnalysisLevelId: 'calf', dfMethod: 'kenward-roger' },
+});
+
+describe('4b. a cross-over that the structure does not show as one still is one', () => {
+  it('periods given only as occasions: the participant receives both arms and counts as n once', () => {
+    const f = designFacts(occasionsCrossover);
+    expect([f.withinUnit, f.changesOverTime, f.eu?.level.id]).toEqual([true, true, 'participant']);
+    const { findings, recommendation } = runChecks(occasionsCrossover);
+    // Not two parallel groups of 17: no per-arm count, no design effect between participants.
+    expect(findings.find((x) => x.ruleId === 'few-units' && x.key === 'per-arm')).toBeUndefined();
+    const rm = findings.find((x) => x.ruleId === 'repeated-measures')!;
+    expect(rm.numbers).toEqual({ units: 34, measurementsPerUnit: 2, measurements: 68, correlation: 0.5, varianceFactorWithin: 0.5 });
+    expect(find(occasionsCrossover, 'crossover', 'carry-over')!.why).toContain('carry-over cannot be tested away');
+    expect(recommendation.model).toBe('tinnitus_loudness ~ sound_therapy + period + (1 | participant)');
+    expect(recommendation.unitOfAnalysis).toEqual({ levelId: 'participant', name: 'Participant', total: 34 });
+  });
+
+  it.each<[string, Design, number, string, Severity, string]>([
+    ['days of a calf assigned to teat types', calves, 6, 'feeding days', 'warning', 'milk_intake ~ teat_type + occasion + (1 | calf)'],
+    ['the same with a washout between days described', variant(calves, (d) => void (d.assignment.crossover.washout = 'A day of the usual teat')), 6, 'feeding days', 'advice', 'milk_intake ~ teat_type + occasion + (1 | calf)'],
+  ])('%s: the cross-over findings, in the design’s words', (_label, design, periods, word, severity, model) => {
+    const { findings, recommendation } = runChecks(design);
+    const carry = findings.find((x) => x.ruleId === 'crossover' && x.key === 'carry-over')!;
+    expect(carry.severity).toBe(severity);
+    expect(carry.title).toBe(`The arms change between ${word}: carry-over?`);
+    expect(carry.numbers).toEqual({ periods });
+    expect(carry.why).toContain('Senn 2002');
+    const period = findings.find((x) => x.ruleId === 'crossover' && x.key === 'period')!;
+    expect(period.found).toContain('a cross-over in effect');
+    expect(period.todo).toContain('include the feeding day (`occasion` in the model) as a fixed effect, with calf as a random intercept');
+    expect(period.model).toBe(model);
+    expect(recommendation.model).toBe(model);
+  });
+
+  it('a cross-over described with no periods in the structure or the occasions still gets both findings', () => {
+    const bare = variant(occasionsCrossover, (d) => void (d.occasions.list = []));
+    expect(designFacts(bare).withinUnit).toBe(false);
+    const keys = runChecks(bare).findings.filter((x) => x.ruleId === 'crossover').map((x) => x.key);
+    expect(keys).toEqual(['carry-over', 'period']);
+  });
+
+  it('a unit measured on replicates (not over time) that receives both arms gets no cross-over finding', () => {
+    const halves = variant(calves, (d) => {
+      d.structure.levels[1] = { ...d.structure.levels[1]!, kind: 'replicate', name: 'Udder quarter', count: 4 };
+      d.occasions.list = [];
+    });
+    expect(runChecks(halves).findings.filter((x) => x.ruleId === 'crossover')).toEqual([]);
+  });
+
+  it('the period finding names the unit’s term as the model carries it (a fixed effect for 4 units)', () => {
+    const few = variant(calves, (d) => void (d.structure.levels[0]!.count = 4));
+    const period = find(few, 'crossover', 'period')!;
+    expect(period.model).toBe('milk_intake ~ teat_type + occasion + calf');
+    expect(period.todo).toContain('with calf as a fixed effect');
+  });
+});
+
+describe('2b. the correlation between occasions serves as the ICC of the unit measured over time', () => {
+  /** Households visited each quarter, an exposure compared between households. */
+  const households = parse({
+    outcome: { name: 'Water use', type: 'continuous', shape: 'symmetric' },
+    structure: {
+      levels: [
+        { id: 'household', name: 'Household', kind: 'independent', count: 120 },
+        { id: 'quarter', name: 'Quarter', kind: 'repeated', count: 4 },
+      ],
+    },
+    assignment: { kind: 'randomised', variableName: 'Smart meter', levelId: 'household', arms: twoArms },
+    occasions: { list: [1, 2, 3, 4].map((t) => ({ label: `Quarter ${t}`, time: t })) },
+    assumptions: { outcomeSd: { value: 30, source: SRC }, effect: { value: 8, source: SRC }, occasionCorrelation: { value: 0.45, source: SRC }, iccs: [] },
+  });
+  it.each<[string, Design, number, number]>([
+    ['two levels: the correlation itself', households, 0.45, 0],
+    [
+      'under villages with ICC 0.1: the correlation less the village share',
+      variant(households, (d) => {
+        d.structure.levels.unshift({ id: 'village', name: 'Village', kind: 'grouping', count: 12, countIsTotal: false, countCv: 0, sharedEnvironment: false, spatialOrSerial: false });
+        d.structure.levels[1]!.count = 10;
+        d.assumptions.iccs = [{ levelId: 'village', value: 0.1, source: { kind: 'published', certainty: 'high' } }];
+      }),
+      0.35,
+      0.1,
+    ],
+  ])('%s: an uncertain value, not a missing one', (_label, design, share, above) => {
+    const f = find(design, 'uncertain-icc', 'household')!;
+    expect(f.severity).toBe('advice');
+    expect(f.title).toBe('The ICC for households is uncertain');
+    expect(f.found).toContain('taken from the correlation between occasions of one household');
+    expect(f.numbers!.icc).toBeCloseTo(share, 12);
+    expect(f.numbers!.iccLow).toBeCloseTo(share / 2, 12);
+    // 4 quarters per household: DE = 1 + 3ρ at the value given (Kish 1965), ρ taken within the
+    // level above (clusteringEffect leaves out the shares above the level it is about).
+    expect(f.numbers!.designEffect).toBeCloseTo(1 + (3 * share) / (1 - above), 12);
+  });
+  it('with neither, it is missing (warning), as before', () => {
+    const none = variant(households, (d) => void delete d.assumptions.occasionCorrelation);
+    expect(find(none, 'uncertain-icc', 'household')!.severity).toBe('warning');
+  });
+});
+
+describe('1b. the degrees of freedom between units leave out the blocks the model enters as fixed effects', () => {
+  /** Strips of an orchard row assigned to pruning regimes, trees measured in each strip. */
+  const orchard = (rows: number) =>
+    parse({
+      outcome: { name: 'Fruit set', type: 'continuous', shape: 'symmetric' },
+      structure: {
+        levels: [
+          { id: 'row', name: 'Row', kind: 'grouping', groupingType: 'plot', count: rows },
+          { id: 'strip', name: 'Strip', kind: 'grouping', groupingType: 'plot', count: 2 },
+          { id: 'tree', name: 'Tree', kind: 'independent', count: 4 },
+        ],
+      },
+      assignment: { kind: 'randomised', variableName: 'Pruning', levelId: 'strip', arms: twoArms, blocking: { kind: 'blocked', factor: 'Row', inAnalysis: true } },
+      assumptions: { outcomeSd: { value: 5, source: SRC }, effect: { value: 3, source: SRC }, iccs: [{ levelId: 'row', value: 0.2, source: SRC }, { levelId: 'strip', value: 0.1, source: SRC }] },
+    });
+  // One strip of each arm per row: an RCBD on strip means, error df (rows − 1)(arms − 1); R 4.2.2
+  // aov(y ~ arm + row + Error(strip)) on 4 rows gives 3 in the strip stratum.
+  it.each<[string, Design, string, number]>([
+    ['5 rows: 10 strips, 5 per arm', orchard(5), 'per-arm', 4],
+    ['3 rows: 6 strips, too few for their variance', orchard(3), 'variance', 2],
+  ])('%s', (_label, design, key, df) => {
+    const { findings, recommendation } = runChecks(design);
+    const f = findings.find((x) => x.ruleId === 'few-units' && x.key === key)!;
+    expect(f.numbers!.betweenUnitDf).toBe(df);
+    expect(recommendation.model).toBe('fruit_set ~ pruning + row + (1 | row:strip)');
+    if (key === 'variance') {
+      expect(f.why).toContain(`leaving about ${df} degrees of freedom once the arms and rows are fitted`);
+      expect(f.todo).toContain(`a linear model of the 6 means on the arms and rows with ${df} df`);
+    }
+  });
+});
+
+describe('2c. periods that hold several members (a cluster cross-over) are clusters of people, not repeats of one unit', () => {
+  /** Schools switch between two timetables from term to term; pupils are measured in each term. */
+  const schools = parse({
+    outcome: { name: 'Attention score', type: 'continuous', shape: 'symmetric' },
+    structure: {
+      levels: [
+        { id: 'school', name: 'School', kind: 'grouping', groupingType: 'school', count: 12 },
+        { id: 'term', name: 'Term', kind: 'repeated', count: 4 },
+        { id: 'pupil', name: 'Pupil', kind: 'independent', count: 20 },
+      ],
+    },
+    assignment: { kind: 'randomised', variableName: 'Timetable', levelId: 'term', arms: twoArms },
+    occasions: { list: [1, 2, 3, 4].map((t) => ({ label: `Term ${t}`, time: t })) },
+    assumptions: { outcomeSd: { value: 15, source: SRC }, effect: { value: 4, source: SRC }, iccs: [{ levelId: 'school', value: 0.08, source: { kind: 'published', certainty: 'high' } }] },
+  });
+  it('the ICC range for the school-term is that of clusters of pupils (0.01–0.2)', () => {
+    const f = find(schools, 'uncertain-icc', 'term')!;
+    expect(f.severity).toBe('warning');
+    expect([f.numbers!.iccLow, f.numbers!.iccHigh]).toEqual([0.01, 0.2]);
+  });
+  it('the repeated measurements are counted in terms, with the pupils of each', () => {
+    const f = runChecks(schools).findings.find((x) => x.ruleId === 'repeated-measures')!;
+    expect(f.found).toBe('Each school is measured in 4 terms, 20 pupils in each: 960 measurements of attention score from 12 schools.');
+  });
+  it('nights of one volunteer keep the range of repeated measurements (0.2–0.8)', () => {
+    const f = find(variant(calves, (d) => void (d.assumptions.iccs = [])), 'uncertain-icc', 'calf')!;
+    expect([f.numbers!.iccLow, f.numbers!.iccHigh]).toEqual([0.2, 0.8]);
   });
 });

@@ -3,18 +3,21 @@
  * design effect of ignoring levels of clustering, the ICC range to show when none is given, and
  * the number of clusters below which small-sample corrections matter.
  */
-import type { Level } from '@/lib/design/schema';
 import { comparedWithin, sizeCv, type DesignFacts, type LevelInfo } from '@/lib/design/facts';
 import { designEffect, multilevelDesignEffect } from '@/lib/stats/design-effect';
 
 /**
  * A plausible ICC range to show when none is given. Clusters of people or plots (classrooms,
- * practices, trays): 0.01–0.2; repeated measurements or sub-samples of one unit (volunteers over
- * nights, leaves of a plant): 0.2–0.8. Common practice for a sensitivity range, not a published
- * bound; published values for the outcome and setting are better (Donner & Klar 2000).
+ * practices, trays), and periods that hold several people or plots (the patients of a ward in one
+ * period of a stepped or cluster cross-over): 0.01–0.2; repeated measurements or sub-samples of
+ * one unit (volunteers over nights, leaves of a plant): 0.2–0.8. Common practice for a
+ * sensitivity range, not a published bound; published values for the outcome and setting are
+ * better (Donner & Klar 2000).
  */
-export function plausibleIccRange(level: Level): [number, number] {
-  return level.kind === 'grouping' ? [0.01, 0.2] : [0.2, 0.8];
+export function plausibleIccRange(f: DesignFacts, L: LevelInfo): [number, number] {
+  const below = f.levels[L.index + 1]?.level.kind;
+  const clusterOfMembers = L.level.kind === 'grouping' || (L.level.kind === 'repeated' && (below === 'independent' || below === 'grouping'));
+  return clusterOfMembers ? [0.01, 0.2] : [0.2, 0.8];
 }
 
 export interface ClusteringEffect {

@@ -34,7 +34,7 @@ import type { Design } from '@/lib/design/schema';
 import { FEW_CLUSTERS, FEW_LEVELS } from './clustering';
 import { modelPlan } from './model';
 import { assignedVerb, modelKind, treatmentName, unitsWithArms } from './phrases';
-import { ASK_STATISTICIAN, cap, count, noun, num, numbers, pluralWord } from './text';
+import { ASK_STATISTICIAN, cap, count, list, noun, num, numbers, pluralWord } from './text';
 import type { Finding, Rule } from './types';
 
 const ID = 'few-units';
@@ -52,7 +52,12 @@ export const fewUnits: Rule = {
     const perArm = unitsPerArm(f);
     const a = design.analysis;
     const units = count(E.total, E.level);
-    const betweenDf = Math.max(0, E.total - Math.max(arms, 1));
+    // Levels above the unit that the recommended model enters as fixed effects (few blocks, sites)
+    // spend their df from the same units: whole plots in 4 blocks, 2 arms → 8 − 2 − 3 = 3.
+    const fixedAbove = f.withinUnit ? [] : modelPlan(design).fixedLevels.filter((l) => l.index < E.index);
+    const blockDf = fixedAbove.reduce((s, l) => s + Math.max(0, l.total - 1), 0);
+    const betweenDf = Math.max(0, E.total - Math.max(arms, 1) - blockDf);
+    const fitted = fixedAbove.length > 0 ? `the arms and ${list(fixedAbove.map((l) => noun(l.level, true)))}` : 'the arms';
     const clustered = E.groupsObservations;
 
     // per arm
@@ -91,10 +96,10 @@ export const fewUnits: Rule = {
         title: `Too few ${noun(E.level, true)} to estimate their variance`,
         found: `There are ${units} in all, each holding about ${num(Math.round(E.obsPerUnit * 10) / 10)} observations.`,
         why:
-          `A random intercept for ${noun(E.level)} estimates the variance between ${noun(E.level, true)} from ${num(E.total)} values, leaving about ${num(betweenDf)} degrees of freedom once the arms are fitted. ` +
+          `A random intercept for ${noun(E.level)} estimates the variance between ${noun(E.level, true)} from ${num(E.total)} values, leaving about ${num(betweenDf)} degrees of freedom once ${fitted} are fitted. ` +
           `Such an estimate is very imprecise and often comes out as exactly 0 (a "singular" fit), which makes the model behave like one that ignores the clustering. ` +
           `Fewer than about 10 units is a common-practice warning sign, not a published bound.`,
-        todo: `Add ${noun(E.level, true)}; otherwise analyse ${noun(E.level)} means (a t-test on ${num(E.total)} means with ${num(betweenDf)} df is honest about the little information there is) and show the ICC you assume rather than estimating it. ${ASK_STATISTICIAN}`,
+        todo: `Add ${noun(E.level, true)}; otherwise analyse ${noun(E.level)} means (${fixedAbove.length > 0 ? `a linear model of the ${num(E.total)} means on ${fitted}` : `a t-test on ${num(E.total)} means`} with ${num(betweenDf)} df is honest about the little information there is) and show the ICC you assume rather than estimating it. ${ASK_STATISTICIAN}`,
         numbers: numbers({ experimentalUnits: E.total, betweenUnitDf: betweenDf }),
         citations: [HAYES_MOULTON_2017, DONNER_KLAR_2000],
         levelIds: [E.level.id],

@@ -67,7 +67,7 @@ export const nestedClusters: Rule = {
           nums = numbers({ clusters: L.total, perCluster: L.obsPerUnit, icc: icc.value });
         }
       } else {
-        const [lo, hi] = plausibleIccRange(L.level);
+        const [lo, hi] = plausibleIccRange(f, L);
         const at = (v: number) => clusteringEffect(f, L.index, B.index, new Map([...givenIccs(f), [L.level.id, v]]));
         const low = at(lo);
         const high = at(hi);

@@ -25,7 +25,7 @@ const prob = fc.double({ min: 0, max: 1, noNaN: true });
 const levelArb = (i: number) =>
   fc.record({
     id: fc.constant(`l${i}`),
-    name: fc.constantFrom('Classroom', 'Pupil', 'Tray', 'Plant', 'Leaf', 'Night', 'Mouse', 'Twin pair', 'GP practice', 'Site'),
+    name: fc.constantFrom('Classroom', 'Pupil', 'Tray', 'Plant', 'Leaf', 'Night', 'Mouse', 'Twin pair', 'GP practice', 'Site', 'Litter', 'Donor', 'Block'),
     kind: fc.constantFrom(...LEVEL_KINDS),
     groupingType: maybe(fc.constantFrom(...GROUPING_TYPES)),
     count: fc.integer({ min: 1, max: 60 }),
@@ -71,7 +71,7 @@ const designArb: fc.Arbitrary<DesignInput> = fc.integer({ min: 0, max: 5 }).chai
       variableName: maybe(fc.constantFrom('Programme', 'Substrate', 'Sleep-timing schedule')),
       levelId: idArb,
       arms: fc.oneof(fc.constant([]), fc.array(fc.record({ name: fc.constantFrom('A', 'B', 'C', 'D'), allocation: fc.integer({ min: 1, max: 3 }) }), { minLength: 2, maxLength: 4 })),
-      blocking: fc.record({ kind: fc.constantFrom('none', 'blocked', 'stratified', 'matched', 'paired'), factor: maybe(fc.constantFrom('School', 'Bench', 'Age group')), inAnalysis: fc.boolean() }),
+      blocking: fc.record({ kind: fc.constantFrom('none', 'blocked', 'stratified', 'matched', 'paired'), factor: maybe(fc.constantFrom('School', 'Bench', 'Age group', 'Site', 'Litter', 'Block')), inAnalysis: fc.boolean() }),
       crossover: fc.record({ enabled: fc.boolean(), periods: fc.integer({ min: 2, max: 4 }), washout: maybe(fc.constantFrom('None', 'Two weeks', 'no washout')), carryoverPossible: maybe(fc.boolean()) }),
     }),
     occasions: fc.record({
@@ -178,7 +178,11 @@ describe('runChecks over random valid designs', () => {
    * (4) a finding warns that an ICC guessed too low leaves the study underpowered for a level the
    *     treatment is compared within, or that one guessed too high does for a level compared between;
    * (5) "blocking not in the analysis" fires although the planned analysis is the recommended one;
-   * (6) a per-occasion finding while the recommended model has no treatment × occasion (or × time) term.
+   * (6) a per-occasion finding while the recommended model has no treatment × occasion (or × time) term;
+   * (7) the cross-over's period finding names the unit's term otherwise than the recommended model
+   *     does (a random intercept against a fixed effect, or the reverse);
+   * (8) a cross-over (described, or occasions of one unit assigned to the arms) without the
+   *     carry-over and period findings.
    */
   it('no finding says the opposite of the recommendation', { timeout: 60_000 }, () => {
     fc.assert(
@@ -202,6 +206,15 @@ describe('runChecks over random valid designs', () => {
           if (level && /guessed too low leaves the study underpowered/.test(f.why)) expect(comparedWithin(level), where).toBe(false); // (4)
           if (level && /guessed too high leaves the study underpowered/.test(f.why)) expect(comparedWithin(level), where).toBe(true);
           if (f.ruleId === 'per-occasion') expect(rec.model, where).toMatch(/ \* (occasion|time|ns\()/); // (6)
+          if (f.ruleId === 'crossover' && f.key === 'period' && level) {
+            const fixed = (rec.analysisPatch.fixedEffectLevels ?? []).includes(level);
+            expect(f.todo, where).toMatch(fixed ? /as a fixed effect:/ : /as a random intercept:/); // (7)
+          }
+        }
+        const A = design.structure.levels.find((l) => l.id === design.assignment.levelId);
+        const overTime = A?.kind === 'repeated' && design.structure.levels.slice(0, index.get(A.id)).some((l) => l.kind === 'independent' || l.kind === 'grouping');
+        if (design.assignment.crossover.enabled || overTime) {
+          for (const key of ['carry-over', 'period']) expect(findings.some((f) => f.ruleId === 'crossover' && f.key === key), `cross-over without ${key}`).toBe(true); // (8)
         }
         for (const id of rec.analysisPatch.fixedEffectLevels ?? []) expect(findings.some((f) => f.ruleId === 'few-units' && f.key === `level-${id}`), `fixed ${id} without a finding`).toBe(true); // (2)
         const adopted = designSchema.parse({ ...design, analysis: analysisSchema.parse({ ...design.analysis, ...rec.analysisPatch }) });

@@ -83,7 +83,10 @@ export const repeatedMeasures: Rule = {
     const model = modelPlan(design).formula;
     const found = implicit
       ? `The occasions list ${f.followUps.length} follow-up measurements of ${outcomeName(design)}, but the structure has no repeated level: each of the ${count(S.total, S.level)} would be measured ${f.followUps.length} times.`
-      : `Each ${noun(S.level)} is measured on ${num(m)} ${whatPlural}: ${num(measurements)} measurements of ${outcomeName(design)} from ${count(S.total, S.level)}.`;
+      : repeated!.groupsObservations
+        ? // The repeated level holds members (patients of a ward in each period): name both counts.
+          `Each ${noun(S.level)} is measured in ${num(repeated!.perParent)} ${noun(repeated!.level, repeated!.perParent !== 1)}, ${num(f.levels[repeated!.index + 1]!.perParent)} ${noun(f.levels[repeated!.index + 1]!.level, f.levels[repeated!.index + 1]!.perParent !== 1)} in each: ${num(measurements)} measurements of ${outcomeName(design)} from ${count(S.total, S.level)}.`
+        : `Each ${noun(S.level)} is measured on ${num(m)} ${whatPlural}: ${num(measurements)} measurements of ${outcomeName(design)} from ${count(S.total, S.level)}.`;
     const why =
       `Measurements of the same ${noun(S.level)} are correlated: a ${noun(S.level)} who scores high on one ${what} tends to score high on the others. They are not ${num(measurements)} independent observations. ${quant}` +
       (between ? ` Here ${treatmentName(design)} is compared between ${noun(S.level, true)}, so the ${count(S.total, S.level)} are the units that count.` : '') +

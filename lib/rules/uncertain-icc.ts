@@ -21,7 +21,7 @@
  * nothing.
  */
 import { CONSORT_CLUSTER_2010, DONNER_KLAR_2000, HAYES_MOULTON_2017, SENN_2002 } from '@/lib/citations';
-import { comparedWithin, designFacts, givenIccs, iccOf, type IccValue, type LevelInfo } from '@/lib/design/facts';
+import { comparedWithin, designFacts, type DesignFacts, givenIccs, type IccValue, type LevelInfo, withinCorrelation } from '@/lib/design/facts';
 import type { Design } from '@/lib/design/schema';
 import { clusteringEffect, plausibleIccRange } from './clustering';
 import { sourcePhrase, treatmentName } from './phrases';
@@ -40,19 +40,24 @@ export const uncertainIcc: Rule = {
     if (!B) return [];
     const out: Finding[] = [];
     const others = givenIccs(f);
+    if (f.subject && !f.subject.icc) {
+      const r = withinCorrelation(f, f.subject);
+      if (r) others.set(f.subject.level.id, r.value);
+    }
     for (const L of f.levels) {
       if (!L.groupsObservations) continue;
-      const icc = iccOf(f, L.level.id);
+      // The unit measured over time may have its correlation given as the occasion correlation instead.
+      const icc = withinCorrelation(f, L);
       const weak = icc && (icc.source.kind === 'none' || icc.source.kind === 'expert' || icc.source.certainty === 'low');
       if (icc && !weak) continue;
       if (comparedWithin(f, L)) {
         // Above the experimental unit the ICC only says how much a term for the level removes: no design effect, no risk in a low guess.
-        if (L === f.eu) out.push(withinFinding(design, L, icc));
+        if (L === f.eu) out.push(withinFinding(design, f, L, icc));
         continue;
       }
       const restSum = [...others].filter(([id]) => id !== L.level.id).reduce((s, [, v]) => s + v, 0);
       const upper = Math.max(0, 1 - restSum);
-      const [pLo, pHi] = plausibleIccRange(L.level);
+      const [pLo, pHi] = plausibleIccRange(f, L);
       const lo = icc ? icc.value / 2 : Math.min(pLo, upper);
       const hi = icc ? Math.min(2 * icc.value, upper) : Math.min(pHi, upper);
       const at = (v: number) => clusteringEffect(f, L.index, B.index, new Map([...others, [L.level.id, v]]));
@@ -68,7 +73,7 @@ export const uncertainIcc: Rule = {
         severity: icc ? 'advice' : 'warning',
         title: icc ? `The ICC for ${noun(L.level, true)} is uncertain` : `No ICC for ${noun(L.level, true)}`,
         found: icc
-          ? `The ICC for ${noun(L.level, true)} (${dec(icc.value, 3)}) comes from ${sourcePhrase(icc.source)}.`
+          ? `The ICC for ${noun(L.level, true)} (${dec(icc.value, 3)}${L.icc ? '' : `, taken from the correlation between occasions of one ${noun(L.level)}`}) comes from ${sourcePhrase(icc.source)}.`
           : `No ICC is given for ${noun(L.level, true)}, which hold ${per}.`,
         why:
           `The ICC drives the design effect and so the number of ${noun(L.level, true)} needed. With ${per}, the design effect is ${dec(low.designEffect, 2)} at an ICC of ${dec(lo, 3)}` +
@@ -87,8 +92,8 @@ export const uncertainIcc: Rule = {
 };
 
 /** The experimental unit receives every arm: a higher correlation within it helps the comparison. */
-function withinFinding(design: Design, L: LevelInfo, icc: IccValue | undefined): Finding {
-  const [pLo, pHi] = plausibleIccRange(L.level);
+function withinFinding(design: Design, f: DesignFacts, L: LevelInfo, icc: IccValue | undefined): Finding {
+  const [pLo, pHi] = plausibleIccRange(f, L);
   // Capped at 0.95, so that 1 − ρ (and the ratio) stays finite for a correlation given as 1.
   const hi = Math.min(icc ? (1 + icc.value) / 2 : pHi, 0.95);
   const lo = Math.min(icc ? icc.value / 2 : pLo, hi);
@@ -101,7 +106,7 @@ function withinFinding(design: Design, L: LevelInfo, icc: IccValue | undefined):
     severity: icc ? 'advice' : 'warning',
     title: icc ? `The correlation within ${whoPlural} is uncertain` : `No correlation within ${whoPlural}`,
     found: icc
-      ? `The ICC for ${whoPlural} (${dec(icc.value, 3)}), the correlation between two measurements of one ${who}, comes from ${sourcePhrase(icc.source)}.`
+      ? `The ${L.icc ? 'ICC' : 'occasion correlation'} for ${whoPlural} (${dec(icc.value, 3)}), the correlation between two measurements of one ${who}, comes from ${sourcePhrase(icc.source)}.`
       : `No ICC is given for ${whoPlural}: the correlation between two measurements of one ${who} is unknown.`,
     why:
       `${cap(treatmentName(design))} is compared within ${whoPlural}: each of the ${num(L.total)} ${whoPlural} receives every arm, so differences between ${whoPlural} drop out and no design effect applies. ` +

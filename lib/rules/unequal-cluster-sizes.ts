@@ -53,7 +53,7 @@ export const unequalClusterSizes: Rule = {
           ' The formula is conservative when the analysis weights clusters efficiently (a mixed model does).';
         nums = numbers({ sizeCv: cv, meanClusterSize: L.obsPerUnit, icc: icc.value, designEffect: e.designEffect, designEffectEqualSizes: e.equalSizes, extraInflation: extra, clustersForSamePrecision: isUnit ? L.total * (1 + extra) : undefined });
       } else {
-        const [lo, hi] = plausibleIccRange(L.level);
+        const [lo, hi] = plausibleIccRange(f, L);
         const a = evaluate(lo);
         const b = evaluate(hi);
         if (!a || !b) continue;

@@ -89,7 +89,7 @@ export const unitOfAnalysis: Rule = {
         naiveTypeIError: fp,
       });
     } else {
-      const [lo, hi] = plausibleIccRange(A.level);
+      const [lo, hi] = plausibleIccRange(f, A);
       const at = (value: number) => clusteringEffect(f, A.index, U.index, new Map([...givenIccs(f), [A.level.id, value]]));
       const low = at(lo);
       const high = at(hi);

@@ -247,3 +247,22 @@ export const absencesTTest = variant(absencesPoisson, (d) => {
   d.assumptions.dispersion = { value: 0, source: { kind: 'expert', certainty: 'medium' } };
   d.analysis = { ...d.analysis, method: 't-test', glmFamily: undefined, randomIntercepts: [], unitOfAnalysisLevelId: 'pupil' };
 });
+
+/** A two-period cross-over whose periods are given only as occasions of its one level. */
+export const occasionsCrossover = parse({
+  outcome: { name: 'Tinnitus loudness', type: 'continuous', shape: 'symmetric' },
+  structure: { levels: [{ id: 'participant', name: 'Participant', kind: 'independent', count: 34 }] },
+  assignment: {
+    kind: 'randomised',
+    variableName: 'Sound therapy',
+    levelId: 'participant',
+    arms: [
+      { name: 'Active', allocation: 1 },
+      { name: 'Sham', allocation: 1 },
+    ],
+    crossover: { enabled: true, periods: 2, washout: 'Four weeks' },
+  },
+  occasions: { list: [{ label: 'End of period 1', time: 4 }, { label: 'End of period 2', time: 12 }] },
+  assumptions: { outcomeSd: { value: 4, source: { kind: 'expert', certainty: 'low' } }, effect: { value: 2, source: { kind: 'expert', certainty: 'low' } }, occasionCorrelation: { value: 0.5, source: { kind: 'expert', certainty: 'low' } } },
+  analysis: { method: 't-test', unitOfAnalysisLevelId: 'participant' },
+});
