@@ -259,6 +259,18 @@ describe('every shape the wizard accepts, with the numbers the Plan reads', () =
     expect(spec.truth).toEqual({ effect: 10, sd: 30, icc: 0, occasionCorrelation: 0.5 });
   });
 
+  it('a cross-over whose periods are given only as occasions: one observation per occasion, the AB/BA spec', () => {
+    const base = SHAPES['three-period cross-over'];
+    const d: DesignInput = {
+      ...base,
+      structure: { ...base.structure, levels: [{ id: 'patient', name: 'Patient', kind: 'independent', count: 24 }] },
+      assignment: { ...base.assignment, crossover: { enabled: true, periods: 2, carryoverPossible: false } },
+      occasions: { ...base.occasions, list: [1, 2].map((t) => ({ label: `Period ${t}`, time: t })) },
+    };
+    const { spec } = specOf(d);
+    expect(spec.design).toEqual({ arms: 2, unitsPerArm: 12, crossover: { periods: 2 } });
+  });
+
   it('occasions that do not split evenly over the periods: missing, naming the steps', () => {
     const d = structuredClone(SHAPES['three-period cross-over']);
     d.structure!.levels![1]!.count = 4;

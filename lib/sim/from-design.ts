@@ -194,7 +194,9 @@ function crossoverShape(f: DesignFacts, E: LevelInfo): ShapeResult {
     const above = f.levels[E.index - 1]!;
     return { unsupported: [`The ${plural(E)} who receive both arms in turn are grouped in ${plural(above)}: the stress test simulates a cross-over of independent ${plural(E)} only, so stress-test a copy of the study without the ${plural(above)}.`] };
   }
-  if (!inner || inner.level.kind === 'independent' || inner.level.kind === 'grouping' || f.levels.length > E.index + 2) {
+  // Periods given only as occasions (no level below the unit): one observation per occasion.
+  const byOccasions = !inner && f.followUps.length >= 2;
+  if (!byOccasions && (!inner || inner.level.kind === 'independent' || inner.level.kind === 'grouping' || f.levels.length > E.index + 2)) {
     return {
       unsupported: [
         `Each ${lower(E)} receives both arms in turn with several ${inner ? plural(inner) : 'members'} measured in each period: the stress test simulates a cross-over with one observation per ${lower(E)} and period, so it cannot run on this design; the Plan tab and the Checks describe it.`,
@@ -202,13 +204,14 @@ function crossoverShape(f: DesignFacts, E: LevelInfo): ShapeResult {
     };
   }
   const missing: string[] = [];
-  const N = whole(inner, E, missing);
+  const N = inner ? whole(inner, E, missing) : f.followUps.length;
+  const periodWords = inner ? plural(inner) : 'occasions';
   if (N > MAX_PERIODS) {
-    return { unsupported: [`Each ${lower(E)} is measured on ${N} ${plural(inner)}: the stress test simulates at most ${MAX_PERIODS} periods per ${lower(E)}, so stress-test a copy of the study with at most ${MAX_PERIODS} ${plural(inner)}.`] };
+    return { unsupported: [`Each ${lower(E)} is measured on ${N} ${periodWords}: the stress test simulates at most ${MAX_PERIODS} periods per ${lower(E)}, so stress-test a copy of the study with at most ${MAX_PERIODS} ${periodWords}.`] };
   }
   const P = f.crossover?.periods ?? N;
   if (N < 2 || P < 2 || N % P !== 0) {
-    missing.push(`a number of ${plural(inner)} per ${lower(E)} that splits evenly into the ${P} periods of the cross-over (${N} now; Structure or Assignment step)`);
+    missing.push(`a number of ${periodWords} per ${lower(E)} that splits evenly into the ${P} periods of the cross-over (${N} now; ${inner ? 'Structure' : 'Occasions'} or Assignment step)`);
   }
   if (missing.length > 0) return { missing };
   const perPeriod = N / P;
