@@ -53,7 +53,7 @@ export const attrition: Rule = {
     const rate = design.outcome.type === 'count' && !multi;
     const one = unit ? noun(unit.level) : 'unit';
     const why = rate
-      ? `The outcome is a count of events over the follow-up: a ${one} who leaves early keeps the events counted and the time followed until then, and a rate analysis with the follow-up time as offset uses both. What is lost is follow-up time, so the study gathers fewer events than planned; and if leaving is related to the risk of the event, the rates of those who stay are biased.`
+      ? `The outcome is a count of events over the follow-up: a ${one} that leaves early keeps the events counted and the time followed until then, and a rate analysis with the follow-up time as offset uses both. What is lost is follow-up time, so the study gathers fewer events than planned; and if leaving is related to the risk of the event, the rates of those who stay are biased.`
       : multi
       ? `A complete-case analysis drops every ${unit ? noun(unit.level) : 'unit'} with any missing measurement, keeping ${pct(1 - a)} of them; a mixed model uses every measurement taken — about ${pct(used)} of them — and is valid if the loss is missing at random (MAR) given what is in the model. ` +
         `Complete-case analysis, and GEE without weights, need the stronger assumption that loss is unrelated to anything measured (${DIGGLE_2002.short}; ${LIANG_ZEGER_1986.short}). If loss depends on the outcome itself, every analysis is biased, and a sensitivity analysis is needed.`

@@ -88,7 +88,7 @@ export const repeatedMeasures: Rule = {
           `Each ${noun(S.level)} is measured in ${num(repeated!.perParent)} ${noun(repeated!.level, repeated!.perParent !== 1)}, ${num(f.levels[repeated!.index + 1]!.perParent)} ${noun(f.levels[repeated!.index + 1]!.level, f.levels[repeated!.index + 1]!.perParent !== 1)} in each: ${num(measurements)} measurements of ${outcomeName(design)} from ${count(S.total, S.level)}.`
         : `Each ${noun(S.level)} is measured on ${num(m)} ${whatPlural}: ${num(measurements)} measurements of ${outcomeName(design)} from ${count(S.total, S.level)}.`;
     const why =
-      `Measurements of the same ${noun(S.level)} are correlated: a ${noun(S.level)} who scores high on one ${what} tends to score high on the others. They are not ${num(measurements)} independent observations. ${quant}` +
+      `Measurements of the same ${noun(S.level)} are correlated: a ${noun(S.level)} with a high score on one ${what} tends to have high scores on the others. They are not ${num(measurements)} independent observations. ${quant}` +
       (between ? ` Here ${treatmentName(design)} is compared between ${noun(S.level, true)}, so the ${count(S.total, S.level)} are the units that count.` : '') +
       (within ? ` Here ${treatmentName(design)} varies within each ${noun(S.level)}, so each ${noun(S.level)} serves as their own comparison.` : '');
     const todo = handled
