@@ -79,7 +79,9 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
   }, [runStatus, client, studyId]);
 
   const start = useMutation({
-    mutationFn: (spec: SimulationSpecInput) => apiFetch<RunWithSpec>('/api/v1/simulations', { method: 'POST', json: { studyId, revision, spec } }),
+    // A run again of a shown run keeps that run's design revision; a new run from the form takes the current one.
+    mutationFn: ({ spec, from = revision }: { spec: SimulationSpecInput; from?: number }) =>
+      apiFetch<RunWithSpec>('/api/v1/simulations', { method: 'POST', json: { studyId, revision: from, spec } }),
     onMutate: () => setStartError(null),
     onSuccess: (created) => {
       client.setQueryData(['simulation', created.id], created);
@@ -133,7 +135,7 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
 
   return (
     <div className="space-y-6">
-      {canRun && base && <RunForm base={base} analyses={analyses} pending={start.isPending} onRun={(spec) => start.mutate(spec)} />}
+      {canRun && base && <RunForm base={base} analyses={analyses} pending={start.isPending} onRun={(spec) => start.mutate({ spec })} />}
       {!canRun && (
         <Alert tone="info" title="Read-only">
           Your role on this study can read stress tests but not run them. Owners, editors and methods consultants can start one.
@@ -151,7 +153,15 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
             {sizeOf(run.spec).toLocaleString('en-GB')} {sizeLabel} · {run.spec.replicates.toLocaleString('en-GB')} replicates per scenario · seed {run.spec.seed} · α = {run.spec.alpha}
           </p>
           <RunProgress run={run} canCancel={canRun} cancelling={cancel.isPending} onCancel={() => cancel.mutate(run.id)} />
-          {run.status === 'done' && run.results && <RunResults run={run} planned={planned} targetPower={targetPower} />}
+          {run.status === 'done' && run.results && (
+            <RunResults
+              run={run}
+              planned={planned}
+              targetPower={targetPower}
+              starting={start.isPending}
+              onMoreReplicates={canRun ? (replicates) => start.mutate({ spec: { ...run.spec, replicates }, from: run.revision ?? revision }) : undefined}
+            />
+          )}
         </section>
       )}
       {lastRun && (
