@@ -1,6 +1,6 @@
 'use client';
 
-import { formatDateTime } from '@/lib/format';
+import { formatCount, formatDateTime, formatNumber } from '@/lib/format';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { usePathname, useSearchParams } from 'next/navigation';
 import { useEffect, useState } from 'react';
@@ -150,7 +150,7 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
           </h2>
           <p className="text-sm text-muted">
             Started {formatDateTime(run.createdAt)} ·{' '}
-            {sizeOf(run.spec).toLocaleString('en-GB')} {sizeLabel} · {run.spec.replicates.toLocaleString('en-GB')} replicates per scenario · seed {run.spec.seed} · α = {run.spec.alpha}
+            {formatCount(sizeOf(run.spec))} {sizeLabel} · {formatCount(run.spec.replicates)} replicates per scenario · seed {run.spec.seed} · α = {formatNumber(run.spec.alpha)}
           </p>
           <RunProgress run={run} canCancel={canRun} cancelling={cancel.isPending} onCancel={() => cancel.mutate(run.id)} />
           {run.status === 'done' && run.results && (
@@ -170,8 +170,8 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
             Last finished run: design revision {lastRun.revision ?? '—'}
           </h2>
           <p className="text-sm text-muted">
-            Started {new Date(lastRun.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' })} UTC ·{' '}
-            {sizeOf(lastRun.spec).toLocaleString('en-GB')} {sizeLabel} · {lastRun.spec.replicates.toLocaleString('en-GB')} replicates per scenario
+            Started {formatDateTime(lastRun.createdAt)} ·{' '}
+            {formatCount(sizeOf(lastRun.spec))} {sizeLabel} · {formatCount(lastRun.spec.replicates)} replicates per scenario
           </p>
           <RunResults run={lastRun} planned={planned} targetPower={targetPower} />
         </section>
