@@ -138,7 +138,7 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
         <span className="mt-1 block">{reasonOf(cell.verdict, alpha, targetPower)}</span>
         {v.settleAt !== null && (
           <span className="mt-1 block" data-testid="settle-hint">
-            About {formatCount(v.settleAt)} replicates per scenario ({formatCount(Math.max(0, v.settleAt - replicates))} more than this run&apos;s {formatCount(replicates)}) would settle it,
+            About {formatCount(v.settleAt)} replicates per scenario ({formatCount(Math.max(0, v.settleAt - replicates))} more than this run’s {formatCount(replicates)}) would settle it,
             if the rate stays where it is.
           </span>
         )}
