@@ -82,3 +82,8 @@ export const GOMES_2022 = cite(
   'Gomes 2022',
   'Gomes (2022). Should I use fixed effects or random effects when I have fewer than five levels of a grouping factor in a mixed-effects model? PeerJ 10:e12794.',
 );
+
+// Appended for the stress-test verdicts (lib/sim/verdict.ts): the "liberal criterion", a rate of
+// false positives between 0.5α and 1.5α counts as robust. Author, year, journal, volume and pages
+// as the issue gives them; title from memory: verify before export.
+export const BRADLEY_1978 = cite('Bradley 1978', 'Bradley (1978). Robustness? Br J Math Stat Psychol 31:144–152.');

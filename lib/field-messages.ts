@@ -111,7 +111,7 @@ function fieldOf(path: readonly PropertyKey[] | undefined): string | undefined {
   return named[named.length - 1];
 }
 
-const bound = (x: unknown) => (typeof x === 'number' ? formatNumber(x, 6).replace('-', '−') : typeof x === 'bigint' ? x.toString() : String(x));
+const bound = (x: unknown) => (typeof x === 'number' ? formatNumber(x, 6) : typeof x === 'bigint' ? x.toString() : String(x));
 
 type Issue = z.core.$ZodRawIssue;
 

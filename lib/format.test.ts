@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatCount, formatDate, formatDateTime, formatNumber, formatPercent, nounFor, plural, pluralWord } from './format';
+import { formatCount, formatDate, formatDateTime, formatDecimal, formatNumber, formatPercent, MINUS, nounFor, plural, pluralWord } from './format';
 
 describe('one formatting module (en-GB, UTC)', () => {
   it.each([
@@ -26,6 +26,29 @@ describe('one formatting module (en-GB, UTC)', () => {
     expect(formatNumber(Infinity)).toBe('—');
     expect(formatCount(12.46)).toBe('about 12.5');
     expect(formatCount(1234.4)).toBe('about 1,234');
+  });
+
+  it.each([
+    ['a number', () => formatNumber(-0.35667), '\u22120.3567'],
+    ['a whole number', () => formatNumber(-1500), '\u22121,500'],
+    ['a tiny number and its exponent', () => formatNumber(-0.0000123), '\u22121.23e\u22125'],
+    ['a count', () => formatCount(-2.25), 'about \u22122.3'],
+    ['a percentage in a table', () => formatPercent(-0.031), '\u22123.1%'],
+    ['a percentage in a sentence', () => formatPercent(-0.25, 'text'), '\u221225%'],
+    ['a decimal', () => formatDecimal(-0.25, 2), '\u22120.25'],
+  ] as const)('negative numbers read with the minus sign U+2212, never a hyphen: %s', (_what, format, text) => {
+    const out = format();
+    expect(out).toBe(text);
+    expect(out).not.toContain('-');
+    expect(out).toContain(MINUS);
+  });
+
+  it('decimals: at most the digits asked for, trailing zeros dropped, thousands separated', () => {
+    expect(formatDecimal(4.8)).toBe('4.8');
+    expect(formatDecimal(0.15, 2)).toBe('0.15');
+    expect(formatDecimal(0.5, 2)).toBe('0.5');
+    expect(formatDecimal(1234.56)).toBe('1,234.6');
+    expect(formatDecimal(Number.NaN)).toBe('—');
   });
 
   it('plurals follow Intl.PluralRules and one table of irregular nouns', () => {

@@ -4,6 +4,10 @@
  * on the server and in the browser alike, so a page renders the same text in both. Built on
  * Intl.NumberFormat, Intl.PluralRules and Intl.DateTimeFormat; imports nothing of the app, so the
  * engine (lib/stats, lib/sim), the checks and the components share it.
+ *
+ * Every number here is for reading: a negative one carries the minus sign U+2212 ("−0.3567"), not
+ * the hyphen Intl writes. None of these feeds an input, a CSV or an API value: those take the
+ * number itself (String(x), JSON), which stays machine-readable.
  */
 
 export const LOCALE = 'en-GB';
@@ -13,20 +17,33 @@ const WHOLE = new Intl.NumberFormat(LOCALE, { maximumFractionDigits: 0 });
 const ONE_DECIMAL = new Intl.NumberFormat(LOCALE, { maximumFractionDigits: 1 });
 const PLURAL = new Intl.PluralRules(LOCALE);
 
-/** "1,500"; a number that is not whole to `digits` significant digits ("0.1235"); "—" when not finite. */
+/** The minus sign U+2212, for the hyphen-minus in a formatted number ("-0.36" → "−0.36", "1e-5" → "1e−5"). */
+export const MINUS = '\u2212';
+const minus = (text: string) => text.replace(/-/g, MINUS);
+
+/** Significant digits of a figure quoted in a calculation's sentence (its warnings, its method): "0.0166667". */
+export const SENTENCE_DIGITS = 6;
+
+/** "1,500"; a number that is not whole to `digits` significant digits ("0.1235", "−0.3567"); "—" when not finite. */
 export function formatNumber(value: number, digits = 4): string {
   if (!Number.isFinite(value)) return '—';
-  if (Number.isInteger(value)) return WHOLE.format(value);
+  if (Number.isInteger(value)) return minus(WHOLE.format(value));
   const abs = Math.abs(value);
-  if (abs !== 0 && (abs < 1e-4 || abs >= 1e9)) return value.toExponential(digits - 1).replace(/\.?0+e/, 'e');
-  return new Intl.NumberFormat(LOCALE, { maximumSignificantDigits: digits }).format(value);
+  if (abs !== 0 && (abs < 1e-4 || abs >= 1e9)) return minus(value.toExponential(digits - 1).replace(/\.?0+e/, 'e'));
+  return minus(new Intl.NumberFormat(LOCALE, { maximumSignificantDigits: digits }).format(value));
+}
+
+/** `value` to at most `digits` decimals, trailing zeros dropped: "4.8", "0.15", "1,234.5", "−0.25". */
+export function formatDecimal(value: number, digits = 1): string {
+  if (!Number.isFinite(value)) return '—';
+  return minus(new Intl.NumberFormat(LOCALE, { maximumFractionDigits: digits }).format(value));
 }
 
 /** A count in running text: "1,500"; "about 12.5" (one decimal, none from 100 up) when it is not whole. */
 export function formatCount(n: number): string {
   const r = Math.round(n);
-  if (Math.abs(n - r) < 1e-9) return WHOLE.format(r);
-  return `about ${Math.abs(n) >= 100 ? WHOLE.format(r) : ONE_DECIMAL.format(n)}`;
+  if (Math.abs(n - r) < 1e-9) return minus(WHOLE.format(r));
+  return `about ${minus(Math.abs(n) >= 100 ? WHOLE.format(r) : ONE_DECIMAL.format(n))}`;
 }
 
 /**
@@ -47,7 +64,7 @@ export function formatPercent(p: number | null | undefined, style: 'table' | 'te
   } else {
     digits = { minimumFractionDigits: 1, maximumFractionDigits: 1 };
   }
-  return new Intl.NumberFormat(LOCALE, { style: 'percent', ...digits }).format(p);
+  return minus(new Intl.NumberFormat(LOCALE, { style: 'percent', ...digits }).format(p));
 }
 
 /** Plurals of nouns a study design is likely to name; the rest follow the regular rules. */

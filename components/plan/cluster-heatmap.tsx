@@ -1,5 +1,6 @@
 import { formatNumber } from '@/components/calculations/format';
 import { HEAT_COLOURS, heatStep, textOn } from '@/lib/plan/sensitivity';
+import { formatCount } from '@/lib/format';
 
 export interface HeatCell {
   icc: number;
@@ -88,7 +89,7 @@ export function ClusterHeatmap(props: ClusterHeatmapProps) {
                       className={`min-w-[3rem] rounded px-2 py-1.5 font-semibold tabular-nums ${isCurrent ? 'outline outline-[3px] outline-offset-[-1px] outline-[#7a4b00]' : ''}`}
                       style={{ backgroundColor: bg, color: v === null ? '#4a5568' : textOn(bg) }}
                     >
-                      {v === null ? '—' : v.toLocaleString('en-GB')}
+                      {v === null ? '—' : formatCount(v)}
                       {isCurrent && <span className="sr-only"> (current inputs)</span>}
                     </td>
                   );

@@ -22,6 +22,7 @@ import { PlanInputs, type InputValues } from './plan-inputs';
 import type { PlanResultDto } from '@/lib/api/dto';
 import { savedResultsKey, SavedResults } from './saved-results';
 import { initialValues, modeOf, toPlanRequest, visibleFields } from './values';
+import { formatCount } from '@/lib/format';
 
 // recharts draws in the browser only: the charts load on the client.
 const chartLoading = () => <p className="text-sm text-muted">Drawing the chart…</p>;
@@ -234,7 +235,7 @@ export function PlanWorkbench({ studyId, revision, draft, canSave, saved }: Plan
           )}
           {plannedOutput && planned && (
             <p className="rounded-md border border-line bg-white p-4 text-sm" data-testid="planned-comparison">
-              The design plans <strong>{planned.value.toLocaleString('en-GB')}</strong> {sizeWords}. With that number the power is{' '}
+              The design plans <strong>{formatCount(planned.value)}</strong> {sizeWords}. With that number the power is{' '}
               <strong>{formatPercent(Number(plannedOutput.result.power))}</strong>
               {computed.ok && typeof computed.output.result.targetPower === 'number' ? ` against the target of ${formatPercent(computed.output.result.targetPower)}` : ''}.
             </p>

@@ -56,7 +56,7 @@ export default function PowerCurve(props: PowerCurveProps) {
             </XAxis>
             <YAxis domain={[0, 100]} ticks={[0, 20, 40, 60, 80, 100]} tickFormatter={(v: number) => `${v}%`} {...axisStyle} width={48} />
             <Tooltip
-              formatter={(v) => [`${Number(v).toFixed(1)}%`, 'Power']}
+              formatter={(v) => [formatPercent(Number(v) / 100), 'Power']}
               labelFormatter={(l) => `${l} ${sizeLabel}`}
               contentStyle={{ borderColor: '#cbd2dc', color: INK, fontSize: 13 }}
             />

@@ -1,6 +1,6 @@
 'use client';
 
-import { formatDateTime } from '@/lib/format';
+import { formatCount, formatDateTime } from '@/lib/format';
 import Link from 'next/link';
 import type { SimulationDto } from '@/lib/api/simulations';
 
@@ -49,7 +49,7 @@ export function PastRuns({ runs, shownId, hrefFor }: { runs: SimulationDto[]; sh
                   <td className="py-1 pr-3 tabular-nums">{r.revision ?? '—'}</td>
                   <td className="py-1 pr-3">{STATUS[r.status]}</td>
                   <td className="py-1 pr-3 text-right tabular-nums">
-                    {r.progress.replicatesDone.toLocaleString('en-GB')} of {r.progress.replicatesTotal.toLocaleString('en-GB')}
+                    {formatCount(r.progress.replicatesDone)} of {formatCount(r.progress.replicatesTotal)}
                   </td>
                   <td className="py-1">
                     {r.id === shownId ? (

@@ -4,6 +4,7 @@ import { analysisLabel } from '@/lib/sim/analysis-words';
 import { usePathname, useSearchParams } from 'next/navigation';
 import { useMemo } from 'react';
 import { formatFailedFits, formatMetric, RESULT_COLUMNS, type MetricValue, type ResultColumn } from './words';
+import { formatCount } from '@/lib/format';
 
 export interface ResultRow {
   /** The scenario's key in the results (its name, by default its violation). */
@@ -78,7 +79,7 @@ export function ResultsTable({ rows, replicates, alpha }: { rows: ResultRow[]; r
     <div className="overflow-x-auto">
       <table className="w-full min-w-[56rem] text-left text-sm" data-testid="results-table">
         <caption className="mb-2 text-left text-sm text-muted">
-          Each value ± its Monte Carlo SE, from {replicates.toLocaleString('en-GB')} replicates per scenario. Power at the planned effect; false-positive rate from a
+          Each value ± its Monte Carlo SE, from {formatCount(replicates)} replicates per scenario. Power at the planned effect; false-positive rate from a
           paired run at zero effect; coverage of the {Math.round(100 * (1 - alpha))}% confidence interval; failed fits out of those asked for (each replicate is fitted with and without the effect). Select a column heading to sort.
         </caption>
         <thead>

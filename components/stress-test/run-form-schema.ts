@@ -11,6 +11,7 @@ import { ANALYSIS_NAMES } from '@/lib/models/types';
 import { scenarioApplies } from '@/lib/sim/analyses';
 import { formatBound, REPLICATES, SCENARIO_RANGES, SEED, SLOPE_SD, type Range, type Scenario, type SimulationSpec, type SimulationSpecInput, type Violation } from '@/lib/sim/spec';
 import { VIOLATIONS } from './words';
+import { formatCount } from '@/lib/format';
 
 /** The tab's replicates: within the engine's range, narrowed so that a run stays interactive. */
 export const MIN_REPLICATES = Math.max(REPLICATES.min, 100);
@@ -52,7 +53,7 @@ export const runFormSchema = z.object({
     .number({ error: 'Enter the number of replicates.' })
     .int('Replicates must be a whole number.')
     .min(MIN_REPLICATES, `At least ${MIN_REPLICATES} replicates.`)
-    .max(MAX_TAB_REPLICATES, `At most ${MAX_TAB_REPLICATES.toLocaleString('en-GB')} replicates from this tab.`),
+    .max(MAX_TAB_REPLICATES, `At most ${formatCount(MAX_TAB_REPLICATES)} replicates from this tab.`),
   /** SD of the units' random slopes over time (designs whose effect is a difference in slopes); 0 = parallel trends within an arm. */
   slopeSd: rangeField(SLOPE_SD, 'The SD of the slopes'),
   seed: z.number({ error: 'Enter the seed as a whole number.' }).int('The seed is a whole number.').min(SEED.min, `The seed is at least ${SEED.min}.`).max(SEED.max, 'The seed is too large.'),

@@ -8,6 +8,7 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { formDefaults, MAX_TAB_REPLICATES, MIN_REPLICATES, offeredViolations, runFormSchema, scenarioFromForm, toSpec, type RunFormValues } from './run-form-schema';
 import { ANALYSIS_TITLES, describeScenario, formatRate, rateMcse, VIOLATION_TITLES } from './words';
+import { formatCount } from '@/lib/format';
 
 export interface RunFormProps {
   /** The specification from the design (lib/sim/from-design.ts), with defaults applied. */
@@ -146,8 +147,8 @@ export function RunForm({ base, analyses, pending, onRun }: RunFormProps) {
           step={100}
           help={
             mcse !== null
-              ? `A 5% rate is then estimated with a Monte Carlo SE of ${formatRate(mcse).replace('%', '')} percentage points (√(0.05 × 0.95 / ${replicates.toLocaleString('en-GB')})).`
-              : `Between ${MIN_REPLICATES} and ${MAX_TAB_REPLICATES.toLocaleString('en-GB')}.`
+              ? `A 5% rate is then estimated with a Monte Carlo SE of ${formatRate(mcse).replace('%', '')} percentage points (√(0.05 × 0.95 / ${formatCount(replicates)})).`
+              : `Between ${MIN_REPLICATES} and ${formatCount(MAX_TAB_REPLICATES)}.`
           }
           error={errors.replicates?.message}
           {...register('replicates', numberField)}

@@ -3,6 +3,7 @@
 import { useState } from 'react';
 import type { SimulationDto } from '@/lib/api/simulations';
 import { Button } from '@/components/ui/button';
+import { formatCount } from '@/lib/format';
 
 const STATUS_WORDS: Record<SimulationDto['status'], string> = {
   queued: 'Waiting for a worker',
@@ -14,7 +15,7 @@ const STATUS_WORDS: Record<SimulationDto['status'], string> = {
 
 /** "1,200 of 5,000 replicates · about 20 s left" */
 export function progressText(p: SimulationDto['progress']): string {
-  const count = `${p.replicatesDone.toLocaleString('en-GB')} of ${p.replicatesTotal.toLocaleString('en-GB')} replicates`;
+  const count = `${formatCount(p.replicatesDone)} of ${formatCount(p.replicatesTotal)} replicates`;
   if (p.etaSeconds === null || p.replicatesDone >= p.replicatesTotal) return count;
   const eta = p.etaSeconds < 90 ? `${Math.max(1, Math.round(p.etaSeconds))} s` : `${Math.round(p.etaSeconds / 60)} min`;
   return `${count} · about ${eta} left`;

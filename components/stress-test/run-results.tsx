@@ -25,7 +25,20 @@ export function rowsOf(run: RunWithSpec): ResultRow[] {
  * A finished run's results, picture first: the verdict grid with the planned analysis leading and
  * the best alternative, then — collapsed — the summary sentences and the table of every figure.
  */
-export function RunResults({ run, planned, targetPower }: { run: RunWithSpec; planned: string | null; targetPower: number }) {
+export function RunResults({
+  run,
+  planned,
+  targetPower,
+  onMoreReplicates,
+  starting,
+}: {
+  run: RunWithSpec;
+  planned: string | null;
+  targetPower: number;
+  /** Runs this run's specification again with more replicates (the grid offers it where cells are undecided). */
+  onMoreReplicates?: (replicates: number) => void;
+  starting?: boolean;
+}) {
   const rows = rowsOf(run);
   const alpha = run.spec.alpha ?? 0.05;
   const scenarios = run.spec.scenarios.map((s) => ({ key: scenarioKey(s), short: s.name ?? VIOLATION_TITLES[s.violation], full: describeScenario(s) }));
@@ -40,6 +53,8 @@ export function RunResults({ run, planned, targetPower }: { run: RunWithSpec; pl
         alpha={alpha}
         targetPower={targetPower}
         replicates={run.spec.replicates}
+        onMoreReplicates={onMoreReplicates}
+        starting={starting}
       />
       <details className="rounded-md border border-line px-4 py-3 text-sm" data-testid="run-details">
         <summary className="cursor-pointer font-semibold text-brand">Every figure of this run</summary>

@@ -1,7 +1,7 @@
 'use client';
 
 import { analysisLabel } from '@/lib/sim/analysis-words';
-import { plural } from '@/lib/format';
+import { formatCount, formatPercent, plural } from '@/lib/format';
 import { useQueries } from '@tanstack/react-query';
 import { CartesianGrid, ErrorBar, Label, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { axisStyle, CHART, chartMargin } from '@/components/plan/chart-style';
@@ -79,7 +79,7 @@ export function SizeSweep({ run, sweepIds, sizeLabel, canRun, starting, error, o
       </h2>
       <p className="text-sm">
         Runs the scenario “{describeScenario(scenario)}” again with {SWEEP_FACTORS.map((f) => `${f}×`).join(', ')} the {sizeLabel} of this run ({sizeOf(spec)}), with the same
-        analyses, {spec.replicates.toLocaleString('en-GB')} replicates and seed, and plots the simulated power of each analysis against the size.
+        analyses, {formatCount(spec.replicates)} replicates and seed, and plots the simulated power of each analysis against the size.
       </p>
       {canRun && sweepIds.length === 0 && (
         <Button onClick={() => onStart(sweepSpecs(spec).map((s) => s.spec))} disabled={starting}>
@@ -114,7 +114,7 @@ export function SizeSweep({ run, sweepIds, sizeLabel, canRun, starting, error, o
                   <Label value={sizeLabel} position="insideBottom" offset={-16} fill={CHART.ink} fontSize={13} />
                 </XAxis>
                 <YAxis domain={[0, 100]} ticks={[0, 20, 40, 60, 80, 100]} tickFormatter={(v: number) => `${v}%`} width={48} {...axisStyle} />
-                <Tooltip formatter={(v, n) => [`${Number(v).toFixed(1)}%`, String(n)]} labelFormatter={(l) => `${l} ${sizeLabel}`} contentStyle={{ borderColor: CHART.grid, color: CHART.ink, fontSize: 13 }} />
+                <Tooltip formatter={(v, n) => [formatPercent(Number(v) / 100), String(n)]} labelFormatter={(l) => `${l} ${sizeLabel}`} contentStyle={{ borderColor: CHART.grid, color: CHART.ink, fontSize: 13 }} />
                 <Legend verticalAlign="top" wrapperStyle={{ color: CHART.ink, fontSize: 13 }} />
                 {analyses.map((a, i) => (
                   <Line key={a} dataKey={a} name={analysisLabel(a)} stroke={SERIES_COLOURS[i % SERIES_COLOURS.length]} strokeWidth={2} isAnimationActive={false} connectNulls>

@@ -1,6 +1,6 @@
 'use client';
 
-import { formatDateTime } from '@/lib/format';
+import { formatCount, formatDateTime, formatNumber } from '@/lib/format';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { usePathname, useSearchParams } from 'next/navigation';
 import { useEffect, useState } from 'react';
@@ -79,7 +79,9 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
   }, [runStatus, client, studyId]);
 
   const start = useMutation({
-    mutationFn: (spec: SimulationSpecInput) => apiFetch<RunWithSpec>('/api/v1/simulations', { method: 'POST', json: { studyId, revision, spec } }),
+    // A run again of a shown run keeps that run's design revision; a new run from the form takes the current one.
+    mutationFn: ({ spec, from = revision }: { spec: SimulationSpecInput; from?: number }) =>
+      apiFetch<RunWithSpec>('/api/v1/simulations', { method: 'POST', json: { studyId, revision: from, spec } }),
     onMutate: () => setStartError(null),
     onSuccess: (created) => {
       client.setQueryData(['simulation', created.id], created);
@@ -133,7 +135,7 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
 
   return (
     <div className="space-y-6">
-      {canRun && base && <RunForm base={base} analyses={analyses} pending={start.isPending} onRun={(spec) => start.mutate(spec)} />}
+      {canRun && base && <RunForm base={base} analyses={analyses} pending={start.isPending} onRun={(spec) => start.mutate({ spec })} />}
       {!canRun && (
         <Alert tone="info" title="Read-only">
           Your role on this study can read stress tests but not run them. Owners, editors and methods consultants can start one.
@@ -148,10 +150,18 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
           </h2>
           <p className="text-sm text-muted">
             Started {formatDateTime(run.createdAt)} ·{' '}
-            {sizeOf(run.spec).toLocaleString('en-GB')} {sizeLabel} · {run.spec.replicates.toLocaleString('en-GB')} replicates per scenario · seed {run.spec.seed} · α = {run.spec.alpha}
+            {formatCount(sizeOf(run.spec))} {sizeLabel} · {formatCount(run.spec.replicates)} replicates per scenario · seed {run.spec.seed} · α = {formatNumber(run.spec.alpha)}
           </p>
           <RunProgress run={run} canCancel={canRun} cancelling={cancel.isPending} onCancel={() => cancel.mutate(run.id)} />
-          {run.status === 'done' && run.results && <RunResults run={run} planned={planned} targetPower={targetPower} />}
+          {run.status === 'done' && run.results && (
+            <RunResults
+              run={run}
+              planned={planned}
+              targetPower={targetPower}
+              starting={start.isPending}
+              onMoreReplicates={canRun ? (replicates) => start.mutate({ spec: { ...run.spec, replicates }, from: run.revision ?? revision }) : undefined}
+            />
+          )}
         </section>
       )}
       {lastRun && (
@@ -160,8 +170,8 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
             Last finished run: design revision {lastRun.revision ?? '—'}
           </h2>
           <p className="text-sm text-muted">
-            Started {new Date(lastRun.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'UTC' })} UTC ·{' '}
-            {sizeOf(lastRun.spec).toLocaleString('en-GB')} {sizeLabel} · {lastRun.spec.replicates.toLocaleString('en-GB')} replicates per scenario
+            Started {formatDateTime(lastRun.createdAt)} ·{' '}
+            {formatCount(sizeOf(lastRun.spec))} {sizeLabel} · {formatCount(lastRun.spec.replicates)} replicates per scenario
           </p>
           <RunResults run={lastRun} planned={planned} targetPower={targetPower} />
         </section>

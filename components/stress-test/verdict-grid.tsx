@@ -1,11 +1,13 @@
 'use client';
 
 import { useId, useRef, useState, type CSSProperties } from 'react';
-import { MORRIS_2019 } from '@/lib/citations';
-import { capitalise as cap, nounFor } from '@/lib/format';
+import { Button } from '@/components/ui/button';
+import { BRADLEY_1978, MORRIS_2019 } from '@/lib/citations';
+import { capitalise as cap, formatCount, formatPercent, nounFor, plural } from '@/lib/format';
 import { analysisLabel } from '@/lib/sim/analysis-words';
-import { bestAnalysis, mcInterval, verdictOf, type CellVerdict, type Verdict } from '@/lib/sim/verdict';
+import { bestAnalysis, LIBERAL_BOUND, mcInterval, verdictOf, type CellVerdict, type Verdict } from '@/lib/sim/verdict';
 import type { ResultRow } from './results-table';
+import { MAX_TAB_REPLICATES } from './run-form-schema';
 import { formatRate, type MetricValue } from './words';
 
 export interface GridScenario {
@@ -26,6 +28,10 @@ export interface VerdictGridProps {
   alpha: number;
   targetPower: number;
   replicates: number;
+  /** Starts the same run again with more replicates per scenario; absent where the reader cannot run one. */
+  onMoreReplicates?: (replicates: number) => void;
+  /** True while such a run is being started. */
+  starting?: boolean;
 }
 
 /** Word, icon and colour of each cell verdict: the word and the icon carry it, the colour repeats it (AA on its tint). */
@@ -33,6 +39,8 @@ const LOOK: Record<CellVerdict, { word: string; icon: string; tone: string }> = 
   holds: { word: 'Holds', icon: '✓', tone: 'border-ok bg-ok-light text-ok' },
   underpowered: { word: 'Holds, low power', icon: '↓', tone: 'border-caution bg-caution-light text-caution' },
   caution: { word: 'Slightly off', icon: '!', tone: 'border-caution bg-caution-light text-caution' },
+  // Neutral, with a dashed border: not a pass, not a failure.
+  undecided: { word: 'Too few runs to tell', icon: '?', tone: 'border-dashed border-muted bg-white text-ink' },
   broken: { word: 'Fails', icon: '✕', tone: 'border-danger bg-danger-light text-danger' },
   'no-result': { word: 'No result', icon: '–', tone: 'border-line bg-white text-muted' },
 };
@@ -42,7 +50,7 @@ interface Cell {
   metrics: Record<string, MetricValue>;
 }
 
-const pct = (x: number) => `${(100 * x).toFixed(1)}%`;
+const pct = (x: number) => formatPercent(x);
 
 function withError(m: MetricValue | undefined, replicates: number): string {
   if (!m || m.value === null || !Number.isFinite(m.value)) return 'not estimated';
@@ -54,10 +62,13 @@ function withError(m: MetricValue | undefined, replicates: number): string {
 /** Why the cell has its verdict, in a sentence. */
 export function reasonOf(v: Verdict, alpha: number, targetPower: number): string {
   const parts: string[] = [];
+  const liberal = formatRate(LIBERAL_BOUND * alpha);
   if (v.falsePositive === 'broken') parts.push(`false positives well above ${formatRate(alpha)}`);
   else if (v.falsePositive === 'inflated') parts.push(`false positives a little above ${formatRate(alpha)}`);
+  else if (v.falsePositive === 'undecided') parts.push(`too few runs to tell whether false positives stay near ${formatRate(alpha)}: the Monte Carlo interval reaches it but also past ${liberal}`);
   if (v.coverage === 'broken') parts.push(`intervals miss the true effect far more often than ${formatRate(alpha)} of the time`);
   else if (v.coverage === 'inflated') parts.push('intervals a little too narrow');
+  else if (v.coverage === 'undecided') parts.push(`too few runs to tell whether intervals miss the true effect only ${formatRate(alpha)} of the time: the Monte Carlo interval reaches it but also past ${liberal}`);
   if (parts.length === 0) {
     if (v.power === 'below') return `Keeps its false-positive rate and coverage, but power is below the target ${formatRate(targetPower)}.`;
     if (v.cell === 'no-result') return 'No usable fits in this scenario.';
@@ -82,6 +93,7 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
   };
   const setOpen = (on: boolean) => (on ? show() : setPlace(null));
   const look = LOOK[cell.verdict.cell];
+  const v = cell.verdict;
   const power = cell.metrics.power?.value;
   const powerLine =
     power === null || power === undefined || !Number.isFinite(power) ? 'Power not estimated' : cell.verdict.powerCounts ? `Power ${formatRate(power)}` : 'Power not counted';
@@ -124,11 +136,17 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
           {analysisLabel(analysis)} · {scenario.full}
         </span>
         <span className="mt-1 block">{reasonOf(cell.verdict, alpha, targetPower)}</span>
+        {v.settleAt !== null && (
+          <span className="mt-1 block" data-testid="settle-hint">
+            About {formatCount(v.settleAt)} replicates per scenario ({formatCount(Math.max(0, v.settleAt - replicates))} more than this run’s {formatCount(replicates)}) would settle it,
+            if the rate stays where it is.
+          </span>
+        )}
         <span className="mt-1 block">False-positive rate {withError(cell.metrics.typeIError, replicates)}</span>
         <span className="block">Coverage {withError(cell.metrics.coverage, replicates)}</span>
         <span className="block">
           Power {withError(cell.metrics.power, replicates)}
-          {cell.verdict.powerCounts ? '' : ' — not counted: the false-positive rate is off'}
+          {v.powerCounts ? '' : v.falsePositive === 'undecided' ? ' — not counted: the false-positive rate is not settled' : ' — not counted: the false-positive rate is off'}
         </span>
       </span>
     </span>
@@ -140,7 +158,7 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
  * analyses (scenario columns × analysis rows), each cell a word, an icon and a colour, with its
  * Monte Carlo errors on hover and focus; then the best alternative to the planned analysis.
  */
-export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetPower, replicates }: VerdictGridProps) {
+export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetPower, replicates, onMoreReplicates, starting = false }: VerdictGridProps) {
   const cells = new Map<string, Cell>();
   for (const r of rows) cells.set(`${r.scenario}/${r.analysis}`, { verdict: verdictOf(r.metrics, { alpha, targetPower, replicates }), metrics: r.metrics });
   const ordered = planned ? [planned, ...analyses.filter((a) => a !== planned)] : analyses;
@@ -155,10 +173,13 @@ export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetP
   const plannedCells = planned ? cellsOf(planned) : [];
 
   const fails = plannedCells.filter((c) => c.verdict.cell === 'broken').length;
+  const unsettled = plannedCells.filter((c) => c.verdict.cell === 'undecided').length;
   const headline = !planned
     ? 'The design names no analysis that this run includes; every analysis is shown, the best first below.'
     : fails > 0
       ? `The planned analysis, ${analysisLabel(planned)}, fails in ${fails} of ${plannedCells.length} ${nounFor(plannedCells.length, 'scenario')}: its false-positive rate or its coverage is off by more than the Monte Carlo error allows.`
+      : unsettled > 0
+        ? `This run has too few replicates to tell whether the planned analysis, ${analysisLabel(planned)}, keeps its false-positive rate and coverage in ${unsettled} of ${plannedCells.length} ${nounFor(plannedCells.length, 'scenario')}: the figures agree with a rate that holds and with one well off.`
       : plannedCells.every((c) => c.verdict.cell === 'holds')
         ? `The planned analysis, ${analysisLabel(planned)}, keeps its false-positive rate and coverage and reaches the target power in every scenario.`
         : `The planned analysis, ${analysisLabel(planned)}, keeps its false-positive rate and coverage within the margin in every scenario; see the cells marked below.`;
@@ -169,8 +190,16 @@ export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetP
     const broken = bestCells.filter((c) => c.verdict.cell === 'broken').length;
     const range = powers.length === 0 ? '' : Math.min(...powers) === Math.max(...powers) ? `; power ${formatRate(powers[0])}` : `; power ${formatRate(Math.min(...powers))} to ${formatRate(Math.max(...powers))}`;
     if (broken > 0) return `${cap(analysisLabel(best))} is the least bad of the others, but it too fails in ${broken} ${nounFor(broken, 'scenario')}${range}.`;
+    const undecided = bestCells.filter((c) => c.verdict.cell === 'undecided').length;
+    if (undecided > 0)
+      return `${cap(analysisLabel(best))} is the best of the others on this run, but there are too few runs to tell whether it keeps its false-positive rate and coverage in ${undecided} of ${bestCells.length} ${nounFor(bestCells.length, 'scenario')}${range}.`;
     return `${cap(analysisLabel(best))} keeps its false-positive rate and coverage in every scenario${range} (target ${formatRate(targetPower)}).`;
   })();
+
+  // Replicates per scenario that would settle every undecided cell, within what this tab runs.
+  const undecided = [...cells.values()].filter((c) => c.verdict.settleAt !== null);
+  const needed = undecided.length > 0 ? Math.max(...undecided.map((c) => c.verdict.settleAt!)) : null;
+  const offer = needed === null ? null : Math.min(needed, MAX_TAB_REPLICATES);
 
   return (
     <div className="space-y-4">
@@ -185,10 +214,26 @@ export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetP
 
       <p className="max-w-3xl text-sm text-muted">
             Each cell judges one analysis under one scenario. <strong>Fails</strong>: the false-positive rate (or the share of intervals missing the true
-            effect) is above {formatRate(alpha)} beyond its Monte Carlo interval (± 1.96 MC SE, {MORRIS_2019.short}) and by more than half of{' '}
-            {formatRate(alpha)} (a margin of common practice). <strong>Slightly off</strong>: above beyond the Monte Carlo error, within that margin. Power is
-            counted only where false positives hold; target {formatRate(targetPower)}. Hover over or focus a cell for its figures.
+            effect) is above {formatRate(alpha)} beyond its Monte Carlo interval (± 1.96 MC SE, {MORRIS_2019.short}) and above{' '}
+            {formatRate(LIBERAL_BOUND * alpha)}, the liberal bound of {LIBERAL_BOUND} × {formatRate(alpha)} ({BRADLEY_1978.short}). <strong>Slightly off</strong>: above
+            beyond the Monte Carlo error, within that bound. <strong>Too few runs to tell</strong>: the interval reaches {formatRate(alpha)} but also past{' '}
+            {formatRate(LIBERAL_BOUND * alpha)}, so the run cannot tell a rate that holds from one well off. Power is counted only where false positives hold;
+            target {formatRate(targetPower)}. Hover over or focus a cell for its figures.
       </p>
+      {needed !== null && offer !== null && (
+        <div className="flex max-w-3xl flex-wrap items-center gap-3 rounded-md border border-dashed border-muted px-4 py-3 text-sm" data-testid="more-replicates">
+          <p className="flex-1 basis-64">
+            {plural(undecided.length, 'cell')} {undecided.length === 1 ? 'has' : 'have'} too few runs to tell. About {formatCount(needed)} replicates per scenario
+            would settle {undecided.length === 1 ? 'it' : 'them'} (this run had {formatCount(replicates)}; the figure assumes the rates stay where they are).
+            {needed > MAX_TAB_REPLICATES && ` This tab runs at most ${formatCount(MAX_TAB_REPLICATES)}, which would settle some of them.`}
+          </p>
+          {onMoreReplicates && (
+            <Button type="button" variant="secondary" disabled={starting} onClick={() => onMoreReplicates(offer)}>
+              {starting ? 'Starting…' : `Run again with ${formatCount(offer)} replicates`}
+            </Button>
+          )}
+        </div>
+      )}
       <div className="overflow-x-auto pb-2">
         <table className="border-separate border-spacing-1 text-left text-sm" data-testid="verdict-grid">
           <caption className="sr-only">The verdict on each analysis under each scenario, the planned analysis first</caption>

@@ -26,6 +26,7 @@ import type { SimulationRunInput } from '@/lib/validation/simulation-run';
 import { simulationSpecSchema, type SimulationSpec } from '@/lib/sim/spec';
 import { requireActor, requireStudy } from './access';
 import { afterCommit, transaction } from './transaction';
+import { formatCount } from '@/lib/format';
 
 /**
  * Stress-test runs. A run on a study needs the right to run simulations on it ('simulation.run':
@@ -109,8 +110,8 @@ async function enforceLimits(actor: Actor, spec: SimulationSpec): Promise<void> 
   if (total > config.maxReplicates) {
     throw new AppError(
       'bad_request',
-      `This run has ${total.toLocaleString('en-GB')} replicates (${spec.replicates.toLocaleString('en-GB')} × ${spec.scenarios.length} scenarios); one run can have at most ${config.maxReplicates.toLocaleString('en-GB')}. Use fewer replicates or scenarios.`,
-      { fields: { replicates: [`At most ${Math.floor(config.maxReplicates / spec.scenarios.length).toLocaleString('en-GB')} with ${spec.scenarios.length} scenarios.`] } },
+      `This run has ${formatCount(total)} replicates (${formatCount(spec.replicates)} × ${spec.scenarios.length} scenarios); one run can have at most ${formatCount(config.maxReplicates)}. Use fewer replicates or scenarios.`,
+      { fields: { replicates: [`At most ${formatCount(Math.floor(config.maxReplicates / spec.scenarios.length))} with ${spec.scenarios.length} scenarios.`] } },
     );
   }
   await refuseBeyondActiveRuns(db(), actor);

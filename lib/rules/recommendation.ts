@@ -31,6 +31,7 @@ import { modelPlan } from './model';
 import { assignedVerb, outcomeName, treatmentName } from './phrases';
 import { cap, count, identifier, list, noun, num, pct } from './text';
 import type { Citation, Finding, Recommendation, UnitOfAnalysis } from './types';
+import { formatDecimal } from '@/lib/format';
 
 const DF_WORDS: Record<Analysis['dfMethod'], string> = {
   residual: 'residual degrees of freedom',
@@ -64,7 +65,7 @@ export function recommend(design: Design, findings: readonly Finding[]): Recomme
   // adjustments, in the order a protocol would list them
   if (plan.baselineTerm) {
     const r = design.assumptions.occasionCorrelation?.value;
-    adjustments.push(`ANCOVA: adjust for the baseline ${name} (${plan.baselineTerm})${r !== undefined && r > -1 && r < 1 ? `; variance factor 1 − ρ² = ${(1 - r * r).toFixed(2)} against the follow-up alone` : ''}.`);
+    adjustments.push(`ANCOVA: adjust for the baseline ${name} (${plan.baselineTerm})${r !== undefined && r > -1 && r < 1 ? `; variance factor 1 − ρ² = ${formatDecimal(1 - r * r, 2)} against the follow-up alone` : ''}.`);
     citations.push(FRISON_POCOCK_1992);
   }
   if (plan.blockTerm) adjustments.push(`Include ${plan.blockTerm} in the model, as the randomisation was ${design.assignment.blocking.kind} by it.`);

@@ -4,7 +4,7 @@
  * irregular ones a study design is likely to name.
  */
 import type { Level } from '@/lib/design/schema';
-import { capitalise, formatPercent, pluralWord } from '@/lib/format';
+import { capitalise, formatCount, formatDecimal, formatPercent, pluralWord } from '@/lib/format';
 
 /** Lower-case the first letter unless the word looks like an acronym ("GP practice" stays). */
 function lowerFirst(s: string): string {
@@ -26,19 +26,12 @@ export function count(n: number, level: Level): string {
   return `${num(n)} ${noun(level, Math.round(n * 10) / 10 !== 1)}`;
 }
 
-/** A count or quantity in text: whole numbers with thousands separators, otherwise "about" one decimal. */
-const WHOLE = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 0 });
-const ONE_DECIMAL = new Intl.NumberFormat('en-GB', { minimumFractionDigits: 1, maximumFractionDigits: 1 });
+/** A count or quantity in text: whole numbers with thousands separators, otherwise "about" (lib/format.ts). */
+export const num = formatCount;
 
-export function num(n: number): string {
-  if (Number.isInteger(n)) return WHOLE.format(n);
-  const r = Math.round(n * 10) / 10;
-  return `about ${Number.isInteger(r) ? WHOLE.format(r) : ONE_DECIMAL.format(r)}`;
-}
-
-/** A quantity rounded to `digits` decimals, trailing zeros dropped ("4.8", "0.15"). */
+/** A quantity rounded to `digits` decimals, trailing zeros dropped ("4.8", "0.15"; lib/format.ts). */
 export function dec(x: number, digits = 1): string {
-  return String(Number(x.toFixed(digits)));
+  return formatDecimal(x, digits);
 }
 
 /** A proportion as a percentage: "37%", "4.9%" below 10% (lib/format.ts). */

@@ -330,10 +330,10 @@ describe('what the tab says is simulated, in the design’s words', () => {
     });
     expect(words(SHAPES['binary outcome, clustered']).text).toEqual([
       'Simulated from the design: 8 clinics per arm, 12 patients each.',
-      'The effect is a log odds ratio of -0.539 (a proportion of 0.3 without the intervention and 0.2 with it); bias and CI width are on the log-odds scale.',
+      'The effect is a log odds ratio of −0.539 (a proportion of 0.3 without the intervention and 0.2 with it); bias and CI width are on the log-odds scale.',
     ]);
     expect(words(SHAPES['count outcome, individually randomised']).text[1]).toBe(
-      'The effect is a log rate ratio of -0.2877 (rate ratio 0.75; a mean count of 1 per patient over the follow-up without the intervention); bias and CI width are on the log scale.',
+      'The effect is a log rate ratio of −0.2877 (rate ratio 0.75; a mean count of 1 per patient over the follow-up without the intervention); bias and CI width are on the log scale.',
     );
   });
 });

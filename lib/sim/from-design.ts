@@ -80,7 +80,7 @@
  * one sentence per feature of the design the stress test does not simulate, with what the team
  * can do instead.
  */
-import { capitalise as cap, nounFor } from '@/lib/format';
+import { capitalise as cap, formatNumber, nounFor } from '@/lib/format';
 import { analysedPerParent, clusterRandomised, designFacts, sizeCv, unitsByArm, type DesignFacts, type LevelInfo, type Sourced } from '@/lib/design/facts';
 import type { Design } from '@/lib/design/schema';
 import type { AnalysisName } from '@/lib/models/types';
@@ -105,7 +105,7 @@ type Family = NonNullable<TruthInput['family']>;
 const lower = (L: LevelInfo) => L.level.name.toLowerCase();
 /** "classroom" → "classrooms", "person" → "people" (lib/format.ts). */
 const plural = (L: LevelInfo) => nounFor(2, lower(L));
-const nice = (x: number) => Number(x.toPrecision(4));
+const nice = (x: number) => formatNumber(x, 4);
 
 const NOT_SIMULATED: Record<string, string> = {
   proportion:

@@ -25,6 +25,7 @@ import { clusterSizes } from './cluster-sizes';
 import { sigmaForIcc } from './logit-normal';
 import { fieldMessage } from '@/lib/field-messages';
 import { rawText } from '@/lib/text-schema';
+import { formatCount, formatNumber } from '@/lib/format';
 
 export const MAX_REPLICATES = 100_000;
 export const MAX_ROWS = 50_000;
@@ -71,7 +72,7 @@ export const SCENARIO_RANGES = {
 } as const satisfies Record<string, Record<string, Range & { why?: string }>>;
 
 /** A bound as written in a message: "1,000", "−0.99". */
-export const formatBound = (x: number) => x.toLocaleString('en-GB', { maximumFractionDigits: 6 }).replace('-', '−');
+export const formatBound = (x: number) => formatNumber(x, 6);
 
 /** A finite number; the refused ones are worded by lib/field-messages.ts, which names the field. */
 const num = () => z.number();
@@ -419,12 +420,12 @@ export const simulationSpecSchema = z
 
     const rows = rowsPerDataset(design);
     if (rows !== undefined && rows > MAX_ROWS) {
-      ctx.addIssue({ code: 'custom', path: ['design'], message: `The design has ${rows.toLocaleString('en-GB')} rows per data set; at most ${MAX_ROWS.toLocaleString('en-GB')} are simulated. Use fewer units, clusters or occasions.` });
+      ctx.addIssue({ code: 'custom', path: ['design'], message: `The design has ${formatCount(rows)} rows per data set; at most ${formatCount(MAX_ROWS)} are simulated. Use fewer units, clusters or occasions.` });
     } else if (rows !== undefined && rows * spec.replicates * spec.scenarios.length > MAX_GENERATED_OBSERVATIONS) {
       ctx.addIssue({
         code: 'custom',
         path: ['replicates'],
-        message: `Replicates × scenarios × rows of data come to ${(rows * spec.replicates * spec.scenarios.length).toLocaleString('en-GB')}, more than the ${MAX_GENERATED_OBSERVATIONS.toLocaleString('en-GB')} simulated at most: use fewer replicates or scenarios.`,
+        message: `Replicates × scenarios × rows of data come to ${formatCount(rows * spec.replicates * spec.scenarios.length)}, more than the ${formatCount(MAX_GENERATED_OBSERVATIONS)} simulated at most: use fewer replicates or scenarios.`,
       });
     }
   })

@@ -21,7 +21,7 @@
  * sentence. (MC SEs: Morris, White & Crowther 2019, Stat Med 38:2074.)
  */
 import { analysisLabel } from './analysis-words';
-import { formatPercent } from '@/lib/format';
+import { formatCount, formatNumber, formatPercent } from '@/lib/format';
 import type { AnalysisName } from '@/lib/models/types';
 import { scenarioKey, type Scenario, type SimulationSpec } from './spec';
 import type { Metric } from './metrics';
@@ -60,7 +60,7 @@ function scenarioPhrase(scenario: Scenario): string {
 /** "12 of the 2,000 fits asked for (0.6%; 1,000 replicates, each fitted with and without the effect) did not converge …". */
 function nonConvergedClause(failed: number, replicates: number): string {
   const asked = 2 * replicates;
-  const head = `${failed.toLocaleString('en-GB')} of the ${asked.toLocaleString('en-GB')} fits asked for (${percent(failed / asked)}; ${replicates.toLocaleString('en-GB')} replicates, each fitted with and without the effect) did not converge or could not be estimated`;
+  const head = `${formatCount(failed)} of the ${formatCount(asked)} fits asked for (${percent(failed / asked)}; ${formatCount(replicates)} replicates, each fitted with and without the effect) did not converge or could not be estimated`;
   return failed >= asked ? `${head}, so this analysis has no figures here.` : `${head}, and were left out of the other figures.`;
 }
 
@@ -86,7 +86,7 @@ export function summarise(spec: SimulationSpec, results: SimulationResults): str
       }
       if (departs(m.bias, 0, 0)) {
         const share = effect !== 0 ? ` (${percent(Math.abs(m.bias.value / effect))} of the true effect)` : '';
-        sentences.push(`${lead}, the estimate is off by ${Number(m.bias.value.toPrecision(2))} on average${share}.`);
+        sentences.push(`${lead}, the estimate is off by ${formatNumber(m.bias.value, 2)} on average${share}.`);
       }
       if (departs(m.seRatio, 1, 0)) {
         const change = m.seRatio.value - 1;

@@ -4,6 +4,7 @@
  */
 import { HOLM_1979 } from '@/lib/citations';
 import type { Citation } from '@/lib/citations';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export type Multiplicity = 'none' | 'bonferroni' | 'holm';
 
@@ -36,10 +37,10 @@ export function adjustAlpha(alpha: number, outcomes: number, multiplicity: Multi
   }
   const alphaAdjusted = alpha / outcomes;
   if (multiplicity === 'bonferroni') {
-    warnings.push(`Bonferroni adjustment for ${outcomes} primary outcomes: each is planned at alpha = ${alpha}/${outcomes} = ${formatNumber(alphaAdjusted)}.`);
+    warnings.push(`Bonferroni adjustment for ${outcomes} primary outcomes: each is planned at alpha = ${alpha}/${outcomes} = ${formatNumber(alphaAdjusted, SENTENCE_DIGITS)}.`);
   } else {
     warnings.push(
-      `Holm adjustment for ${outcomes} primary outcomes: the calculation plans at alpha = ${alpha}/${outcomes} = ${formatNumber(alphaAdjusted)}, ` +
+      `Holm adjustment for ${outcomes} primary outcomes: the calculation plans at alpha = ${alpha}/${outcomes} = ${formatNumber(alphaAdjusted, SENTENCE_DIGITS)}, ` +
         'the level of Holm’s first and most stringent step. This is common practice; it is conservative, since the later steps test at larger levels.',
     );
     references.push(HOLM_1979);
@@ -64,14 +65,9 @@ export function toRecruit(analysed: number, dropout: number): number {
   return dropout === 0 ? analysed : roundUp(analysed / (1 - dropout));
 }
 
-/** A number with at most 6 significant digits, for sentences. */
-export function formatNumber(x: number): string {
-  return Number(x.toPrecision(6)).toString();
-}
-
 /** The attrition sentence, or nothing when no loss is expected. */
 export function dropoutWarning(dropout: number, what: string): string[] {
   return dropout > 0
-    ? [`Recruitment is inflated by 1/(1 − ${dropout}) for an expected loss of ${formatNumber(dropout * 100)}% of ${what}, rounded up.`]
+    ? [`Recruitment is inflated by 1/(1 − ${dropout}) for an expected loss of ${formatNumber(dropout * 100, SENTENCE_DIGITS)}% of ${what}, rounded up.`]
     : [];
 }

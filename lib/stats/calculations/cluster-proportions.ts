@@ -32,7 +32,7 @@
 import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003, KISH_1965 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
 import { SOLVABLE, type CalculationRequest } from './request';
-import { adjustAlpha, formatNumber } from './adjust';
+import { adjustAlpha } from './adjust';
 import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
 import { inputError } from './errors';
 import { clusterRecruitment, effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
@@ -41,6 +41,7 @@ import { effectMeasures, p2FromEffect } from './proportion-effect';
 import { effectPresence, findUnknown, requireTargetPower, solveEffect, solveSize, type SizeSolution } from './solve';
 import { twoProportionsPower } from './two-proportions';
 import type { CalculationOutput, Feasibility } from './types';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export type ClusterProportionsRequest = Extract<CalculationRequest, { kind: 'cluster-proportions' }>;
 
@@ -119,7 +120,7 @@ export function clusterProportions(request: ClusterProportionsRequest): Calculat
     if (byT.feasibility !== 'unreachable' && byT.size > k) {
       warnings.push(
         `An analysis of cluster proportions by the t test (${2 * k - 2} degrees of freedom) would have power ` +
-          `${formatNumber(clusterProportionsPowerT({ ...design, clustersPerArm: k }))} with ${k} clusters per arm; ${byT.size} clusters per arm reach ${formatNumber(target)} by t.`,
+          `${formatNumber(clusterProportionsPowerT({ ...design, clustersPerArm: k }), SENTENCE_DIGITS)} with ${k} clusters per arm; ${byT.size} clusters per arm reach ${formatNumber(target, SENTENCE_DIGITS)} by t.`,
       );
     }
   } else if (solvedFor === 'clusterSize') {
@@ -180,7 +181,7 @@ export function clusterProportions(request: ClusterProportionsRequest): Calculat
     feasibility,
     method:
       `Normal approximation for two proportions (${FLEISS_2003.short}), ${TWO_SIDED(sides)}, at the effective number of units per arm: ` +
-      `clusters × units per cluster / design effect ${formatNumber(de)} (${DONNER_KLAR_2000.short}).`,
+      `clusters × units per cluster / design effect ${formatNumber(de, SENTENCE_DIGITS)} (${DONNER_KLAR_2000.short}).`,
     formula:
       'Power = Φ((|p1 − p2| × √n − z for alpha × √(2 × p̄ × (1 − p̄))) / √(p1(1 − p1) + p2(1 − p2))), with p̄ the mean of p1 and p2 and ' +
       'n = k × m / DE the effective units per arm: k clusters per arm of mean size m, design effect DE = 1 + ((cv² + 1) × m − 1) × ICC.',

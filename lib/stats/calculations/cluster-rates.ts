@@ -31,7 +31,7 @@
  */
 import { HAYES_BENNETT_1999, HAYES_MOULTON_2017, narrative, ZHU_LAKKIS_2014 } from '@/lib/citations';
 import { SOLVABLE, type CalculationRequest } from './request';
-import { adjustAlpha, formatNumber } from './adjust';
+import { adjustAlpha } from './adjust';
 import { MAX_CLUSTERS_PER_ARM, solveClusterSize } from './cluster-size';
 import { inputError } from './errors';
 import { clusterRecruitment, effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
@@ -39,6 +39,7 @@ import { rateEffect } from './two-rates';
 import { zSum, zTestPower, type Sides } from './power';
 import { findUnknown, presence, requireTargetPower, solveEffect, solveSize } from './solve';
 import type { CalculationOutput, Feasibility } from './types';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export type ClusterRatesRequest = Extract<CalculationRequest, { kind: 'cluster-rates' }>;
 
@@ -167,7 +168,7 @@ export function clusterRates(request: ClusterRatesRequest): CalculationOutput {
     feasibility,
     method:
       `Clusters per arm by ${narrative(HAYES_BENNETT_1999)} for rates, ${TWO_SIDED(sides)}: a comparison of cluster rates with one cluster per arm added for the t distribution` +
-      `${dispersion > 0 ? `, with variation between participants in a cluster (dispersion ${formatNumber(dispersion)})` : ''}.`,
+      `${dispersion > 0 ? `, with variation between participants in a cluster (dispersion ${formatNumber(dispersion, SENTENCE_DIGITS)})` : ''}.`,
     formula:
       'Clusters per arm c = 1 + (z for alpha + z for power)² × [(λ0 + λ1)/y + κ(λ0² + λ1²)/m + k²(λ0² + λ1²)] / (λ0 − λ1)², where λ0 is the baseline rate, ' +
       'λ1 = RR × λ0, y = m × t the person-time per cluster (m participants followed for t each), k the coefficient of variation of the true rates between clusters ' +

@@ -5,9 +5,10 @@
  * the answer is the largest size with the clusters per arm that large clusters would need.
  * Shared by cluster-means.ts, cluster-proportions.ts and cluster-rates.ts.
  */
-import { formatNumber } from './adjust';
+
 import { sizeFeasibilityWarning } from './output';
 import { solveSize, type SizeSolution } from './solve';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export const MAX_CLUSTER_SIZE = 1_000_000;
 export const MAX_CLUSTERS_PER_ARM = 1_000_000;
@@ -49,8 +50,8 @@ export function solveClusterSize({ powerAt, plateauAt, clustersPerArm, target, w
     plateauPower,
     clustersPerArmNeeded,
     warnings: [
-      `With ${clustersPerArm} clusters per arm no cluster size reaches power ${formatNumber(target)}: as clusters grow, power levels off at ` +
-        `${formatNumber(plateauPower)} because ${why}.` +
+      `With ${clustersPerArm} clusters per arm no cluster size reaches power ${formatNumber(target, SENTENCE_DIGITS)}: as clusters grow, power levels off at ` +
+        `${formatNumber(plateauPower, SENTENCE_DIGITS)} because ${why}.` +
         (clustersPerArmNeeded !== null ? ` At least ${clustersPerArmNeeded} clusters per arm are needed, with large clusters.` : ''),
     ],
   };

@@ -7,9 +7,10 @@
 import { DONNER_KLAR_2000, ELDRIDGE_2006, KISH_1965 } from '@/lib/citations';
 import { designEffect as de, effectiveSampleSize, naiveTypeIError } from '@/lib/stats/design-effect';
 import type { CalculationRequest } from './request';
-import { formatNumber } from './adjust';
+
 import { fullReferences } from './output';
 import type { CalculationOutput } from './types';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export type DesignEffectRequest = Extract<CalculationRequest, { kind: 'design-effect' }>;
 
@@ -20,7 +21,7 @@ export function designEffectCalculation(request: DesignEffectRequest): Calculati
   const warnings: string[] = [];
   if (value > 1) {
     warnings.push(
-      `An analysis that ignores the clustering would reject a true null hypothesis about ${formatNumber(naive * 100)}% of the time instead of ${formatNumber(alpha * 100)}% (a large-sample figure; with few clusters it is higher).`,
+      `An analysis that ignores the clustering would reject a true null hypothesis about ${formatNumber(naive * 100, SENTENCE_DIGITS)}% of the time instead of ${formatNumber(alpha * 100, SENTENCE_DIGITS)}% (a large-sample figure; with few clusters it is higher).`,
     );
   }
   if (cv > 0) warnings.push(`The coefficient of variation ${cv} allows for unequal cluster sizes; clusterSize is the mean size.`);

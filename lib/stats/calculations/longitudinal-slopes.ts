@@ -13,11 +13,12 @@
  */
 import { DIGGLE_2002 } from '@/lib/citations';
 import type { CalculationRequest } from './request';
-import { dropoutWarning, formatNumber } from './adjust';
+import { dropoutWarning } from './adjust';
 import { inputError } from './errors';
 import { fullReferences, TWO_SIDED } from './output';
 import { solveSummary, type SummaryDesign } from './summary-measure';
 import type { CalculationOutput } from './types';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export type LongitudinalSlopesRequest = Extract<CalculationRequest, { kind: 'longitudinal-slopes' }>;
 
@@ -47,7 +48,7 @@ export function longitudinalSlopes(request: LongitudinalSlopesRequest): Calculat
       '(noncentral t, df = 2n − 2). The published normal approximation is shown beside it.',
     formula:
       'Standard error of the slope difference = sd × √(2 × (1 − correlation) / (n × Σ(time − mean time)²)), ' +
-      `with Σ(time − mean time)² = ${formatNumber(sxx)} for the ${times.length} times given.`,
+      `with Σ(time − mean time)² = ${formatNumber(sxx, SENTENCE_DIGITS)} for the ${times.length} times given.`,
     references: fullReferences([DIGGLE_2002, ...solved.references]),
     warnings: [
       ...solved.warnings,

@@ -19,12 +19,13 @@
 import { COHEN_1988, DONNER_KLAR_2000, RAUDENBUSH_1997 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
 import type { CalculationRequest } from './request';
-import { adjustAlpha, formatNumber } from './adjust';
+import { adjustAlpha } from './adjust';
 import { clusterMeansPower, solveClustersPerArm } from './cluster-means';
 import { inputError } from './errors';
 import { fullReferences, sizeFeasibilityWarning } from './output';
 import { requireTargetPower } from './solve';
 import type { CalculationOutput, Feasibility, ResultValue } from './types';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export type OptimalAllocationRequest = Extract<CalculationRequest, { kind: 'optimal-allocation' }>;
 
@@ -56,7 +57,7 @@ export function optimalAllocation(request: OptimalAllocationRequest): Calculatio
   const mStar = optimalClusterSize(icc, costPerCluster, costPerUnit);
   if (!(mStar <= MAX_CLUSTER_SIZE)) {
     throw inputError(
-      `At this ICC and these costs the best cluster would have ${Number.isFinite(mStar) ? `${formatNumber(mStar)} units` : 'no limit on its units'}, more than the ${MAX_CLUSTER_SIZE.toLocaleString('en-GB')} a cluster can have here: check the ICC and the two costs.`,
+      `At this ICC and these costs the best cluster would have ${Number.isFinite(mStar) ? `${formatNumber(mStar, SENTENCE_DIGITS)} units` : 'no limit on its units'}, more than the ${formatNumber(MAX_CLUSTER_SIZE, SENTENCE_DIGITS)} a cluster can have here: check the ICC and the two costs.`,
       ['icc', 'costPerCluster', 'costPerUnit'],
     );
   }
@@ -98,7 +99,7 @@ export function optimalAllocation(request: OptimalAllocationRequest): Calculatio
       feasibility = 'unreachable';
       result.power = null;
       warnings.push(
-        `The budget pays for ${2 * k} cluster(s) of ${m} units (${formatNumber(costOfCluster)} each); a comparison needs at least 2 per arm, costing ${formatNumber(4 * costOfCluster)}.`,
+        `The budget pays for ${2 * k} cluster(s) of ${m} units (${formatNumber(costOfCluster, SENTENCE_DIGITS)} each); a comparison needs at least 2 per arm, costing ${formatNumber(4 * costOfCluster, SENTENCE_DIGITS)}.`,
       );
     } else if (base) {
       result.power = clusterMeansPower({ ...base, clustersPerArm: k });

@@ -4,8 +4,9 @@
  */
 import { uniqueCitations } from '@/lib/citations';
 import type { Citation } from '@/lib/citations';
-import { dropoutWarning, formatNumber, toRecruit } from './adjust';
+import { dropoutWarning, toRecruit } from './adjust';
 import type { Feasibility } from './types';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export function fullReferences(list: readonly Citation[]): string[] {
   return uniqueCitations(list).map((c) => c.full);
@@ -18,14 +19,14 @@ export function fullReferences(list: readonly Citation[]): string[] {
 export function sizeFeasibilityWarning(feasibility: Feasibility, what: string, size: number, power: number, target: number): string[] {
   if (feasibility === 'already-met') {
     return [
-      `The target power ${formatNumber(target)} is already reached with the smallest allowed number of ${what} (${size}), ` +
-        `which gives power ${formatNumber(power)}.`,
+      `The target power ${formatNumber(target, SENTENCE_DIGITS)} is already reached with the smallest allowed number of ${what} (${size}), ` +
+        `which gives power ${formatNumber(power, SENTENCE_DIGITS)}.`,
     ];
   }
   if (feasibility === 'unreachable') {
     return [
-      `No number of ${what} up to the largest allowed (${size.toLocaleString('en-GB')}) reaches power ${formatNumber(target)}; ` +
-        `that many give power ${formatNumber(power)}. Consider a larger effect, fewer outcomes or a different design.`,
+      `No number of ${what} up to the largest allowed (${formatNumber(size, SENTENCE_DIGITS)}) reaches power ${formatNumber(target, SENTENCE_DIGITS)}; ` +
+        `that many give power ${formatNumber(power, SENTENCE_DIGITS)}. Consider a larger effect, fewer outcomes or a different design.`,
     ];
   }
   return [];
@@ -34,7 +35,7 @@ export function sizeFeasibilityWarning(feasibility: Feasibility, what: string, s
 export function effectFeasibilityWarning(feasibility: Feasibility, what: string, effect: number, power: number, target: number): string[] {
   return feasibility === 'unreachable'
     ? [
-        `No ${what} in the allowed range reaches power ${formatNumber(target)}; the nearest, ${formatNumber(effect)}, gives power ${formatNumber(power)}. ` +
+        `No ${what} in the allowed range reaches power ${formatNumber(target, SENTENCE_DIGITS)}; the nearest, ${formatNumber(effect, SENTENCE_DIGITS)}, gives power ${formatNumber(power, SENTENCE_DIGITS)}. ` +
           'Increase the sample size.',
       ]
     : [];

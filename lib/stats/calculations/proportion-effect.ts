@@ -12,6 +12,7 @@
  * with a CalculationInputError naming the field (an odds ratio in (0, ∞) always gives 0 < p2 < 1).
  */
 import { inputError } from './errors';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export const EFFECT_FIELDS = ['p2', 'difference', 'riskRatio', 'oddsRatio'] as const;
 export type ProportionEffectField = (typeof EFFECT_FIELDS)[number];
@@ -49,7 +50,7 @@ export function p2FromEffect(input: ProportionEffectInput): number | undefined {
         ? p1 * input.riskRatio!
         : (input.oddsRatio! * p1) / (1 - p1 + input.oddsRatio! * p1);
   if (!(p2 > 0 && p2 < 1)) {
-    throw inputError(`With p1 = ${p1}, this ${field} puts the second proportion at ${Number(p2.toPrecision(6))}; it must lie between 0 and 1.`, [field]);
+    throw inputError(`With p1 = ${p1}, this ${field} puts the second proportion at ${formatNumber(p2, SENTENCE_DIGITS)}; it must lie between 0 and 1.`, [field]);
   }
   return p2;
 }

@@ -14,12 +14,13 @@
  */
 import { COHEN_1988 } from '@/lib/citations';
 import type { CalculationRequest } from './request';
-import { adjustAlpha, dropoutWarning, formatNumber, toRecruit } from './adjust';
+import { adjustAlpha, dropoutWarning, toRecruit } from './adjust';
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, testSettings } from './output';
 import { fTestPower, zSum } from './power';
 import { findUnknown, requireTargetPower, solveEffect, solveSize } from './solve';
 import type { CalculationOutput, Feasibility } from './types';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export type RegressionRequest = Extract<CalculationRequest, { kind: 'regression' }>;
 
@@ -131,7 +132,7 @@ export function regression(request: RegressionRequest): CalculationOutput {
     method: `Exact power of the F test of ${u} of ${k} predictor(s) (noncentral F, df = (${u}, n − ${k + 1}), noncentrality f² × n as in ${COHEN_1988.short}).`,
     formula:
       'Power is the chance that an F statistic with (tested predictors, n − predictors − 1) degrees of freedom and noncentrality f² × n exceeds ' +
-      `the critical value of the F distribution at alpha${form === 'slope' ? `; f² = slope² × sdX² / residualSd² (here ${formatNumber(slopeScale ** 2)} × slope²)` : ''}.`,
+      `the critical value of the F distribution at alpha${form === 'slope' ? `; f² = slope² × sdX² / residualSd² (here ${formatNumber(slopeScale ** 2, SENTENCE_DIGITS)} × slope²)` : ''}.`,
     references: fullReferences([COHEN_1988, ...adjusted.references]),
     warnings,
   };

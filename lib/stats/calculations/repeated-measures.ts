@@ -18,11 +18,12 @@
  */
 import { FRISON_POCOCK_1992, narrative, VICKERS_ALTMAN_2001 } from '@/lib/citations';
 import type { CalculationRequest } from './request';
-import { dropoutWarning, formatNumber } from './adjust';
+import { dropoutWarning } from './adjust';
 import { inputError } from './errors';
 import { fullReferences, TWO_SIDED } from './output';
 import { solveSummary, type SummaryDesign } from './summary-measure';
 import type { CalculationOutput } from './types';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export type RepeatedMeasuresRequest = Extract<CalculationRequest, { kind: 'repeated-measures' }>;
 export type RepeatedMeasuresAnalysis = RepeatedMeasuresRequest['analysis'];
@@ -86,7 +87,7 @@ export function repeatedMeasures(request: RepeatedMeasuresRequest): CalculationO
       `Variance of ${ANALYSIS_WORDS[analysis]} by ${narrative(FRISON_POCOCK_1992)}, compound symmetry; ` +
       `exact power of the ${TWO_SIDED(request.sides)} t test on it (noncentral t, df = ${df}). The published normal approximation is shown beside it.`,
     formula:
-      `Standard error of the difference = sd × √(2f / n), with variance factor f = ${formatNumber(design.factor)} for ` +
+      `Standard error of the difference = sd × √(2f / n), with variance factor f = ${formatNumber(design.factor, SENTENCE_DIGITS)} for ` +
       `${baselines} baseline(s), ${followUps} follow-up(s) and correlation ${rho}` +
       (analysis === 'post'
         ? ' (f = (1 + (r − 1)ρ)/r).'

@@ -5,8 +5,9 @@
 import { brentRoot } from '@/lib/stats/root';
 import type { Feasibility } from './types';
 import { inputError } from './errors';
-import { formatNumber } from './adjust';
+
 import { givenEffects, type ProportionEffectInput } from './proportion-effect';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 /**
  * The quantity to solve for: the one of `solvable` that is missing (`present[name]` false), or
@@ -42,7 +43,7 @@ export function findUnknown(solvable: readonly string[], present: Record<string,
 export function requireTargetPower(power: number, alphaAdjusted: number): void {
   if (!(power > alphaAdjusted)) {
     throw inputError(
-      `power (${formatNumber(power)}) must be above the significance level the test is planned at (${formatNumber(alphaAdjusted)}): ` +
+      `power (${formatNumber(power, SENTENCE_DIGITS)}) must be above the significance level the test is planned at (${formatNumber(alphaAdjusted, SENTENCE_DIGITS)}): ` +
         'a test has that much power with no effect at all.',
       ['power'],
     );

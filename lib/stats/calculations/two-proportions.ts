@@ -18,13 +18,14 @@ import { DONNER_KLAR_2000, ELDRIDGE_2006, FLEISS_2003 } from '@/lib/citations';
 import { designEffect } from '@/lib/stats/design-effect';
 import { normalSf } from '@/lib/stats/normal';
 import { SOLVABLE, type CalculationRequest } from './request';
-import { adjustAlpha, dropoutWarning, formatNumber, roundUp, toRecruit } from './adjust';
+import { adjustAlpha, dropoutWarning, roundUp, toRecruit } from './adjust';
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
 import { zCritical, type Sides } from './power';
 import { effectMeasures, p2FromEffect } from './proportion-effect';
 import { effectPresence, findUnknown, requireTargetPower, solveEffect, solveSize } from './solve';
 import type { CalculationOutput, Feasibility } from './types';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export type TwoProportionsRequest = Extract<CalculationRequest, { kind: 'two-proportions' }>;
 
@@ -137,7 +138,7 @@ export function twoProportions(request: TwoProportionsRequest): CalculationOutpu
     method:
       `Normal approximation for two independent proportions (${FLEISS_2003.short}), ${TWO_SIDED(sides)}` +
       `${continuityCorrection ? ', with continuity correction' : ', without continuity correction'}` +
-      `${clustered ? `, multiplied by the design effect ${formatNumber(de)}` : ''}.`,
+      `${clustered ? `, multiplied by the design effect ${formatNumber(de, SENTENCE_DIGITS)}` : ''}.`,
     formula:
       'n per group = [z for alpha × √(2 × p̄ × (1 − p̄)) + z for power × √(p1(1 − p1) + p2(1 − p2))]² / (p1 − p2)², with p̄ the mean of p1 and p2' +
       (continuityCorrection ? '; corrected to n/4 × (1 + √(1 + 4/(n × |p1 − p2|)))²' : '') +

@@ -31,13 +31,14 @@
 import { ZHU_LAKKIS_2014 } from '@/lib/citations';
 import { brentRoot } from '@/lib/stats/root';
 import { SOLVABLE, type CalculationRequest } from './request';
-import { adjustAlpha, dropoutWarning, formatNumber, toRecruit } from './adjust';
+import { adjustAlpha, dropoutWarning, toRecruit } from './adjust';
 import { inputError } from './errors';
 import { effectFeasibilityWarning, fullReferences, sizeFeasibilityWarning, TWO_SIDED, testSettings } from './output';
 import { zSum, zTestPower, type Sides } from './power';
 import { findUnknown, presence, requireTargetPower, solveEffect, solveSize } from './solve';
 import { groupTwoSize, smallestGroupOne } from './two-group-means';
 import type { CalculationOutput, Feasibility } from './types';
+import { formatNumber, SENTENCE_DIGITS } from '@/lib/format';
 
 export type TwoRatesRequest = Extract<CalculationRequest, { kind: 'two-rates' }>;
 
@@ -135,8 +136,8 @@ export function twoRates(request: TwoRatesRequest): CalculationOutput {
     ({ power, feasibility } = s);
     if (feasibility === 'unreachable' && lower && peak < MAX_LOG_RATE_RATIO) {
       warnings.push(
-        `No reduction, however large, reaches power ${formatNumber(target)} with ${n} participants in group 1: the power is highest, ` +
-          `${formatNumber(s.power)}, at a rate ratio of about ${formatNumber(rateRatio)}, because with very few events in the treated arm ` +
+        `No reduction, however large, reaches power ${formatNumber(target, SENTENCE_DIGITS)} with ${n} participants in group 1: the power is highest, ` +
+          `${formatNumber(s.power, SENTENCE_DIGITS)}, at a rate ratio of about ${formatNumber(rateRatio, SENTENCE_DIGITS)}, because with very few events in the treated arm ` +
           'the rate ratio is estimated less precisely. Increase the sample size or the follow-up time.',
       );
     } else {
@@ -152,14 +153,14 @@ export function twoRates(request: TwoRatesRequest): CalculationOutput {
   const fewest = Math.min(expectedEvents, expectedEventsGroup2);
   if (fewest < FEW_EVENTS) {
     warnings.push(
-      `Only about ${formatNumber(fewest)} events are expected in one arm: with so few events the normal approximation to the log rate ratio is rough, ` +
+      `Only about ${formatNumber(fewest, SENTENCE_DIGITS)} events are expected in one arm: with so few events the normal approximation to the log rate ratio is rough, ` +
         'and the stress test is the better guide to power.',
     );
   }
   const n0Recruit = toRecruit(n0, dropout);
   const n1Recruit = toRecruit(n1, dropout);
   warnings.push(...dropoutWarning(dropout, 'participants'));
-  const model = dispersion > 0 ? `negative binomial counts (dispersion ${formatNumber(dispersion)})` : 'Poisson counts';
+  const model = dispersion > 0 ? `negative binomial counts (dispersion ${formatNumber(dispersion, SENTENCE_DIGITS)})` : 'Poisson counts';
   return {
     kind: 'two-rates',
     solvedFor,

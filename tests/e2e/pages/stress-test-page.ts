@@ -16,6 +16,7 @@ export class StressTestPage {
   readonly grid: Locator;
   readonly plannedRow: Locator;
   readonly bestAlternative: Locator;
+  readonly moreReplicates: Locator;
   readonly details: Locator;
   readonly lastFinished: Locator;
   readonly pastRuns: Locator;
@@ -35,6 +36,7 @@ export class StressTestPage {
     this.grid = page.getByTestId('verdict-grid').first();
     this.plannedRow = this.grid.getByTestId('planned-row');
     this.bestAlternative = page.getByTestId('best-alternative').first();
+    this.moreReplicates = page.getByTestId('more-replicates').first();
     this.details = page.getByTestId('run-details').first();
     this.lastFinished = page.getByTestId('last-finished-run');
     this.pastRuns = page.getByRole('region', { name: 'Runs of this study' });

@@ -13,6 +13,7 @@ import { getStudy } from '@/lib/data/studies';
 import { load } from '@/lib/page-guard';
 import { designStepHref, planFromDesign, type PlanAssumption } from '@/lib/plan/from-design';
 import { runChecks } from '@/lib/rules/registry';
+import { formatNumber } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Plan' };
 
@@ -31,7 +32,7 @@ function sourceText(a: PlanAssumption): string {
 }
 
 function valueText(v: PlanAssumption['value']): string {
-  return typeof v === 'number' ? (Number.isInteger(v) ? v.toLocaleString('en-GB') : Number(v.toPrecision(6)).toLocaleString('en-GB', { maximumFractionDigits: 10 })) : v;
+  return typeof v === 'number' ? formatNumber(v, 6) : v;
 }
 
 export default async function PlanPage({ params }: { params: Promise<{ studyId: string }> }) {
