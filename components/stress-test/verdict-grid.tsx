@@ -146,7 +146,7 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
         <span className="block">Coverage {withError(cell.metrics.coverage, replicates)}</span>
         <span className="block">
           Power {withError(cell.metrics.power, replicates)}
-          {v.powerCounts ? '' : v.falsePositive === 'undecided' ? ' — not counted: the false-positive rate is not settled' : ' — not counted: the false-positive rate is off'}
+          {v.powerCounts ? '' : v.falsePositive === 'undecided' ? ' — not counted: the false-positive rate is not settled' : v.falsePositive === 'holds' || v.falsePositive === 'unknown' ? ' — not counted: the intervals miss the true effect, so the estimate is biased' : ' — not counted: the false-positive rate is off'}
         </span>
       </span>
     </span>

@@ -29,8 +29,9 @@
  *
  * The cell's verdict is the worst of these, in this order: a broken false-positive rate, broken
  * coverage, an inflated rate or narrow intervals, power below target, holds. Power is never a
- * virtue of an analysis whose false-positive rate is broken or inflated: `powerCounts` is false
- * there, and the screen shows no power figure as an achievement.
+ * virtue of an analysis whose false-positive rate is broken, undecided or inflated, or whose intervals
+ * miss the true effect (a biased estimate): `powerCounts` is false there, and the screen shows no
+ * power figure as an achievement.
  */
 
 /** A rate with its Monte Carlo SE, as the results give it (null where it could not be estimated). */
@@ -53,7 +54,7 @@ export interface Verdict {
   falsePositive: RateVerdict;
   coverage: RateVerdict;
   power: PowerVerdict;
-  /** False when the false-positive rate is broken, undecided or inflated: the power figure is not to its credit. */
+  /** False when the false-positive rate is broken, undecided or inflated, or the coverage is broken: the power figure is not to its credit. */
   powerCounts: boolean;
   /** For an undecided cell, the replicates per scenario (in all) that would roughly settle it; else null. */
   settleAt: number | null;
@@ -122,7 +123,8 @@ export function verdictOf(
   const miss = finite(cov.value) ? { value: 1 - cov.value, mcse: cov.mcse } : none;
   const coverage = errorRateVerdict(miss, alpha, replicates);
   const power = powerVerdict(metrics.power ?? none, targetPower, replicates);
-  const powerCounts = falsePositive === 'holds' || falsePositive === 'unknown';
+  // A biased estimate (intervals that miss the truth) rejects for the wrong reason: its power is no virtue either.
+  const powerCounts = (falsePositive === 'holds' || falsePositive === 'unknown') && coverage !== 'broken';
   let cell: CellVerdict;
   if (falsePositive === 'unknown' && coverage === 'unknown' && power === 'unknown') cell = 'no-result';
   else if (falsePositive === 'broken' || coverage === 'broken') cell = 'broken';
