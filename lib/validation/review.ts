@@ -41,7 +41,7 @@ export type ReplyCreateInput = z.infer<typeof replyCreateSchema>;
 export const threadResolveSchema = z
   .object({
     /** The newest comment the person resolving has seen: a reply after it means they have not read everything, and the thread stays open. */
-    seenCommentId: z.uuid({ error: 'seenCommentId must be the id of a comment.' }).optional(),
+    seenCommentId: z.uuid({ error: 'The comment you last read is not recognised: reload the thread and try again.' }).optional(),
   })
   .meta({ id: 'ThreadResolve', description: 'Send the id of the newest comment you have read: a reply that came after it keeps the thread open (409).' });
 export type ThreadResolveInput = z.infer<typeof threadResolveSchema>;
