@@ -45,7 +45,7 @@ export type SeedResult = { created: true } | { created: false; added: string[] }
 type Trx = Transaction<Database>;
 
 /** One demo study, owned by `owner`, with the members `ids` knows; its first revision holds the design and its checks. */
-async function insertDemoStudy(trx: Trx, workspaceId: string, owner: string, s: DemoStudy, ids: Map<string, string>) {
+export async function insertDemoStudy(trx: Trx, workspaceId: string, owner: string, s: DemoStudy, ids: Map<string, string>) {
   const study = await insertStudy(trx, { workspaceId, title: s.title, description: s.description, createdBy: owner });
   for (const [email, role] of Object.entries(s.members)) {
     const id = ids.get(email);

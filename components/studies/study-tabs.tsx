@@ -24,8 +24,9 @@ export function StudyTabs({ studyId, openThreads = 0 }: { studyId: string; openT
                 className={`block border-b-2 px-3 py-2 text-sm font-semibold ${current ? 'border-brand text-brand-dark' : 'border-transparent text-muted hover:text-ink'}`}
               >
                 {t.label}
+                {t.slug === 'review' && openThreads > 0 && ' '}
                 {t.slug === 'review' && openThreads > 0 && (
-                  <span className="ml-1.5 rounded-full bg-brand px-1.5 py-0.5 text-xs text-white" data-testid="open-threads">
+                  <span className="rounded-full bg-brand px-1.5 py-0.5 text-xs text-white" data-testid="open-threads">
                     {openThreads}
                     <span className="sr-only"> open {openThreads === 1 ? 'thread' : 'threads'}</span>
                   </span>
