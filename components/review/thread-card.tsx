@@ -7,6 +7,8 @@ import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { apiFetch, ApiError } from '@/lib/api/client';
 import type { ThreadDto } from '@/lib/api/review';
+import { canResolveThread, canStudy } from '@/lib/auth/permissions';
+import type { StudyRole } from '@/db/schema';
 import { formatDateTime } from '@/lib/format';
 import { CommentComposer } from './comment-composer';
 import { CommentText } from './comment-text';
@@ -20,10 +22,11 @@ const KIND_WORDS: Record<ThreadDto['anchor']['kind'], string> = {
   simulation: 'Stress test',
 };
 
+/** Who is looking: their id, their role, and whether the study takes changes (not archived). */
 export interface ThreadRights {
   me: string;
-  canComment: boolean;
-  canResolve: boolean;
+  role: StudyRole;
+  active: boolean;
 }
 
 /** One thread: what it is about, its comments, and replying, resolving and reopening. */
@@ -32,7 +35,8 @@ export function ThreadCard({ studyId, thread, rights, highlighted = false }: { s
   const [replying, setReplying] = useState(false);
   const [message, setMessage] = useState<{ tone: 'error' | 'success'; text: string } | null>(null);
   const [busy, setBusy] = useState(false);
-  const mayResolve = rights.canComment && (rights.canResolve || thread.createdById === rights.me);
+  const canComment = rights.active && canStudy(rights.role, 'comment.create');
+  const mayResolve = rights.active && canResolveThread(rights.role, thread.createdById === rights.me);
   const base = `/api/v1/studies/${studyId}/threads/${thread.id}`;
   const headingId = `thread-${thread.id}-heading`;
 
@@ -106,7 +110,7 @@ export function ThreadCard({ studyId, thread, rights, highlighted = false }: { s
           />
         ) : (
           <div className="flex flex-wrap gap-2">
-            {rights.canComment && (
+            {canComment && (
               <Button variant="secondary" onClick={() => setReplying(true)}>
                 Reply
               </Button>

@@ -65,6 +65,11 @@ export function canStudy(role: StudyRole | null | undefined, action: StudyAction
   return STUDY_MATRIX[action][ROLE_COLUMN[role]] ?? false;
 }
 
+/** Resolving or reopening a thread: `comment.resolve`, or a member who may comment and started the thread. */
+export function canResolveThread(role: StudyRole | null | undefined, isAuthor: boolean): boolean {
+  return canStudy(role, 'comment.resolve') || (isAuthor && canStudy(role, 'comment.create'));
+}
+
 export const WORKSPACE_ACTIONS = [
   'workspace.read',
   'study.create',

@@ -18,7 +18,7 @@ import {
 import { findSimulation } from '@/db/repositories/simulations';
 import type { Study } from '@/db/repositories/studies';
 import type { CommentDto, ThreadDto } from '@/lib/api/review';
-import { canStudy } from '@/lib/auth/permissions';
+import { canResolveThread } from '@/lib/auth/permissions';
 import type { Actor } from '@/lib/auth/session';
 import { db } from '@/lib/db';
 import { AppError, forbidden, notFound } from '@/lib/errors';
@@ -252,7 +252,7 @@ async function setStatus(actor: Actor | null, studyId: string, threadId: string,
     const { actor: a, study, role } = await requireStudy(actor, studyId, 'comment.create', { trx, lock: 'share' });
     const thread = await lockThread(trx, studyId, threadId);
     if (!thread) throw notFound('The thread');
-    if (!canStudy(role, 'comment.resolve') && thread.createdBy !== a.id) throw forbidden('resolve or reopen threads started by others');
+    if (!canResolveThread(role, thread.createdBy === a.id)) throw forbidden('resolve or reopen threads started by others');
     if (thread.status !== to) {
       if (to === 'resolved' && seenCommentId) {
         const newest = await latestCommentId(trx, threadId);

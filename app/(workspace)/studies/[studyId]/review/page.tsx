@@ -21,7 +21,7 @@ export default async function ReviewPage({ params }: { params: Promise<{ studyId
     <Suspense fallback={<PageSkeleton />}>
       <ReviewBoard
         studyId={studyId}
-        rights={{ me: actor!.id, canComment: may('comment.create'), canResolve: may('comment.resolve') }}
+        rights={{ me: actor!.id, role: study.role, active }}
         canDecide={may('suggestion.decide')}
         suggestable={may('suggestion.create') ? suggestableFields(state.design) : null}
       />
