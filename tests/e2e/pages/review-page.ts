@@ -42,7 +42,7 @@ export class ReviewPage {
       if (typeof p === 'string') await box.pressSequentially(p);
       else {
         await box.pressSequentially(`@${p.mention.slice(0, 3)}`);
-        const option = box.page().getByRole('option', { name: p.mention });
+        const option = box.page().getByRole('listbox', { name: 'Members to mention' }).getByRole('option', { name: p.mention });
         await expect(option).toBeVisible();
         await box.press('Enter');
       }
