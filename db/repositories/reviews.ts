@@ -184,22 +184,6 @@ export async function listThreads(db: Db, f: ThreadFilter): Promise<ReviewThread
   }));
 }
 
-/** Per anchor, how many threads are open and how many there are in all (the markers). */
-export async function countThreadsByAnchor(db: Db, studyId: string): Promise<{ anchorKey: string; anchorKind: ThreadAnchorKind; open: number; total: number }[]> {
-  const rows = await db
-    .selectFrom('review_threads')
-    .select((eb) => [
-      'anchor_key',
-      'anchor_kind',
-      eb.fn.countAll<string>().as('total'),
-      eb.fn.count<string>('id').filterWhere('status', '=', 'open').as('open'),
-    ])
-    .where('study_id', '=', studyId)
-    .groupBy(['anchor_key', 'anchor_kind'])
-    .execute();
-  return rows.map((r) => ({ anchorKey: r.anchor_key, anchorKind: r.anchor_kind, open: Number(r.open), total: Number(r.total) }));
-}
-
 export async function countOpenThreads(db: Db, studyId: string): Promise<number> {
   const r = await db
     .selectFrom('review_threads')

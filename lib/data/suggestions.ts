@@ -36,10 +36,6 @@ function asValue(v: unknown): FieldValue {
   return typeof v === 'string' || typeof v === 'number' || typeof v === 'boolean' ? v : null;
 }
 
-function words(design: Design, path: string, v: unknown): string {
-  return formatFieldValue(design, path, v);
-}
-
 function hasField(design: Design, path: string): boolean {
   return listFields(design).some((f) => f.path === path);
 }
@@ -53,10 +49,10 @@ function suggestionDto(s: ReviewSuggestion, ctx: ReviewContext): SuggestionDto {
     label: s.label,
     oldValue: asValue(s.oldValue),
     newValue: asValue(s.newValue),
-    oldText: words(ctx.design, s.path, s.oldValue),
-    newText: words(ctx.design, s.path, s.newValue),
+    oldText: formatFieldValue(ctx.design, s.path, s.oldValue),
+    newText: formatFieldValue(ctx.design, s.path, s.newValue),
     currentValue: current,
-    currentText: present ? words(ctx.design, s.path, current) : null,
+    currentText: present ? formatFieldValue(ctx.design, s.path, current) : null,
     changedSince: s.status === 'pending' && (!present || !isDeepStrictEqual(current, asValue(s.oldValue))),
     reason: s.reason,
     revision: s.revision,
@@ -119,7 +115,7 @@ export async function createSuggestion(actor: Actor | null, studyId: string, inp
       revision: ctx.revision,
       createdBy: a.id,
     });
-    const change = `${field.label}: ${words(ctx.design, input.path, old)} → ${words(ctx.design, input.path, input.value)}`;
+    const change = `${field.label}: ${formatFieldValue(ctx.design, input.path, old)} → ${formatFieldValue(ctx.design, input.path, input.value)}`;
     await logActivity(trx, {
       workspaceId: study.workspaceId,
       studyId,

@@ -4,7 +4,6 @@ import type { Database } from '@/db/schema';
 import { logActivity } from '@/db/repositories/activity';
 import {
   countOpenThreads as countOpenRows,
-  countThreadsByAnchor,
   insertComment,
   insertThread,
   latestCommentId,
@@ -125,11 +124,6 @@ async function readThread(trx: Parameters<typeof listThreadRows>[0], study: Stud
 export async function countOpenThreads(actor: Actor | null, studyId: string): Promise<number> {
   await requireStudy(actor, studyId, 'study.read');
   return countOpenRows(db(), studyId);
-}
-
-export async function threadMarkers(actor: Actor | null, studyId: string) {
-  await requireStudy(actor, studyId, 'study.read');
-  return countThreadsByAnchor(db(), studyId);
 }
 
 /** The anchor's name, fingerprint and revision now; refuses an anchor the study does not have. */
