@@ -21,6 +21,8 @@ export function ReviewNav({ studyId }: { studyId: string }) {
             <li key={l.href}>
               <Link
                 href={l.href}
+                // Not prefetched: the other sections may not be built yet, and a prefetched missing page keeps its request open.
+                prefetch={false}
                 aria-current={current ? 'page' : undefined}
                 className={`block rounded-full border px-3 py-1 text-sm font-semibold ${current ? 'border-brand bg-brand-light text-brand-dark' : 'border-line bg-white text-ink hover:bg-slate-100'}`}
               >
