@@ -261,6 +261,63 @@ export interface IdempotencyKeyTable {
   created_at: Generated<Date>;
 }
 
+export const THREAD_ANCHOR_KINDS = ['section', 'field', 'finding', 'plan', 'simulation'] as const;
+export type ThreadAnchorKind = (typeof THREAD_ANCHOR_KINDS)[number];
+export const THREAD_STATUSES = ['open', 'resolved'] as const;
+export type ThreadStatus = (typeof THREAD_STATUSES)[number];
+export const SUGGESTION_STATUSES = ['pending', 'accepted', 'declined'] as const;
+export type SuggestionStatus = (typeof SUGGESTION_STATUSES)[number];
+
+/** A review thread, anchored to one part of a study (issue 12). */
+export interface ReviewThreadTable {
+  id: Generated<string>;
+  study_id: string;
+  anchor_kind: ThreadAnchorKind;
+  /** The anchor in one string (`field:outcome.name`, `finding:<rule>:<key>`, `plan:<id>`, …). */
+  anchor_key: string;
+  anchor: Json<Record<string, unknown>>;
+  anchor_label: string;
+  /** A fingerprint of the anchored content when the thread started; null for results. */
+  anchor_fingerprint: string | null;
+  revision_number: number;
+  status: Generated<ThreadStatus>;
+  created_by: string | null;
+  created_at: Generated<Date>;
+  resolved_by: string | null;
+  resolved_at: NullableTimestamp;
+  last_activity_at: Generated<Date>;
+}
+
+export interface ReviewCommentTable {
+  id: Generated<string>;
+  thread_id: string;
+  /** bigserial: returned by pg as a string; orders the comments of a thread. */
+  seq: Generated<string>;
+  author_id: string | null;
+  body: string;
+  mentions: ColumnType<string[], string[] | undefined, string[]>;
+  created_at: Generated<Date>;
+}
+
+/** A proposed change to one field of the design, decided once. */
+export interface ReviewSuggestionTable {
+  id: Generated<string>;
+  study_id: string;
+  field_path: string;
+  field_label: string;
+  old_value: Json<unknown>;
+  new_value: Json<unknown>;
+  reason: string;
+  revision_number: number;
+  status: Generated<SuggestionStatus>;
+  created_by: string | null;
+  created_at: Generated<Date>;
+  decided_by: string | null;
+  decided_at: NullableTimestamp;
+  decision_reason: string | null;
+  accepted_revision: number | null;
+}
+
 export interface Database {
   User: UserTable;
   Account: AccountTable;
@@ -282,6 +339,9 @@ export interface Database {
   simulations: SimulationTable;
   simulation_chunks: SimulationChunkTable;
   idempotency_keys: IdempotencyKeyTable;
+  review_threads: ReviewThreadTable;
+  review_comments: ReviewCommentTable;
+  review_suggestions: ReviewSuggestionTable;
 }
 
 export type UserRow = Selectable<UserTable>;

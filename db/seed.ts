@@ -5,7 +5,8 @@
  *   in the demo workspace, owned by the demo admin, with those of their demo members who are
  *   still in the workspace. A demo study counts as there when the workspace's activity log
  *   records a study created under its demo title, so a demo study that was renamed or archived
- *   is not added again. Nothing happens when the demo admin's account or the demo workspace is
+ *   is not added again. A demo study's review in progress (db/demo/review.ts) is added the same way
+ *   to a study seeded before it, while that study has no review activity. Nothing happens when the demo admin's account or the demo workspace is
  *   gone (a database of the end-to-end tests, or one where the team removed the demo).
  * Demo accounts share DEMO_PASSWORD, which `npm start` generates into .env.local on first start.
  * Reads DATABASE_URL.
@@ -18,6 +19,7 @@ import { createDb } from './client';
 import type { Database } from './schema';
 import { logActivity } from './repositories/activity';
 import { insertRevision, insertStudy, upsertStudyMember } from './repositories/studies';
+import { insertDemoReview } from './seed-review';
 import { findUserByEmail, insertUser, setPasswordHash } from './repositories/users';
 import { findMembership, insertWorkspace, lockWorkspace, upsertWorkspaceMember } from './repositories/workspaces';
 import { DEMO_ADMINS, DEMO_STUDIES, DEMO_WORKSPACE, type DemoStudy } from './demo/studies';
@@ -43,7 +45,7 @@ export type SeedResult = { created: true } | { created: false; added: string[] }
 type Trx = Transaction<Database>;
 
 /** One demo study, owned by `owner`, with the members `ids` knows; its first revision holds the design and its checks. */
-async function insertDemoStudy(trx: Trx, workspaceId: string, owner: string, s: DemoStudy, ids: Map<string, string>) {
+export async function insertDemoStudy(trx: Trx, workspaceId: string, owner: string, s: DemoStudy, ids: Map<string, string>) {
   const study = await insertStudy(trx, { workspaceId, title: s.title, description: s.description, createdBy: owner });
   for (const [email, role] of Object.entries(s.members)) {
     const id = ids.get(email);
@@ -52,6 +54,7 @@ async function insertDemoStudy(trx: Trx, workspaceId: string, owner: string, s: 
   const design = designSchema.parse(s.design);
   await insertRevision(trx, { studyId: study.id, number: 1, design, checks: runChecks(design), authorId: owner, note: 'Study created' });
   await logActivity(trx, { workspaceId, studyId: study.id, actorId: owner, action: 'study.created', details: { title: s.title } });
+  if (s.review) await insertDemoReview(trx, { id: study.id, workspaceId, revision: 1 }, design, s.review, ids);
 }
 
 export async function seedDemo(db: Kysely<Database>, password: string, studies: DemoStudy[] = DEMO_STUDIES): Promise<SeedResult> {
@@ -90,11 +93,12 @@ async function addMissingDemoStudies(db: Kysely<Database>, studies: DemoStudy[])
     if ((await findMembership(trx, ws.id, admin.id)) === undefined) return [];
     const seeded = await trx
       .selectFrom('activity_log')
-      .select(sql<string>`details->>'title'`.as('title'))
+      .select([sql<string>`details->>'title'`.as('title'), 'study_id'])
       .where('workspace_id', '=', ws.id)
       .where('action', '=', 'study.created')
       .execute();
     const had = new Set(seeded.map((r) => r.title));
+    await addMissingDemoReviews(trx, ws.id, studies, seeded);
     const missing = studies.filter((s) => !had.has(s.title));
     if (missing.length === 0) return [];
     const ids = new Map<string, string>();
@@ -105,6 +109,36 @@ async function addMissingDemoStudies(db: Kysely<Database>, studies: DemoStudy[])
     for (const s of missing) await insertDemoStudy(trx, ws.id, admin.id, s, ids);
     return missing.map((s) => s.title);
   });
+}
+
+/**
+ * A demo review added to a demo study of a database seeded before it: once, while the study has
+ * no review activity at all (so neither twice, nor over a review the team started themselves).
+ */
+async function addMissingDemoReviews(trx: Trx, workspaceId: string, studies: DemoStudy[], seeded: { title: string; study_id: string | null }[]) {
+  for (const s of studies) {
+    const studyId = s.review && seeded.find((r) => r.title === s.title)?.study_id;
+    if (!s.review || !studyId) continue;
+    const reviewed = await trx
+      .selectFrom('activity_log')
+      .select('id')
+      .where('study_id', '=', studyId)
+      .where((eb) => eb.or([eb('action', 'like', 'comment.%'), eb('action', 'like', 'suggestion.%')]))
+      .executeTakeFirst();
+    const study = await trx.selectFrom('studies').select(['current_revision', 'status']).where('id', '=', studyId).executeTakeFirst();
+    if (reviewed || !study || study.status === 'archived') continue;
+    const rev = await trx.selectFrom('study_revisions').select('design').where('study_id', '=', studyId).where('number', '=', study.current_revision).executeTakeFirst();
+    const design = designSchema.safeParse(rev?.design ?? {});
+    if (!design.success) continue;
+    const ids = new Map<string, string>();
+    for (const email of Object.keys(s.members)) {
+      const u = await findUserByEmail(trx, email);
+      const member = u && (await trx.selectFrom('study_members').select('role').where('study_id', '=', studyId).where('user_id', '=', u.id).executeTakeFirst());
+      if (u && member) ids.set(email, u.id);
+    }
+    await insertDemoReview(trx, { id: studyId, workspaceId, revision: study.current_revision }, design.data, s.review, ids);
+    log.info(`added the demo review to ${s.title}`);
+  }
 }
 
 async function main() {

@@ -15,7 +15,7 @@ export const STUDY_TABS: StudyTab[] = [
   { slug: 'plan', label: 'Plan', built: true, summary: 'Sample size, power or smallest detectable effect for this design, accounting for clustering, repeated measures, attrition and several outcomes, with sensitivity plots.' },
   { slug: 'stress-test', label: 'Stress test', built: true, summary: 'Simulations of power, false-positive rate and confidence-interval coverage of several analyses when the data break each assumption.' },
   { slug: 'pilot-data', label: 'Pilot data', built: false, summary: 'Upload pilot data as CSV to estimate variance components and ICCs, and apply them to the design.' },
-  { slug: 'review', label: 'Review', built: false, summary: 'Comments from the methods consultant, sign-off of a version, version history and comparison, and e-mail notifications.' },
+  { slug: 'review', label: 'Review', built: true, summary: 'Comment threads on any part of the design, its findings and results, suggested changes, sign-off of a version, version history and comparison, and e-mail notifications.' },
   { slug: 'justification', label: 'Justification', built: false, summary: 'The sample-size justification for a grant or protocol, exported as DOCX, PDF and Markdown, with figures, references and a reproducibility appendix.' },
 ];
 

@@ -10,6 +10,7 @@ import type { DesignSaved } from '@/lib/api/dto';
 import { stepStates } from '@/lib/design/progress';
 import { DESIGN_STEPS, type Design, type DesignPart } from '@/lib/design/schema';
 import { runChecks } from '@/lib/rules/registry';
+import { StepThreadCount } from '@/components/review/step-review';
 import { DesignDiagram } from './design-diagram';
 import { DiagramExport } from './diagram-export';
 import { AnalysisStep } from './steps/analysis-step';
@@ -151,6 +152,7 @@ export function DesignWizard({
               >
                 <span>
                   {i + 1}. {s.label}
+                  <StepThreadCount studyId={studyId} part={s.part} />
                 </span>
                 <span className="text-xs text-muted">
                   {states[s.part] === 'complete' ? (

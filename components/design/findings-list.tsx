@@ -7,6 +7,7 @@ import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
 import { Button } from '@/components/ui/button';
 import { TextAreaField } from '@/components/ui/field';
+import { ThreadMarker } from '@/components/review/thread-marker';
 import { apiFetch } from '@/lib/api/client';
 import type { FindingNoteDto } from '@/lib/api/dto';
 import type { Finding } from '@/lib/rules/types';
@@ -51,7 +52,7 @@ export function FindingsList({ studyId, findings, canAddress }: { studyId: strin
         const h = history(f);
         const addressed = h[0]?.status === 'addressed';
         return (
-          <li key={id}>
+          <li key={id} id={`finding-${f.ruleId}-${f.key}`}>
             <article aria-labelledby={`f-${id}`} className={`rounded-lg border-l-4 ${SEVERITY[f.severity].border} border-y border-r border-y-line border-r-line bg-white p-4`}>
               <div className="flex flex-wrap items-center gap-2">
                 <Badge tone={f.severity === 'blocker' ? 'caution' : 'neutral'}>{SEVERITY[f.severity].label}</Badge>
@@ -59,6 +60,9 @@ export function FindingsList({ studyId, findings, canAddress }: { studyId: strin
                 <h3 id={`f-${id}`} className="font-bold">
                   {f.title}
                 </h3>
+              </div>
+              <div className="mt-1">
+                <ThreadMarker studyId={studyId} anchor={{ kind: 'finding', ruleId: f.ruleId, key: f.key }} label={`the finding “${f.title}”`} />
               </div>
               <dl className="mt-2 space-y-2 text-sm">
                 <div>

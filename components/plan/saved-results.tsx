@@ -6,6 +6,7 @@ import { formatValue, labelOf } from '@/components/calculations/format';
 import { kindInfo } from '@/components/calculations/kinds';
 import { apiFetch } from '@/lib/api/client';
 import type { PlanResultDto } from '@/lib/api/dto';
+import { ThreadMarker } from '@/components/review/thread-marker';
 import type { CalculationOutput } from '@/lib/stats/calculations/types';
 
 export const savedResultsKey = (studyId: string) => ['plan-results', studyId] as const;
@@ -51,14 +52,17 @@ export function SavedResults({ studyId, initial, currentRevision }: { studyId: s
               <th scope="col" className="py-1 pr-3">
                 Saved by
               </th>
-              <th scope="col" className="py-1">
+              <th scope="col" className="py-1 pr-3">
                 When (UTC)
+              </th>
+              <th scope="col" className="py-1">
+                Comments
               </th>
             </tr>
           </thead>
           <tbody>
             {items.map((r) => (
-              <tr key={r.id} className="border-b border-line/60 align-top">
+              <tr key={r.id} id={`plan-result-${r.id}`} className="border-b border-line/60 align-top">
                 <td className="py-1 pr-3 tabular-nums">
                   {r.revision}
                   {r.revision !== currentRevision && <span className="block text-xs text-muted">older design</span>}
@@ -69,7 +73,10 @@ export function SavedResults({ studyId, initial, currentRevision }: { studyId: s
                   {r.note && <span className="block text-xs text-muted">{r.note}</span>}
                 </td>
                 <td className="py-1 pr-3">{r.createdByName ?? 'A former member'}</td>
-                <td className="py-1 tabular-nums">{formatDateTime(r.createdAt)}</td>
+                <td className="py-1 pr-3 tabular-nums">{formatDateTime(r.createdAt)}</td>
+                <td className="py-1">
+                  <ThreadMarker studyId={studyId} anchor={{ kind: 'plan', planResultId: r.id }} label={`the result saved ${formatDateTime(r.createdAt)}`} />
+                </td>
               </tr>
             ))}
           </tbody>

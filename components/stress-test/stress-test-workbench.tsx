@@ -190,7 +190,7 @@ export function StressTestWorkbench({ studyId, revision, base, analyses, canRun,
         />
       )}
 
-      <PastRuns runs={list.data ?? runs} shownId={run?.id ?? null} hrefFor={(id) => hrefWith({ run: id, sweep: null })} />
+      <PastRuns studyId={studyId} runs={list.data ?? runs} shownId={run?.id ?? null} hrefFor={(id) => hrefWith({ run: id, sweep: null })} />
     </div>
   );
 }

@@ -5,6 +5,7 @@
 import type { DesignInput } from '@/lib/design/schema';
 import type { StudyRole } from '../schema';
 import { CLASSROOM_DESIGN, FALLS_DESIGN, GREENHOUSE_DESIGN, SLEEP_DESIGN } from './designs';
+import { CLASSROOM_REVIEW, type DemoReview } from './review';
 
 export const DEMO_WORKSPACE = 'Harrow Vale Institute';
 
@@ -13,6 +14,8 @@ export interface DemoStudy {
   description: string;
   members: Record<string, StudyRole>;
   design: DesignInput;
+  /** Threads and suggestions of a review in progress (db/demo/review.ts). */
+  review?: DemoReview;
 }
 
 const PRIYA = 'priya.nair@harrowvale.example';
@@ -30,6 +33,7 @@ export const DEMO_STUDIES: DemoStudy[] = [
       'Primary-school classrooms are randomised to a reading-support programme or usual teaching; reading scores are measured on each pupil at the end of the school year. The classroom is the unit of randomisation, the pupil the unit of measurement.',
     members: { [PRIYA]: 'owner', [TOM]: 'editor', [LENA]: 'consultant', [SAM]: 'writer' },
     design: CLASSROOM_DESIGN,
+    review: CLASSROOM_REVIEW,
   },
   {
     title: 'Greenhouse trial of two growing substrates',

@@ -43,11 +43,24 @@ import {
   workspaceMemberDtoSchema,
 } from './dto';
 import { simulationDtoSchema } from './simulations';
+import { suggestionDtoSchema, threadDtoSchema } from './review';
+import {
+  replyCreateSchema,
+  suggestionAcceptSchema,
+  suggestionCreateSchema,
+  suggestionDeclineSchema,
+  suggestionListQuerySchema,
+  threadCreateSchema,
+  threadListQuerySchema,
+  threadResolveSchema,
+} from '@/lib/validation/review';
 import { simulationRunSchema, simulationSpecQuerySchema } from '@/lib/validation/simulation-run';
 import {
   invitationParamsSchema,
   simulationParamsSchema,
   studyMemberParamsSchema,
+  suggestionParamsSchema,
+  threadParamsSchema,
   studyParamsSchema as studyParams,
   workspaceMemberParamsSchema,
   workspaceParamsSchema as workspaceParams,
@@ -368,6 +381,78 @@ export const API_ROUTES: RouteConfig[] = [
       400: err('Invalid query'),
       ...standardErrors,
     },
+  },
+  // Review: threads of comments and suggestions (issue 12).
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/threads',
+    summary: 'Review threads of a study with their comments, most recently active first; filter by anchor kind, anchor, author and state',
+    request: { params: studyParams, query: threadListQuerySchema },
+    responses: { 200: json(list(threadDtoSchema), 'Threads, at most 500'), ...standardErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/threads',
+    summary: 'Start a thread on a step or field of the design, a finding, a saved Plan result or a stress test (owner, editor, consultant, writer)',
+    request: { params: studyParams, body: { content: { 'application/json': { schema: threadCreateSchema } } } },
+    responses: { 201: json(threadDtoSchema, 'The thread with its first comment'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/threads/{threadId}',
+    summary: 'One thread with its comments',
+    request: { params: threadParamsSchema },
+    responses: { 200: json(threadDtoSchema, 'The thread'), ...standardErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/threads/{threadId}/replies',
+    summary: 'Reply in a thread (owner, editor, consultant, writer); a reply to a resolved thread reopens it',
+    request: { params: threadParamsSchema, body: { content: { 'application/json': { schema: replyCreateSchema } } } },
+    responses: { 201: json(threadDtoSchema, 'The thread with the reply'), ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/threads/{threadId}/resolve',
+    summary: 'Resolve a thread (owner, editor, consultant, or the thread’s author)',
+    request: { params: threadParamsSchema, body: { content: { 'application/json': { schema: threadResolveSchema } } } },
+    responses: { 200: json(threadDtoSchema, 'The thread, resolved'), ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/threads/{threadId}/reopen',
+    summary: 'Reopen a resolved thread (owner, editor, consultant, or the thread’s author)',
+    request: { params: threadParamsSchema },
+    responses: { 200: json(threadDtoSchema, 'The thread, open'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/suggestions',
+    summary: 'Suggested changes to the design, newest first, each with the field’s current value and whether it changed since',
+    request: { params: studyParams, query: suggestionListQuerySchema },
+    responses: { 200: json(list(suggestionDtoSchema), 'Suggestions, at most 500'), ...standardErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/suggestions',
+    summary: 'Suggest a new value for one field of the design, with a reason (owner, editor, consultant)',
+    request: { params: studyParams, body: { content: { 'application/json': { schema: suggestionCreateSchema } } } },
+    responses: { 201: json(suggestionDtoSchema, 'The pending suggestion'), ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/suggestions/{suggestionId}/accept',
+    summary: 'Accept a suggestion: the design gets a new revision with the suggested value (owner, editor)',
+    description: 'When the field changed since the suggestion was made, send its current value in confirmedCurrentValue; otherwise the answer is 409 with both values.',
+    request: { params: suggestionParamsSchema, body: { content: { 'application/json': { schema: suggestionAcceptSchema } } } },
+    responses: { 200: json(suggestionDtoSchema, 'The accepted suggestion, with the revision it became'), ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/suggestions/{suggestionId}/decline',
+    summary: 'Decline a suggestion with a reason (owner, editor)',
+    request: { params: suggestionParamsSchema, body: { content: { 'application/json': { schema: suggestionDeclineSchema } } } },
+    responses: { 200: json(suggestionDtoSchema, 'The declined suggestion'), ...writeErrors },
   },
 ];
 

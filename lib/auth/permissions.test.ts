@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { STUDY_ROLES } from '@/db/schema';
-import { ASSIGNABLE_STUDY_ROLES, canStudy, canWorkspace, STUDY_ACTIONS, WORKSPACE_ACTIONS, type StudyAction } from './permissions';
+import { ASSIGNABLE_STUDY_ROLES, canResolveThread, canStudy, canWorkspace, STUDY_ACTIONS, WORKSPACE_ACTIONS, type StudyAction } from './permissions';
 
 /**
  * The roles as PRODUCT.md describes them ("Who uses it"), restated as expectations. The matrix
@@ -8,9 +8,9 @@ import { ASSIGNABLE_STUDY_ROLES, canStudy, canWorkspace, STUDY_ACTIONS, WORKSPAC
  * route enforces the matrix.
  */
 const EXPECTED: Record<(typeof STUDY_ROLES)[number], StudyAction[]> = {
-  owner: ['study.read', 'study.update', 'study.archive', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'justification.edit', 'justification.export', 'members.read', 'members.manage', 'activity.read'],
-  editor: ['study.read', 'study.update', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'justification.edit', 'justification.export', 'members.read', 'activity.read'],
-  consultant: ['study.read', 'finding.address', 'simulation.run', 'comment.create', 'study.signoff', 'justification.export', 'members.read', 'activity.read'],
+  owner: ['study.read', 'study.update', 'study.archive', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'comment.resolve', 'suggestion.create', 'suggestion.decide', 'justification.edit', 'justification.export', 'members.read', 'members.manage', 'activity.read'],
+  editor: ['study.read', 'study.update', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'comment.resolve', 'suggestion.create', 'suggestion.decide', 'justification.edit', 'justification.export', 'members.read', 'activity.read'],
+  consultant: ['study.read', 'finding.address', 'simulation.run', 'comment.create', 'comment.resolve', 'suggestion.create', 'study.signoff', 'justification.export', 'members.read', 'activity.read'],
   writer: ['study.read', 'comment.create', 'justification.edit', 'justification.export', 'members.read', 'activity.read'],
   viewer: ['study.read', 'justification.export', 'members.read', 'activity.read'],
 };
@@ -19,6 +19,17 @@ describe.each(STUDY_ROLES)('study role %s', (role) => {
   it.each(STUDY_ACTIONS)('%s', (action) => {
     expect(canStudy(role, action)).toBe(EXPECTED[role].includes(action));
   });
+});
+
+describe('resolving a thread', () => {
+  it.each([
+    ['owner', false, true],
+    ['editor', false, true],
+    ['consultant', false, true],
+    ['writer', false, false],
+    ['writer', true, true],
+    ['viewer', true, false],
+  ] as const)('%s, author of the thread: %s → %s', (role, isAuthor, allowed) => expect(canResolveThread(role, isAuthor)).toBe(allowed));
 });
 
 describe('workspace roles', () => {

@@ -4,8 +4,9 @@
  * `can…` before every read and write, and the integration tests walk this table.
  *
  * Study roles (PRODUCT.md): owner drafts and runs everything and manages members; editor edits the
- * design and runs calculations; consultant reads everything, comments and signs off; writer reads,
- * edits the justification narrative and exports it; viewer reads.
+ * design and runs calculations; consultant reads everything, comments, suggests changes and signs
+ * off, but never edits the design itself; writer reads, comments, edits the justification narrative
+ * and exports it; viewer reads.
  */
 import type { StudyRole, WorkspaceRole } from '@/db/schema';
 
@@ -18,6 +19,9 @@ export const STUDY_ACTIONS = [
   'calculation.save',
   'simulation.run',
   'comment.create',
+  'comment.resolve',
+  'suggestion.create',
+  'suggestion.decide',
   'study.signoff',
   'justification.edit',
   'justification.export',
@@ -41,6 +45,11 @@ const STUDY_MATRIX: Record<StudyAction, [boolean, boolean, boolean, boolean, boo
   'calculation.save':     [Y,    Y,     N,      N,     N],
   'simulation.run':       [Y,    Y,     Y,      N,     N],
   'comment.create':       [Y,    Y,     Y,      Y,     N],
+  // Resolving or reopening any thread; the author of a thread may always resolve and reopen it.
+  'comment.resolve':      [Y,    Y,     Y,      N,     N],
+  // Proposing a change to one field; deciding it is editing the design, so only owner and editor.
+  'suggestion.create':    [Y,    Y,     Y,      N,     N],
+  'suggestion.decide':    [Y,    Y,     N,      N,     N],
   'study.signoff':        [N,    N,     Y,      N,     N],
   'justification.edit':   [Y,    Y,     N,      Y,     N],
   'justification.export': [Y,    Y,     Y,      Y,     Y],
@@ -54,6 +63,11 @@ const ROLE_COLUMN: Record<StudyRole, number> = { owner: 0, editor: 1, consultant
 export function canStudy(role: StudyRole | null | undefined, action: StudyAction): boolean {
   if (!role) return false;
   return STUDY_MATRIX[action][ROLE_COLUMN[role]] ?? false;
+}
+
+/** Resolving or reopening a thread: `comment.resolve`, or a member who may comment and started the thread. */
+export function canResolveThread(role: StudyRole | null | undefined, isAuthor: boolean): boolean {
+  return canStudy(role, 'comment.resolve') || (isAuthor && canStudy(role, 'comment.create'));
 }
 
 export const WORKSPACE_ACTIONS = [

@@ -44,6 +44,10 @@ const ACTION_WORDS: Partial<Record<StudyAction | WorkspaceAction, string>> = {
   'design.edit': 'edit the design',
   'calculation.save': 'save sample-size results',
   'simulation.run': 'run stress tests',
+  'comment.create': 'comment on this study',
+  'comment.resolve': 'resolve or reopen threads started by others',
+  'suggestion.create': 'suggest changes to the design',
+  'suggestion.decide': 'accept or decline suggestions',
 };
 
 export async function requireStudy(

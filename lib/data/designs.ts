@@ -9,6 +9,7 @@ import { db } from '@/lib/db';
 import { AppError } from '@/lib/errors';
 import type { DesignSaveInput, FindingNoteInput } from '@/lib/validation/design';
 import { requireStudy } from './access';
+import { recordDecision } from './suggestion-decisions';
 import { transaction } from './transaction';
 
 /**
@@ -44,10 +45,15 @@ function changedParts(a: Design, b: Design): DesignPart[] {
 
 const PART_LABEL = Object.fromEntries(DESIGN_STEPS.map((s) => [s.part, s.label])) as Record<DesignPart, string>;
 
+/**
+ * `options.suggestionId`: the save carries out that suggestion (lib/data/suggestions.ts), which is
+ * marked accepted in the same transaction; `coAuthorId` is its author.
+ */
 export async function saveDesign(
   actor: Actor | null,
   studyId: string,
   input: DesignSaveInput,
+  options: { coAuthorId?: string; suggestionId?: string; now?: Date } = {},
 ): Promise<DesignSaved> {
   return transaction(async (trx) => {
     const { actor: a, study } = await requireStudy(actor, studyId, 'design.edit', { trx, lock: 'update' });
@@ -91,7 +97,14 @@ export async function saveDesign(
     if (number === undefined) {
       throw new AppError('conflict', 'Someone saved the design at the same moment. Your edit is kept in this browser: reload, then apply it again.');
     }
-    await logActivity(trx, { workspaceId: study.workspaceId, studyId, actorId: a.id, action: 'design.saved', details: { revision: number, merged } });
+    await logActivity(trx, {
+      workspaceId: study.workspaceId,
+      studyId,
+      actorId: a.id,
+      action: 'design.saved',
+      details: { revision: number, merged, ...(options.suggestionId ? { suggestionId: options.suggestionId, coAuthorId: options.coAuthorId ?? null } : {}) },
+    });
+    if (options.suggestionId) await recordDecision(trx, a, study, options.suggestionId, { status: 'accepted', revision: number });
     return { revision: number, design, savedAt: new Date().toISOString(), savedBy: a.name ?? a.email, readable: true, merged };
   });
 }

@@ -13,3 +13,5 @@ export const workspaceParamsSchema = z.object({ workspaceId: pathId('The workspa
 export const workspaceMemberParamsSchema = workspaceParamsSchema.extend({ userId: pathId('That member') });
 export const invitationParamsSchema = z.object({ invitationId: pathId('The invitation') });
 export const simulationParamsSchema = z.object({ simulationId: pathId('The stress test') });
+export const threadParamsSchema = studyParamsSchema.extend({ threadId: pathId('The thread') });
+export const suggestionParamsSchema = studyParamsSchema.extend({ suggestionId: pathId('The suggestion') });

@@ -35,6 +35,16 @@ import * as studySimulations from '@/app/api/v1/studies/[studyId]/simulations/ro
 import * as simulationSpec from '@/app/api/v1/studies/[studyId]/simulations/spec/route';
 import * as plans from '@/app/api/v1/studies/[studyId]/plans/route';
 import * as calculations from '@/app/api/v1/calculations/route';
+import * as threads from '@/app/api/v1/studies/[studyId]/threads/route';
+import * as thread from '@/app/api/v1/studies/[studyId]/threads/[threadId]/route';
+import * as threadReplies from '@/app/api/v1/studies/[studyId]/threads/[threadId]/replies/route';
+import * as threadResolve from '@/app/api/v1/studies/[studyId]/threads/[threadId]/resolve/route';
+import * as threadReopen from '@/app/api/v1/studies/[studyId]/threads/[threadId]/reopen/route';
+import * as suggestions from '@/app/api/v1/studies/[studyId]/suggestions/route';
+import * as suggestionAccept from '@/app/api/v1/studies/[studyId]/suggestions/[suggestionId]/accept/route';
+import * as suggestionDecline from '@/app/api/v1/studies/[studyId]/suggestions/[suggestionId]/decline/route';
+import { createThread, resolveThread } from '@/lib/data/threads';
+import { createSuggestion } from '@/lib/data/suggestions';
 
 type Handler = (req: Request, c: { params: Promise<Record<string, string>> }) => Promise<Response>;
 
@@ -59,6 +69,12 @@ interface RouteCase {
 interface Extra {
   invitationId: string;
   simulationId: string;
+  /** Open, started by the owner. */
+  threadId: string;
+  /** Resolved by the owner, who started it. */
+  resolvedThreadId: string;
+  /** Pending, made by the owner. */
+  suggestionId: string;
 }
 
 /** A stress test small enough to queue in every case below (no worker runs here). */
@@ -98,6 +114,16 @@ const ROUTES: RouteCase[] = [
   { name: 'cancel stress test', method: 'DELETE', handler: simulation.DELETE as Handler, path: () => '/api/v1/simulations/x', params: (_w, e) => ({ simulationId: e.simulationId }), rule: { kind: 'study', action: 'simulation.run' }, ok: 200 },
   { name: 'stress-test specification from the design', method: 'GET', handler: simulationSpec.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/simulations/spec`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
   { name: 'list stress tests of a study', method: 'GET', handler: studySimulations.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/simulations`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'list threads', method: 'GET', handler: threads.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/threads?state=open`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'start a thread', method: 'POST', handler: threads.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/threads`, params: (w) => ({ studyId: w.studyId }), body: () => ({ anchor: { kind: 'section', part: 'outcome' }, body: 'Which outcome is primary?' }), rule: { kind: 'study', action: 'comment.create' }, ok: 201 },
+  { name: 'read a thread', method: 'GET', handler: thread.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/threads/x`, params: (w, e) => ({ studyId: w.studyId, threadId: e.threadId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'reply in a thread', method: 'POST', handler: threadReplies.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/threads/x/replies`, params: (w, e) => ({ studyId: w.studyId, threadId: e.threadId }), body: () => ({ body: 'Agreed.' }), rule: { kind: 'study', action: 'comment.create' }, ok: 201 },
+  { name: 'resolve a thread started by another', method: 'POST', handler: threadResolve.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/threads/x/resolve`, params: (w, e) => ({ studyId: w.studyId, threadId: e.threadId }), body: () => ({}), rule: { kind: 'study', action: 'comment.resolve' }, ok: 200 },
+  { name: 'reopen a thread started by another', method: 'POST', handler: threadReopen.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/threads/x/reopen`, params: (w, e) => ({ studyId: w.studyId, threadId: e.resolvedThreadId }), rule: { kind: 'study', action: 'comment.resolve' }, ok: 200 },
+  { name: 'list suggestions', method: 'GET', handler: suggestions.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/suggestions`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'suggest a change', method: 'POST', handler: suggestions.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/suggestions`, params: (w) => ({ studyId: w.studyId }), body: () => ({ path: 'outcome.unit', value: 'points', reason: 'Name the unit of the score.' }), rule: { kind: 'study', action: 'suggestion.create' }, ok: 201 },
+  { name: 'accept a suggestion', method: 'POST', handler: suggestionAccept.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/suggestions/x/accept`, params: (w, e) => ({ studyId: w.studyId, suggestionId: e.suggestionId }), body: () => ({}), rule: { kind: 'study', action: 'suggestion.decide' }, ok: 200 },
+  { name: 'decline a suggestion', method: 'POST', handler: suggestionDecline.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/suggestions/x/decline`, params: (w, e) => ({ studyId: w.studyId, suggestionId: e.suggestionId }), body: () => ({ reason: 'Already settled.' }), rule: { kind: 'study', action: 'suggestion.decide' }, ok: 200 },
   { name: 'revoke invitation', method: 'DELETE', handler: invitation.DELETE as Handler, path: (_w) => '/api/v1/invitations/x', params: (_w, e) => ({ invitationId: e.invitationId }), rule: { kind: 'revoke' }, ok: 204 },
   { name: 'send invitation again', method: 'POST', handler: invitationResend.POST as Handler, path: (_w) => '/api/v1/invitations/x/resend', params: (_w, e) => ({ invitationId: e.invitationId }), rule: { kind: 'revoke' }, ok: 200 },
 ];
@@ -152,10 +178,15 @@ describe.each(ROUTES)('$method $name', (route) => {
       chunkSize: 10,
       chunkCount: 1,
     });
+    const owner = { id: w.byRole.owner.id, email: w.byRole.owner.email, name: null };
+    const { id: threadId } = await createThread(owner, w.studyId, { anchor: { kind: 'section', part: 'assumptions' }, body: 'Where does the ICC come from?' });
+    const { id: resolvedThreadId } = await createThread(owner, w.studyId, { anchor: { kind: 'section', part: 'analysis' }, body: 'Settled.' });
+    await resolveThread(owner, w.studyId, resolvedThreadId);
+    const { id: suggestionId } = await createSuggestion(owner, w.studyId, { path: 'outcome.name', value: 'Reading score', reason: 'Name the primary outcome.' });
     const user = who(w, principal);
     const res = await route.handler(
       request(route.method, route.path(w), { user, body: route.body?.(w) }),
-      ctx(route.params(w, { invitationId: inv.id, simulationId: sim.id })),
+      ctx(route.params(w, { invitationId: inv.id, simulationId: sim.id, threadId, resolvedThreadId, suggestionId })),
     );
     const want = expected(route, principal);
     const body = res.status === 204 ? null : await res.json();

@@ -8,6 +8,8 @@ import { DEMO_ADMINS, DEMO_STUDIES, DEMO_WORKSPACE } from '@/db/demo/studies';
 import { seedDemo } from '@/db/seed';
 import { db } from '@/lib/db';
 import { makeUser } from '../support/fixtures';
+import { listThreads } from '@/lib/data/threads';
+import { listSuggestions } from '@/lib/data/suggestions';
 
 const PASSWORD = 'demo-password-for-tests';
 const FALLS = 'Falls-prevention programme, randomised by care home';
@@ -84,5 +86,39 @@ describe('demo seed', () => {
     expect(await seedDemo(db(), PASSWORD)).toEqual({ created: false, added: [] });
     expect(await demoStudies()).toHaveLength(0);
     expect(DEMO_ADMINS).toHaveLength(1);
+  });
+
+  it('seeds a review in progress on the classroom study: an open thread on the unit-of-analysis finding, a resolved one, a pending suggestion from the consultant', async () => {
+    await seedDemo(db(), PASSWORD);
+    const classroom = (await demoStudies()).find((s) => s.title.startsWith('Reading-support'))!;
+    const priya = await db().selectFrom('User').select(['id', 'name', 'email']).where('email', '=', DEMO_ADMINS[0]!).executeTakeFirstOrThrow();
+    const lena = await db().selectFrom('User').select(['id', 'name', 'email']).where('email', '=', 'lena.vogel@harrowvale.example').executeTakeFirstOrThrow();
+    const asPriya = { id: priya.id, name: priya.name, email: priya.email };
+    const threads = await listThreads(asPriya, classroom.id);
+    expect(threads.map((t) => [t.anchorKey, t.status, t.changedSince])).toEqual(
+      expect.arrayContaining([
+        ['finding:unit-of-analysis:classroom', 'open', false],
+        ['field:assumptions.iccs[classroom].value', 'resolved', false],
+      ]),
+    );
+    expect(threads).toHaveLength(2);
+    const unit = threads.find((t) => t.status === 'open')!;
+    expect(unit.comments[0]!).toMatchObject({ authorId: lena.id, mentions: [{ id: priya.id, name: 'Priya Nair' }] });
+    expect(unit.comments[0]!.text).toMatch(/^@Priya Nair the programme is given to whole classrooms/);
+    const suggestions = await listSuggestions(asPriya, classroom.id);
+    expect(suggestions).toEqual([expect.objectContaining({ status: 'pending', createdById: lena.id, path: 'analysis.adjustsForBaseline', oldValue: false, newValue: true, changedSince: false })]);
+    const others = (await demoStudies()).filter((s) => s.id !== classroom.id).map((s) => s.id);
+    expect(await db().selectFrom('review_threads').select('id').where('study_id', 'in', others).execute()).toEqual([]);
+  });
+
+  it('adds the demo review to a classroom study seeded before it, once', async () => {
+    const withoutReview = DEMO_STUDIES.map(({ review: _review, ...s }) => s);
+    await seedDemo(db(), PASSWORD, withoutReview);
+    expect(await db().selectFrom('review_threads').select('id').execute()).toEqual([]);
+    await seedDemo(db(), PASSWORD);
+    expect(await db().selectFrom('review_threads').select('id').execute()).toHaveLength(2);
+    expect(await db().selectFrom('review_suggestions').select('id').execute()).toHaveLength(1);
+    await seedDemo(db(), PASSWORD);
+    expect(await db().selectFrom('review_threads').select('id').execute()).toHaveLength(2);
   });
 });

@@ -3,8 +3,11 @@ import type { ReactNode } from 'react';
 import { StudyTabs } from '@/components/studies/study-tabs';
 import { RememberWorkspace } from '@/components/workspace/remember-workspace';
 import { Badge } from '@/components/ui/badge';
+import { ReviewRights } from '@/components/review/review-rights';
+import { canStudy } from '@/lib/auth/permissions';
 import { currentActor } from '@/lib/auth/session';
 import { getStudy } from '@/lib/data/studies';
+import { countOpenThreads } from '@/lib/data/threads';
 import { getWorkspace } from '@/lib/data/workspaces';
 import { load } from '@/lib/page-guard';
 
@@ -12,7 +15,7 @@ export default async function StudyLayout({ children, params }: { children: Reac
   const { studyId } = await params;
   const actor = await currentActor();
   const study = await load(getStudy(actor, studyId), `/studies/${studyId}`);
-  const ws = await getWorkspace(actor, study.workspaceId);
+  const [ws, openThreads] = await Promise.all([getWorkspace(actor, study.workspaceId), countOpenThreads(actor, study.id)]);
   return (
     <div className="space-y-5">
       <RememberWorkspace id={ws.id} />
@@ -28,8 +31,10 @@ export default async function StudyLayout({ children, params }: { children: Reac
           {study.status === 'archived' && <Badge>Archived</Badge>}
         </div>
       </div>
-      <StudyTabs studyId={study.id} />
-      <div>{children}</div>
+      <StudyTabs studyId={study.id} openThreads={openThreads} />
+      <ReviewRights canComment={canStudy(study.role, 'comment.create') && study.status !== 'archived'}>
+        <div>{children}</div>
+      </ReviewRights>
     </div>
   );
 }

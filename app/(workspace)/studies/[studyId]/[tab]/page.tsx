@@ -7,10 +7,10 @@ export async function generateMetadata({ params }: { params: Promise<{ tab: stri
   return { title: tab?.label ?? 'Not found' };
 }
 
-/** Tabs whose capability is not built yet: an honest placeholder, with no numbers. */
+/** Tabs whose capability is not built yet: an honest placeholder, with no numbers. A built tab has its own folder. */
 export default async function StudyTabPage({ params }: { params: Promise<{ studyId: string; tab: string }> }) {
   const tab = findTab((await params).tab);
-  if (!tab) notFound();
+  if (!tab || tab.built) notFound();
   return (
     <section aria-labelledby="tab-heading" className="max-w-2xl rounded-lg border border-dashed border-line bg-white p-6">
       <h2 id="tab-heading" className="text-lg font-bold">

@@ -1,6 +1,9 @@
 import type { Metadata } from 'next';
 import { notFound } from 'next/navigation';
 import { DesignWizard } from '@/components/design/design-wizard';
+import { StepReview } from '@/components/review/step-review';
+import { fieldStep, listFields } from '@/lib/design/fields';
+import { suggestableFields } from '@/lib/review/suggestable';
 import { Alert } from '@/components/ui/alert';
 import { canStudy } from '@/lib/auth/permissions';
 import { currentActor } from '@/lib/auth/session';
@@ -34,6 +37,13 @@ export default async function DesignStepPage({ params }: { params: Promise<{ stu
         step={found.part}
         initial={state}
         canEdit={canStudy(study.role, 'design.edit') && study.status !== 'archived'}
+      />
+      <StepReview
+        studyId={studyId}
+        part={found.part}
+        stepLabel={found.label}
+        fields={listFields(state.design).filter((f) => f.step === found.part)}
+        suggestable={canStudy(study.role, 'suggestion.create') && study.status !== 'archived' ? suggestableFields(state.design).filter((f) => fieldStep(f.path) === found.part) : null}
       />
     </div>
   );
