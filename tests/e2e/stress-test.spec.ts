@@ -71,6 +71,8 @@ test('classroom design: a small stress test runs, shows progress, then results a
     await expect(cell).toContainText('Fails');
     await expect(cell).toContainText('Power not counted');
     await expect(page.getByTestId('verdict-headline')).toContainText('The planned analysis, least squares, fails in 1 of 1 scenario');
+    // The legend says what each verdict means, in whole sentences.
+    await expect(page.getByText(/Slightly off: above 5\.0% beyond the Monte Carlo error, but within that bound\./)).toBeVisible();
     // The Monte Carlo error on keyboard focus, as a tooltip the cell is described by.
     await cell.focus();
     const tip = page.getByRole('tooltip');
