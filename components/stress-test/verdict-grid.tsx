@@ -252,7 +252,7 @@ export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetP
           <tbody>
             {ordered.map((a) => (
               <tr key={a} data-testid={a === planned ? 'planned-row' : undefined}>
-                <th scope="row" className={`whitespace-nowrap px-1 align-top font-semibold ${a === planned ? 'text-brand-dark' : ''}`}>
+                <th scope="row" className={`min-w-[7rem] px-1 align-top font-semibold sm:whitespace-nowrap ${a === planned ? 'text-brand-dark' : ''}`}>
                   {analysisLabel(a)}
                   {a === planned && <span className="block text-xs font-normal text-muted">planned</span>}
                   {a === best && <span className="block text-xs font-normal text-muted">best alternative</span>}
