@@ -17,8 +17,16 @@ export function isPercentKey(key: string): boolean {
 
 export { formatNumber, formatPercent };
 
+/** Test settings kept as codes in a request, in the words the form offers them with. */
+const SETTING_WORDS: Record<string, Record<string, string>> = {
+  sides: { '1': 'one-sided', '2': 'two-sided' },
+  multiplicity: { none: 'none', bonferroni: 'Bonferroni', holm: 'Holm' },
+};
+
 export function formatValue(key: string, value: ResultValue | undefined): string {
   if (value === null || value === undefined) return '—';
+  const setting = SETTING_WORDS[key]?.[String(value)];
+  if (setting) return setting;
   if (typeof value === 'boolean') return value ? 'yes' : 'no';
   if (typeof value === 'string') return value;
   if (Array.isArray(value)) return value.map((v) => formatNumber(v)).join(', ');

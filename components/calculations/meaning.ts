@@ -6,6 +6,7 @@
 import type { CalculationOutput, ResultValue } from '@/lib/stats/calculations/types';
 import { calculationSchema, type CalculationKind } from '@/lib/stats/calculations/request';
 import { formatNumber, formatPercent, formatValue } from './format';
+import { nounFor } from '@/lib/format';
 
 const SCHEMA_KEYS = Object.fromEntries(calculationSchema.options.map((o) => [o.shape.kind.value, Object.keys(o.shape).filter((k) => k !== 'kind' && k !== 'solveFor')])) as Record<
   CalculationKind,
@@ -70,7 +71,7 @@ function sizePhrase(kind: CalculationKind, r: Record<string, ResultValue>): stri
     case 'cluster-proportions':
       return `${show(r.clustersPerArm)} clusters per arm of ${show(r.clusterSize)} members each`;
     case 'cluster-rates':
-      return `${show(r.clustersPerArm)} clusters per arm of ${show(r.clusterSize)} participants, each followed for ${show(r.exposure)} units of time`;
+      return `${show(r.clustersPerArm)} clusters per arm of ${show(r.clusterSize)} participants, each followed for ${show(r.exposure)} ${typeof r.exposure === 'number' ? nounFor(r.exposure, 'unit') : 'units'} of time`;
     default:
       return `${show(r.nPerGroup)} per group`;
   }

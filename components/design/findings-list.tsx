@@ -1,6 +1,6 @@
 'use client';
 
-import { formatDateTime, formatNumber, formatPercent } from '@/lib/format';
+import { formatDateTime } from '@/lib/format';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState } from 'react';
 import { Alert } from '@/components/ui/alert';
@@ -11,6 +11,7 @@ import { ThreadMarker } from '@/components/review/thread-marker';
 import { apiFetch } from '@/lib/api/client';
 import type { FindingNoteDto } from '@/lib/api/dto';
 import type { Finding } from '@/lib/rules/types';
+import { numberText, proseParts } from './finding-numbers';
 
 const SEVERITY: Record<Finding['severity'], { label: string; border: string }> = {
   blocker: { label: 'Blocker', border: 'border-danger' },
@@ -18,10 +19,17 @@ const SEVERITY: Record<Finding['severity'], { label: string; border: string }> =
   advice: { label: 'Advice', border: 'border-brand' },
 };
 
-function numberText(k: string, v: number): string {
-  const label = k.replace(/([A-Z])/g, ' $1').toLowerCase();
-  const value = /rate|error|power|coverage|share|fraction/i.test(k) && v <= 1 ? formatPercent(v) : formatNumber(v, 3);
-  return `${label}: ${value}`;
+/** A finding's sentence, with the models it quotes set as code. */
+function Prose({ text }: { text: string }) {
+  return proseParts(text).map((p, i) =>
+    p.code ? (
+      <code key={i} className="rounded bg-slate-100 px-1 py-0.5">
+        {p.text}
+      </code>
+    ) : (
+      p.text
+    ),
+  );
 }
 
 /** The findings of the rules module, each with its reasoning, and a history of "addressed" notes. */
@@ -67,15 +75,21 @@ export function FindingsList({ studyId, findings, canAddress }: { studyId: strin
               <dl className="mt-2 space-y-2 text-sm">
                 <div>
                   <dt className="font-semibold">What we found</dt>
-                  <dd>{f.found}</dd>
+                  <dd>
+                    <Prose text={f.found} />
+                  </dd>
                 </div>
                 <div>
                   <dt className="font-semibold">Why it matters</dt>
-                  <dd>{f.why}</dd>
+                  <dd>
+                    <Prose text={f.why} />
+                  </dd>
                 </div>
                 <div>
                   <dt className="font-semibold">What to do</dt>
-                  <dd>{f.todo}</dd>
+                  <dd>
+                    <Prose text={f.todo} />
+                  </dd>
                 </div>
                 {f.model && (
                   <div>

@@ -2,7 +2,7 @@
 
 import { analysisLabel } from '@/lib/sim/analysis-words';
 import { usePathname, useSearchParams } from 'next/navigation';
-import { useMemo } from 'react';
+import { useId, useMemo } from 'react';
 import { formatFailedFits, formatMetric, RESULT_COLUMNS, type MetricValue, type ResultColumn } from './words';
 import { formatCount } from '@/lib/format';
 
@@ -50,6 +50,7 @@ export function sortRows(rows: ResultRow[], sort: { key: SortKey; dir: 'asc' | '
 
 /** Scenario × analysis rows with every metric as "value ± MC SE"; the sort is kept in the URL (?sort=column.dir). */
 export function ResultsTable({ rows, replicates, alpha }: { rows: ResultRow[]; replicates: number; alpha: number }) {
+  const captionId = useId();
   const pathname = usePathname();
   const params = useSearchParams();
   const sort = parseSort(params.get('sort'));
@@ -76,35 +77,39 @@ export function ResultsTable({ rows, replicates, alpha }: { rows: ResultRow[]; r
   };
 
   return (
-    <div className="overflow-x-auto">
-      <table className="w-full min-w-[56rem] text-left text-sm" data-testid="results-table">
-        <caption className="mb-2 text-left text-sm text-muted">
-          Each value ± its Monte Carlo SE, from {formatCount(replicates)} replicates per scenario. Power at the planned effect; false-positive rate from a
-          paired run at zero effect; coverage of the {Math.round(100 * (1 - alpha))}% confidence interval; failed fits out of those asked for (each replicate is fitted with and without the effect). Select a column heading to sort.
-        </caption>
-        <thead>
-          <tr className="border-b border-line">
-            {header('scenario', 'Scenario', false)}
-            {header('analysis', 'Analysis', false)}
-            {RESULT_COLUMNS.map((c) => header(c.key, c.label, true))}
-          </tr>
-        </thead>
-        <tbody>
-          {sorted.map((r) => (
-            <tr key={`${r.scenario}/${r.analysis}`} className="border-b border-line/60 align-top">
-              <td className="py-1 pr-3">{r.scenarioLabel}</td>
-              <th scope="row" className="py-1 pr-3 font-semibold">
-                {analysisLabel(r.analysis)}
-              </th>
-              {RESULT_COLUMNS.map((c) => (
-                <td key={c.key} className="whitespace-nowrap py-1 pr-3 text-right tabular-nums">
-                  {c.key === 'nonConverged' ? formatFailedFits(r.metrics[c.key], replicates) : formatMetric(r.metrics[c.key], c.rate)}
-                </td>
-              ))}
+    <div>
+      {/* Read above the scrolling table, so a narrow screen wraps it instead of cutting it off. */}
+      <p id={captionId} className="mb-2 text-sm text-muted">
+        Each value ± its Monte Carlo SE, from {formatCount(replicates)} replicates per scenario. Power at the planned effect; false-positive rate from a
+        paired run at zero effect; coverage of the {Math.round(100 * (1 - alpha))}% confidence interval; failed fits out of those asked for (each replicate is fitted with and without the effect). Select a column heading to sort.
+      </p>
+      <div className="overflow-x-auto">
+        <table className="w-full min-w-[56rem] text-left text-sm" data-testid="results-table" aria-describedby={captionId}>
+          <caption className="sr-only">Every figure of this run, by scenario and analysis</caption>
+          <thead>
+            <tr className="border-b border-line">
+              {header('scenario', 'Scenario', false)}
+              {header('analysis', 'Analysis', false)}
+              {RESULT_COLUMNS.map((c) => header(c.key, c.label, true))}
             </tr>
-          ))}
-        </tbody>
-      </table>
+          </thead>
+          <tbody>
+            {sorted.map((r) => (
+              <tr key={`${r.scenario}/${r.analysis}`} className="border-b border-line/60 align-top">
+                <td className="min-w-[11rem] py-1 pr-3">{r.scenarioLabel}</td>
+                <th scope="row" className="py-1 pr-3 font-semibold">
+                  {analysisLabel(r.analysis)}
+                </th>
+                {RESULT_COLUMNS.map((c) => (
+                  <td key={c.key} className="whitespace-nowrap py-1 pr-3 text-right tabular-nums">
+                    {c.key === 'nonConverged' ? formatFailedFits(r.metrics[c.key], replicates) : formatMetric(r.metrics[c.key], c.rate)}
+                  </td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
     </div>
   );
 }

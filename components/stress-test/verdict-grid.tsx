@@ -215,8 +215,8 @@ export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetP
       <p className="max-w-3xl text-sm text-muted">
             Each cell judges one analysis under one scenario. <strong>Fails</strong>: the false-positive rate (or the share of intervals missing the true
             effect) is above {formatRate(alpha)} beyond its Monte Carlo interval (± 1.96 MC SE, {MORRIS_2019.short}) and above{' '}
-            {formatRate(LIBERAL_BOUND * alpha)}, the liberal bound of {LIBERAL_BOUND} × {formatRate(alpha)} ({BRADLEY_1978.short}). <strong>Slightly off</strong>: above
-            beyond the Monte Carlo error, within that bound. <strong>Too few runs to tell</strong>: the interval reaches {formatRate(alpha)} but also past{' '}
+            {formatRate(LIBERAL_BOUND * alpha)}, the liberal bound of {LIBERAL_BOUND} × {formatRate(alpha)} ({BRADLEY_1978.short}). <strong>Slightly off</strong>: above{' '}
+            {formatRate(alpha)} beyond the Monte Carlo error, but within that bound. <strong>Too few runs to tell</strong>: the interval reaches {formatRate(alpha)} but also past{' '}
             {formatRate(LIBERAL_BOUND * alpha)}, so the run cannot tell a rate that holds from one well off. Power is counted only where false positives hold;
             target {formatRate(targetPower)}. Hover over or focus a cell for its figures.
       </p>
@@ -252,7 +252,7 @@ export function VerdictGrid({ rows, scenarios, analyses, planned, alpha, targetP
           <tbody>
             {ordered.map((a) => (
               <tr key={a} data-testid={a === planned ? 'planned-row' : undefined}>
-                <th scope="row" className={`whitespace-nowrap px-1 align-top font-semibold ${a === planned ? 'text-brand-dark' : ''}`}>
+                <th scope="row" className={`min-w-[7rem] px-1 align-top font-semibold sm:whitespace-nowrap ${a === planned ? 'text-brand-dark' : ''}`}>
                   {analysisLabel(a)}
                   {a === planned && <span className="block text-xs font-normal text-muted">planned</span>}
                   {a === best && <span className="block text-xs font-normal text-muted">best alternative</span>}

@@ -127,6 +127,8 @@ describe('nested-clusters, pseudoreplication, repeated measures', () => {
     close(f.numbers!.varianceFactorWithin, 0.5);
     expect(f.numbers!.designEffectBetween).toBeUndefined();
     expect(f.why).not.toMatch(/design effect/);
+    // Says which share is left, not a number followed by a formula in brackets.
+    expect(f.why).toContain('leaving a share 1 − ρ = 0.5 of the variance');
   });
 });
 

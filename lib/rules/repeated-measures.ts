@@ -52,7 +52,7 @@ export const repeatedMeasures: Rule = {
       const source = icc !== undefined ? `the ICC for ${noun(S.level, true)}` : 'the occasion correlation';
       const share = `${dec(rho, 2)}, from ${source}`;
       const betweenText = `for a comparison between ${noun(S.level, true)} the design effect is 1 + (${dec(m)} − 1) × ${dec(rho, 2)} = ${dec(de)}, so the ${num(measurements)} ${whatPlural} count as about ${num(Math.round(effectiveSampleSize(measurements, de)))} independent ones`;
-      const withinText = `for a comparison within ${noun(S.level, true)} the same correlation helps: the differences between ${noun(S.level, true)} drop out, leaving ${dec(1 - rho, 2)} (1 − ρ) of the variance of a comparison between them`;
+      const withinText = `for a comparison within ${noun(S.level, true)} the same correlation helps: the differences between ${noun(S.level, true)} drop out, leaving a share 1 − ρ = ${dec(1 - rho, 2)} of the variance of a comparison between them`;
       // Compared within the unit, no design effect applies: only the within-unit factor is quoted.
       quant = `The correlation between two ${whatPlural} of the same ${noun(S.level)} is ${share}. ${cap(within ? withinText : `${betweenText}; ${withinText}`)}.`;
       nums = within
@@ -63,7 +63,7 @@ export const repeatedMeasures: Rule = {
       const hi = designEffect({ clusterSize: Math.max(1, m), icc: 0.8 });
       const range02 = 'Over a plausible range of 0.2 to 0.8 (common in practice for repeated measurements of one unit, not a value for this study)';
       quant = within
-        ? `No correlation between ${whatPlural} of the same ${noun(S.level)} is given. ${range02}, a comparison within ${noun(S.level, true)} keeps 0.8 to 0.2 (1 − ρ) of the variance of a comparison between them: the higher the correlation, the more the within-${noun(S.level)} comparison gains.`
+        ? `No correlation between ${whatPlural} of the same ${noun(S.level)} is given. ${range02}, a comparison within ${noun(S.level, true)} keeps a share 1 − ρ, from 0.8 to 0.2, of the variance of a comparison between them: the higher the correlation, the more the within-${noun(S.level)} comparison gains.`
         : `No correlation between ${whatPlural} of the same ${noun(S.level)} is given. ${range02}, the design effect for a comparison between ${noun(S.level, true)} is ${range(lo, hi)}.`;
       nums = within
         ? numbers({ units: S.total, measurementsPerUnit: m, measurements, correlationLow: 0.2, correlationHigh: 0.8, varianceFactorWithinLow: 0.2, varianceFactorWithinHigh: 0.8 })

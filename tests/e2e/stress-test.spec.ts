@@ -71,6 +71,8 @@ test('classroom design: a small stress test runs, shows progress, then results a
     await expect(cell).toContainText('Fails');
     await expect(cell).toContainText('Power not counted');
     await expect(page.getByTestId('verdict-headline')).toContainText('The planned analysis, least squares, fails in 1 of 1 scenario');
+    // The legend says what each verdict means, in whole sentences.
+    await expect(page.getByText(/Slightly off: above 5\.0% beyond the Monte Carlo error, but within that bound\./)).toBeVisible();
     // The Monte Carlo error on keyboard focus, as a tooltip the cell is described by.
     await cell.focus();
     const tip = page.getByRole('tooltip');
@@ -96,6 +98,14 @@ test('classroom design: a small stress test runs, shows progress, then results a
     await expect(stress.pastRuns.getByRole('row').filter({ hasText: 'Shown above' })).toContainText(`${revision}`);
     await checkA11y(page, 'stress test tab with results');
     await atBothWidths(page, 'stress-test-classroom-results');
+    // On a phone the planned verdict is read whole, and the table's explanation wraps rather than being cut off.
+    await page.setViewportSize({ width: 390, height: 900 });
+    const plannedCell = await stress.plannedRow.getByTestId('verdict-cell').boundingBox();
+    expect(plannedCell!.x + plannedCell!.width).toBeLessThanOrEqual(390);
+    const explanation = page.getByText(/^Each value ± its Monte Carlo SE/);
+    const box = await explanation.boundingBox();
+    expect(box!.x + box!.width).toBeLessThanOrEqual(390);
+    await page.setViewportSize({ width: 1280, height: 900 });
   });
 
   await test.step('sorting by the false-positive rate is kept in the URL', async () => {

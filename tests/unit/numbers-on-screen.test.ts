@@ -53,3 +53,20 @@ describe('a clear answer at the limits', () => {
     expect(meaning(run({ kind: 'two-group-means', delta: 1e-9, sd: 1, power: 0.8 }))).toMatch(/not reached even with 10,000,000 per group, the largest allowed/);
   });
 });
+
+describe('words beside a calculation’s answer', () => {
+  it('one year of follow-up is “1 unit of time”, not “1 units of time”', () => {
+    const out = run({ kind: 'cluster-rates', baselineRate: 1.8, rateRatio: 0.7, exposure: 1, clusterSize: 22, betweenClusterCv: 0.3, power: 0.8 });
+    expect(meaning(out)).toContain('each followed for 1 unit of time');
+    expect(meaning(run({ kind: 'cluster-rates', baselineRate: 1.8, rateRatio: 0.7, exposure: 2, clusterSize: 22, betweenClusterCv: 0.3, power: 0.8 }))).toContain('each followed for 2 units of time');
+  });
+
+  it('the note on unequal cluster sizes names no input by its internal id', () => {
+    for (const kind of ['cluster-means', 'design-effect'] as const) {
+      const request = kind === 'cluster-means' ? { kind, delta: 3, sd: 10, icc: 0.15, clusterSize: 23, cv: 0.25, power: 0.8 } : { kind, icc: 0.15, clusterSize: 25, cv: 0.25 };
+      const out = run(request);
+      expect(out.warnings.join(' ')).toContain('the cluster size entered is the mean size');
+      expect(out.warnings.join(' ')).not.toMatch(/clusterSize/);
+    }
+  });
+});

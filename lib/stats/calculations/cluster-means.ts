@@ -107,7 +107,7 @@ export function clusterMeans(request: ClusterMeansRequest): CalculationOutput {
   const de = designEffect({ clusterSize: m!, icc, cv });
   const recruitment = clusterRecruitment(k!, m!, dropout, clusterDropout, 'units');
   if (cv > 0) {
-    warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (${ELDRIDGE_2006.short}); clusterSize is the mean size.`);
+    warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (${ELDRIDGE_2006.short}); the cluster size entered is the mean size.`);
   }
   if (k! < 10) {
     warnings.push(`With ${k} clusters per arm the estimate of the variance between clusters is imprecise; analyses with few clusters need small-sample corrections.`);

@@ -155,7 +155,7 @@ export function clusterProportions(request: ClusterProportionsRequest): Calculat
 
   const de = designEffect({ clusterSize: m!, icc, cv });
   const recruitment = clusterRecruitment(k!, m!, dropout, clusterDropout, 'units');
-  if (cv > 0) warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (${ELDRIDGE_2006.short}); clusterSize is the mean size.`);
+  if (cv > 0) warnings.push(`Unequal cluster sizes are allowed for by the coefficient of variation ${cv} (${ELDRIDGE_2006.short}); the cluster size entered is the mean size.`);
   warnings.push(...recruitment.warnings);
   return {
     kind: 'cluster-proportions',

@@ -24,7 +24,7 @@ export function designEffectCalculation(request: DesignEffectRequest): Calculati
       `An analysis that ignores the clustering would reject a true null hypothesis about ${formatNumber(naive * 100, SENTENCE_DIGITS)}% of the time instead of ${formatNumber(alpha * 100, SENTENCE_DIGITS)}% (a large-sample figure; with few clusters it is higher).`,
     );
   }
-  if (cv > 0) warnings.push(`The coefficient of variation ${cv} allows for unequal cluster sizes; clusterSize is the mean size.`);
+  if (cv > 0) warnings.push(`The coefficient of variation ${cv} allows for unequal cluster sizes; the cluster size entered is the mean size.`);
   return {
     kind: 'design-effect',
     solvedFor: null,
