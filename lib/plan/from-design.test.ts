@@ -374,3 +374,16 @@ describe('levels the model carries and cross-overs given as occasions', () => {
     expect(calculate(got.request!).result.nPerGroup).toBe(17);
   });
 });
+
+describe('the Plan says on what basis its design effect differs from the Checks tab', () => {
+  it('classroom: the Plan is at the pupils analysed after attrition, the Checks at the pupils planned', () => {
+    const notes = planFromDesign(parse(classroom)).notes.join(' ');
+    expect(notes).toMatch(/design effect here is at the 23 pupils per classroom analysed; the Checks tab quotes it at the 25 planned/i);
+  });
+
+  it('greenhouse: the Plan analyses plant means, the Checks quote the analysis that counts every leaf', () => {
+    const notes = planFromDesign(parse(greenhouse)).notes.join(' ');
+    expect(notes).toMatch(/design effect here is that of the plant means/i);
+    expect(notes).toMatch(/count every leaf as independent/i);
+  });
+});

@@ -356,6 +356,14 @@ function clustered(b: Builder, d: Design, f: DesignFacts, E: LevelInfo, binary: 
     b.set('clusterSize', analysed, `${cap(noun(member.level, true))} per ${noun(E.level)}`, design('Structure step'));
     if (!Number.isInteger(m)) b.notes.push(`The structure gives ${num(m)} ${noun(member.level, true)} per ${noun(E.level)} on average; the calculation uses ${analysed}.`);
   }
+  // The Checks tab quotes the design effect of the analysis it warns about (every measurement
+  // counted, at the planned numbers); this one is the Plan's own: say so, so the two never read as
+  // one figure that disagrees with itself.
+  if (member !== bottom) {
+    b.notes.push(`The design effect here is that of the ${noun(member.level)} means the calculation analyses; the Checks tab quotes a larger one, for an analysis that would count every ${noun(bottom.level)} as independent.`);
+  } else if (analysed !== m) {
+    b.notes.push(`The design effect here is at the ${num(analysed)} ${noun(member.level, analysed !== 1)} per ${noun(E.level)} analysed; the Checks tab quotes it at the ${num(m)} planned, before attrition or rounding.`);
+  }
   const cv = sizeCv(f, E.index, member.index);
   if (cv > 0) b.set('cv', tidy(Math.min(3, cv)), `CV of the number of ${noun(member.level, true)} per ${noun(E.level)}`, design('Structure step'));
 
