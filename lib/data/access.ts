@@ -44,6 +44,8 @@ const ACTION_WORDS: Partial<Record<StudyAction | WorkspaceAction, string>> = {
   'design.edit': 'edit the design',
   'calculation.save': 'save sample-size results',
   'simulation.run': 'run stress tests',
+  'study.signoff': 'sign off this study (consultants do)',
+  'version.name': 'name versions',
 };
 
 export async function requireStudy(

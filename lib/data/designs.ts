@@ -44,11 +44,20 @@ function changedParts(a: Design, b: Design): DesignPart[] {
 
 const PART_LABEL = Object.fromEntries(DESIGN_STEPS.map((s) => [s.part, s.label])) as Record<DesignPart, string>;
 
-export async function saveDesign(
-  actor: Actor | null,
-  studyId: string,
-  input: DesignSaveInput,
-): Promise<DesignSaved> {
+export interface SaveOptions {
+  /** An accepted suggestion: who proposed it. The save is a version of its own, by both. */
+  coAuthorId?: string;
+  suggestionId?: string;
+  /** The time of the save (tests inject it; versions group saves by it). */
+  now?: Date;
+}
+
+/**
+ * Saves the design as a new revision, which joins the author's open version or starts a new one
+ * (db/repositories/versions.ts).
+ */
+export async function saveDesign(actor: Actor | null, studyId: string, input: DesignSaveInput, options: SaveOptions = {}): Promise<DesignSaved> {
+  const now = options.now ?? new Date();
   return transaction(async (trx) => {
     const { actor: a, study } = await requireStudy(actor, studyId, 'design.edit', { trx, lock: 'update' });
     if (input.baseRevision > study.currentRevision) {
@@ -87,12 +96,22 @@ export async function saveDesign(
 
     const checks = runChecks(design);
     // The study's row is locked, so the compare-and-set cannot miss; it stays as a guard.
-    const number = await appendRevision(trx, { studyId, expected: study.currentRevision, design, checks, authorId: a.id, note: input.note ?? null });
-    if (number === undefined) {
+    const saved = await appendRevision(trx, {
+      studyId,
+      expected: study.currentRevision,
+      design,
+      checks,
+      authorId: a.id,
+      note: input.note ?? null,
+      at: now,
+      coAuthorId: options.coAuthorId,
+      suggestionId: options.suggestionId,
+    });
+    if (saved === undefined) {
       throw new AppError('conflict', 'Someone saved the design at the same moment. Your edit is kept in this browser: reload, then apply it again.');
     }
-    await logActivity(trx, { workspaceId: study.workspaceId, studyId, actorId: a.id, action: 'design.saved', details: { revision: number, merged } });
-    return { revision: number, design, savedAt: new Date().toISOString(), savedBy: a.name ?? a.email, readable: true, merged };
+    await logActivity(trx, { workspaceId: study.workspaceId, studyId, actorId: a.id, action: 'design.saved', details: { revision: saved.number, version: saved.version, merged } });
+    return { revision: saved.number, version: saved.version, design, savedAt: now.toISOString(), savedBy: a.name ?? a.email, readable: true, merged };
   });
 }
 

@@ -13,3 +13,8 @@ export const workspaceParamsSchema = z.object({ workspaceId: pathId('The workspa
 export const workspaceMemberParamsSchema = workspaceParamsSchema.extend({ userId: pathId('That member') });
 export const invitationParamsSchema = z.object({ invitationId: pathId('The invitation') });
 export const simulationParamsSchema = z.object({ simulationId: pathId('The stress test') });
+
+/** A version is named in an address by its number within the study (1, 2, …); read it with Number(). */
+const versionNumber = z.string().regex(/^[1-9][0-9]{0,8}$/, { error: 'That version was not found: the address does not hold a version number.' });
+export const versionParamsSchema = studyParamsSchema.extend({ version: versionNumber });
+export const signoffParamsSchema = studyParamsSchema.extend({ signoffId: pathId('That sign-off') });
