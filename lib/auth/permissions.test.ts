@@ -8,9 +8,9 @@ import { ASSIGNABLE_STUDY_ROLES, canStudy, canWorkspace, STUDY_ACTIONS, WORKSPAC
  * route enforces the matrix.
  */
 const EXPECTED: Record<(typeof STUDY_ROLES)[number], StudyAction[]> = {
-  owner: ['study.read', 'study.update', 'study.archive', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'justification.edit', 'justification.export', 'members.read', 'members.manage', 'activity.read'],
-  editor: ['study.read', 'study.update', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'justification.edit', 'justification.export', 'members.read', 'activity.read'],
-  consultant: ['study.read', 'finding.address', 'simulation.run', 'comment.create', 'study.signoff', 'justification.export', 'members.read', 'activity.read'],
+  owner: ['study.read', 'study.update', 'study.archive', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'version.name', 'justification.edit', 'justification.export', 'members.read', 'members.manage', 'activity.read'],
+  editor: ['study.read', 'study.update', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'version.name', 'justification.edit', 'justification.export', 'members.read', 'activity.read'],
+  consultant: ['study.read', 'finding.address', 'simulation.run', 'comment.create', 'study.signoff', 'version.name', 'justification.export', 'members.read', 'activity.read'],
   writer: ['study.read', 'comment.create', 'justification.edit', 'justification.export', 'members.read', 'activity.read'],
   viewer: ['study.read', 'justification.export', 'members.read', 'activity.read'],
 };
