@@ -16,7 +16,7 @@ export function CloseVersionOnLeave({ studyId }: { studyId: string }) {
     window.addEventListener('pagehide', onPageHide);
     return () => {
       window.removeEventListener('pagehide', onPageHide);
-      closeMyVersion(studyId);
+      closeMyVersion(studyId, { afterUnmount: true });
     };
   }, [studyId]);
   return null;

@@ -14,11 +14,18 @@ export function trackSave<T>(save: Promise<T>): Promise<T> {
   return save;
 }
 
-/** Closes the signed-in author's open version once the last save is done (keepalive: it survives the page). */
-export function closeMyVersion(studyId: string): void {
-  void lastSave.then(() =>
-    fetch(`/api/v1/studies/${studyId}/versions/close`, { method: 'POST', keepalive: true, credentials: 'same-origin', headers: { Accept: 'application/json' } }).catch(() => undefined),
-  );
+/**
+ * Closes the signed-in author's open version once the last save is done (keepalive: it survives
+ * the page). `afterUnmount`: wait a turn first, so that the save the wizard sends as it unmounts
+ * is registered before this waits for it.
+ */
+export function closeMyVersion(studyId: string, { afterUnmount = false } = {}): void {
+  const send = () =>
+    void lastSave.then(() =>
+      fetch(`/api/v1/studies/${studyId}/versions/close`, { method: 'POST', keepalive: true, credentials: 'same-origin', headers: { Accept: 'application/json' } }).catch(() => undefined),
+    );
+  if (afterUnmount) setTimeout(send, 0);
+  else send();
 }
 
 export const UNSAVED_WARNING = 'Some of your changes are not saved yet (a field shows an error, or the last save was refused). Leave anyway and lose them?';

@@ -201,10 +201,21 @@ export async function listSignoffs(actor: Actor | null, studyId: string): Promis
   return { items: signoffs.map(signoffDto), review: reviewState(study, signoffs, rows[0]?.number ?? null) };
 }
 
-/** The people told about a sign-off or its withdrawal: the study's owners, editors and writers, not the actor. */
-async function toldOfSignoffs(trx: Trx, studyId: string, actorId: string): Promise<string[]> {
-  const members = await listStudyMembers(trx, studyId);
-  return members.filter((m) => (m.role === 'owner' || m.role === 'editor' || m.role === 'writer') && m.userId !== actorId).map((m) => m.userId);
+/**
+ * Tells the study's owners, editors and writers (not the actor) of a sign-off or its withdrawal,
+ * in the transaction that records it; one notification per sign-off and kind.
+ */
+async function tellOfSignoff(trx: Trx, study: Study, actorId: string, kind: 'signoff' | 'withdrawal', signoffId: string, words: { subject: string; text: string }): Promise<void> {
+  const members = await listStudyMembers(trx, study.id);
+  await notify(trx, {
+    kind,
+    recipientIds: members.filter((m) => (m.role === 'owner' || m.role === 'editor' || m.role === 'writer') && m.userId !== actorId).map((m) => m.userId),
+    studyId: study.id,
+    actorId,
+    ...words,
+    path: `/studies/${study.id}/review/versions`,
+    dedupeKey: `${kind}:${signoffId}`,
+  });
 }
 
 const excerpt = (s: string, n = 200) => (s.length > n ? `${s.slice(0, n - 1)}…` : s);
@@ -234,15 +245,9 @@ export async function signOff(actor: Actor | null, studyId: string, input: Signo
     const id = await insertSignoff(trx, { studyId, versionNumber: v.number, revisionNumber: v.lastRevision, signerId: a.id, statement: input.statement, conditions: input.conditions || null, at: now });
     await logActivity(trx, { workspaceId: study.workspaceId, studyId, actorId: a.id, action: 'signoff.created', details: { signoffId: id, version: v.number, name, excerpt: excerpt(input.statement) } });
     const who = a.name ?? a.email;
-    await notify(trx, {
-      kind: 'signoff',
-      recipientIds: await toldOfSignoffs(trx, studyId, a.id),
-      studyId,
-      actorId: a.id,
+    await tellOfSignoff(trx, study, a.id, 'signoff', id, {
       subject: `${who} signed off “${name}” of ${study.title}`,
       text: `${who} signed off version ${v.number}, “${name}”, of ${study.title}.\n\nWhat was reviewed: ${input.statement}${input.conditions ? `\n\nConditions: ${input.conditions}` : ''}`,
-      path: `/studies/${studyId}/review/versions`,
-      dedupeKey: `signoff:${id}`,
     });
     return signoffDto((await findSignoff(trx, studyId, id))!);
   });
@@ -256,15 +261,9 @@ export async function withdrawSignoff(actor: Actor | null, studyId: string, sign
     if (!(await withdrawSignoffRow(trx, studyId, signoffId, a.id, input.reason, now))) throw new AppError('conflict', 'This sign-off was already withdrawn.');
     await logActivity(trx, { workspaceId: study.workspaceId, studyId, actorId: a.id, action: 'signoff.withdrawn', details: { signoffId, version: s.versionNumber, excerpt: excerpt(input.reason) } });
     const who = a.name ?? a.email;
-    await notify(trx, {
-      kind: 'withdrawal',
-      recipientIds: await toldOfSignoffs(trx, studyId, a.id),
-      studyId,
-      actorId: a.id,
+    await tellOfSignoff(trx, study, a.id, 'withdrawal', signoffId, {
       subject: `${who} withdrew the sign-off of “${s.versionName ?? `version ${s.versionNumber}`}” of ${study.title}`,
       text: `${who} withdrew the sign-off of version ${s.versionNumber} of ${study.title}.\n\nReason: ${input.reason}`,
-      path: `/studies/${studyId}/review/versions`,
-      dedupeKey: `withdrawal:${signoffId}`,
     });
     return signoffDto((await findSignoff(trx, studyId, signoffId))!);
   });

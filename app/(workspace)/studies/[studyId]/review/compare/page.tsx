@@ -25,6 +25,43 @@ function sizeText(f: Figures, value: number | null): string {
   return f.sizeLabel ? `${formatCount(value)} ${f.sizeLabel}` : formatCount(value);
 }
 
+/** A table of rows whose last two cells are a value before and after (the after in bold when it differs). */
+function BeforeAfterTable({ caption, head, rows }: { caption: string; head: string[]; rows: { key: string; cells: string[]; testId?: string }[] }) {
+  return (
+    <table className="w-full text-left text-sm">
+      <caption className="sr-only">{caption}</caption>
+      <thead>
+        <tr className="border-b border-line">
+          {head.map((h) => (
+            <th key={h} scope="col" className="py-1 pr-3">
+              {h}
+            </th>
+          ))}
+        </tr>
+      </thead>
+      <tbody>
+        {rows.map(({ key, cells, testId }) => {
+          const [first, ...rest] = cells;
+          const before = cells[cells.length - 2];
+          const after = cells[cells.length - 1];
+          return (
+            <tr key={key} className="border-b border-line align-top last:border-0" data-testid={testId}>
+              <th scope="row" className="py-1 pr-3 font-normal">
+                {first}
+              </th>
+              {rest.map((c, i) => (
+                <td key={i} className={`py-1 pr-3 ${i === rest.length - 1 && before !== after ? 'font-semibold' : ''}`}>
+                  {c}
+                </td>
+              ))}
+            </tr>
+          );
+        })}
+      </tbody>
+    </table>
+  );
+}
+
 function PlanTable({ plan }: { plan: ComparisonDto['plan'] }) {
   const rows: [string, (f: Figures) => string][] = [
     ['Calculation', (f) => (f.kind ? (kindInfo(f.kind)?.title ?? f.kind) : 'None yet')],
@@ -34,36 +71,11 @@ function PlanTable({ plan }: { plan: ComparisonDto['plan'] }) {
     ['Target power', (f) => formatPercent(f.targetPower)],
   ];
   return (
-    <table className="w-full text-left text-sm">
-      <caption className="sr-only">The Plan’s sample size and power, before and after</caption>
-      <thead>
-        <tr className="border-b border-line">
-          <th scope="col" className="py-1 pr-3">
-            Figure
-          </th>
-          <th scope="col" className="py-1 pr-3">
-            Before
-          </th>
-          <th scope="col" className="py-1">
-            After
-          </th>
-        </tr>
-      </thead>
-      <tbody>
-        {rows.map(([label, get]) => {
-          const [a, b] = [get(plan.before), get(plan.after)];
-          return (
-            <tr key={label} className="border-b border-line last:border-0">
-              <th scope="row" className="py-1 pr-3 font-normal">
-                {label}
-              </th>
-              <td className="py-1 pr-3">{a}</td>
-              <td className={`py-1 ${a !== b ? 'font-semibold' : ''}`}>{b}</td>
-            </tr>
-          );
-        })}
-      </tbody>
-    </table>
+    <BeforeAfterTable
+      caption="The Plan’s sample size and power, before and after"
+      head={['Figure', 'Before', 'After']}
+      rows={rows.map(([label, get]) => ({ key: label, cells: [label, get(plan.before), get(plan.after)] }))}
+    />
   );
 }
 
@@ -127,37 +139,11 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
             {c.changes.length === 0 ? (
               <p className="text-sm">The two versions have the same design.</p>
             ) : (
-              <table className="w-full text-left text-sm">
-                <caption className="sr-only">Changed fields, old and new value</caption>
-                <thead>
-                  <tr className="border-b border-line">
-                    <th scope="col" className="py-1 pr-3">
-                      Step
-                    </th>
-                    <th scope="col" className="py-1 pr-3">
-                      Field
-                    </th>
-                    <th scope="col" className="py-1 pr-3">
-                      Before
-                    </th>
-                    <th scope="col" className="py-1">
-                      After
-                    </th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {c.changes.map((ch) => (
-                    <tr key={ch.path} className="border-b border-line align-top last:border-0" data-testid="change">
-                      <td className="py-1 pr-3">{STEP_LABEL[ch.step]}</td>
-                      <th scope="row" className="py-1 pr-3 font-normal">
-                        {ch.label}
-                      </th>
-                      <td className="py-1 pr-3">{ch.before}</td>
-                      <td className="py-1 font-semibold">{ch.after}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
+              <BeforeAfterTable
+                caption="Changed fields, old and new value"
+                head={['Field', 'Step', 'Before', 'After']}
+                rows={c.changes.map((ch) => ({ key: ch.path, cells: [ch.label, STEP_LABEL[ch.step]!, ch.before, ch.after], testId: 'change' }))}
+              />
             )}
           </section>
 
@@ -202,35 +188,14 @@ export default async function ComparePage({ params, searchParams }: { params: Pr
             ) : c.stress.rows.length === 0 ? (
               <p className="text-sm text-muted">The two runs share no scenario and analysis.</p>
             ) : (
-              <table className="w-full text-left text-sm">
-                <caption className="sr-only">Verdict of each scenario and analysis, before and after</caption>
-                <thead>
-                  <tr className="border-b border-line">
-                    <th scope="col" className="py-1 pr-3">
-                      Scenario
-                    </th>
-                    <th scope="col" className="py-1 pr-3">
-                      Analysis
-                    </th>
-                    <th scope="col" className="py-1 pr-3">
-                      Before
-                    </th>
-                    <th scope="col" className="py-1">
-                      After
-                    </th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {c.stress.rows.map((r) => (
-                    <tr key={`${r.scenario}/${r.analysis}`} className="border-b border-line last:border-0">
-                      <td className="py-1 pr-3">{r.scenarioName ?? VIOLATION_TITLES[r.violation as keyof typeof VIOLATION_TITLES] ?? r.violation}</td>
-                      <td className="py-1 pr-3">{analysisLabel(r.analysis)}</td>
-                      <td className="py-1 pr-3">{VERDICT_LOOK[r.before].word}</td>
-                      <td className={`py-1 ${r.before !== r.after ? 'font-semibold' : ''}`}>{VERDICT_LOOK[r.after].word}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
+              <BeforeAfterTable
+                caption="Verdict of each scenario and analysis, before and after"
+                head={['Scenario', 'Analysis', 'Before', 'After']}
+                rows={c.stress.rows.map((r) => ({
+                  key: `${r.scenario}/${r.analysis}`,
+                  cells: [r.scenarioName ?? VIOLATION_TITLES[r.violation as keyof typeof VIOLATION_TITLES] ?? r.violation, analysisLabel(r.analysis), VERDICT_LOOK[r.before].word, VERDICT_LOOK[r.after].word],
+                }))}
+              />
             )}
           </section>
         </>
