@@ -46,12 +46,22 @@ export const studyStatusSql = sql<StudyStatus>`(case
   else 'draft'
 end)`;
 
+/**
+ * The study with its derived status, read by a query of its own: the row's own query may hold a
+ * lock, and stays short and plain.
+ */
+async function withDerivedStatus(db: Db, study: Study): Promise<Study> {
+  if (study.status === 'archived') return study;
+  const row = await db.selectFrom('studies').select(studyStatusSql.as('status')).where('studies.id', '=', study.id).executeTakeFirstOrThrow();
+  return { ...study, status: row.status };
+}
+
 const STUDY_COLUMNS = [
   'studies.id',
   'studies.workspace_id',
   'studies.title',
   'studies.description',
-  studyStatusSql.as('status'),
+  'studies.status',
   'studies.current_revision',
   'studies.created_at',
   'studies.updated_at',
@@ -118,7 +128,7 @@ export async function findStudyForUser(
   const locked = lock === 'share' ? query.forShare('studies') : lock === 'update' ? query.forNoKeyUpdate('studies') : query;
   const row = await locked.executeTakeFirst();
   if (!row) return undefined;
-  return { study: rowToStudy(row), role: row.role, workspaceRole: row.workspace_role };
+  return { study: await withDerivedStatus(db, rowToStudy(row)), role: row.role, workspaceRole: row.workspace_role };
 }
 
 export interface StudyListFilter {
@@ -153,7 +163,7 @@ export async function listStudiesForUser(db: Db, f: StudyListFilter): Promise<{ 
     created: sql`studies.created_at`,
   }[f.sort];
   const rows = await q
-    .select([...STUDY_COLUMNS, 'study_members.role as role'])
+    .select([...STUDY_COLUMNS.filter((c) => c !== 'studies.status'), studyStatusSql.as('status'), 'study_members.role as role'])
     .orderBy(sortColumn, f.dir)
     .orderBy('studies.id')
     .limit(f.pageSize)
@@ -186,7 +196,7 @@ export async function updateStudyRow(
     .returning('id')
     .executeTakeFirstOrThrow();
   // Read back through the derived status (an update does not choose it).
-  return rowToStudy(await db.selectFrom('studies').select(STUDY_COLUMNS).where('studies.id', '=', row.id).executeTakeFirstOrThrow());
+  return withDerivedStatus(db, rowToStudy(await db.selectFrom('studies').select(STUDY_COLUMNS).where('studies.id', '=', row.id).executeTakeFirstOrThrow()));
 }
 
 export async function upsertStudyMember(db: Db, studyId: string, userId: string, role: StudyRole): Promise<void> {
