@@ -141,6 +141,46 @@ export interface StudyRevisionTable {
   created_at: Generated<Date>;
   /** Findings and recommendation computed from this design when it was saved. */
   checks: ColumnType<unknown | null, string | null | undefined, string | null>;
+  /** The version this save belongs to (study_versions.number). */
+  version_number: ColumnType<number | null, number | null | undefined, number | null>;
+}
+
+/** Why a version was closed (db/repositories/versions.ts). */
+export const VERSION_CLOSE_REASONS = ['idle', 'other-author', 'named', 'signoff', 'restore', 'left', 'suggestion', 'backfill'] as const;
+export type VersionCloseReason = (typeof VERSION_CLOSE_REASONS)[number];
+
+/** One person's continuous editing of a design: revisions first_revision..last_revision. */
+export interface StudyVersionTable {
+  study_id: string;
+  number: number;
+  first_revision: number;
+  last_revision: number;
+  saves: Generated<number>;
+  author_id: string | null;
+  co_author_id: string | null;
+  suggestion_id: string | null;
+  restored_from: number | null;
+  name: string | null;
+  named_by: string | null;
+  named_at: NullableTimestamp;
+  opened_at: Timestamp;
+  last_saved_at: Timestamp;
+  closed_at: NullableTimestamp;
+  close_reason: VersionCloseReason | null;
+}
+
+export interface StudySignoffTable {
+  id: Generated<string>;
+  study_id: string;
+  version_number: number;
+  revision_number: number;
+  signer_id: string | null;
+  statement: string;
+  conditions: string | null;
+  created_at: Generated<Date>;
+  withdrawn_at: NullableTimestamp;
+  withdrawn_by: string | null;
+  withdrawal_reason: string | null;
 }
 
 export const FINDING_NOTE_STATUSES = ['addressed', 'reopened'] as const;
@@ -331,6 +371,8 @@ export interface Database {
   studies: StudyTable;
   study_members: StudyMemberTable;
   study_revisions: StudyRevisionTable;
+  study_versions: StudyVersionTable;
+  study_signoffs: StudySignoffTable;
   activity_log: ActivityTable;
   rate_limits: RateLimitTable;
   mail: MailTable;

@@ -18,8 +18,10 @@ import { sql, type Kysely, type Transaction } from 'kysely';
 import { createDb } from './client';
 import type { Database } from './schema';
 import { logActivity } from './repositories/activity';
+import { insertSignoff } from './repositories/signoffs';
 import { insertRevision, insertStudy, upsertStudyMember } from './repositories/studies';
 import { insertDemoReview } from './seed-review';
+import { closeVersion, findOpenVersion, setVersionName } from './repositories/versions';
 import { findUserByEmail, insertUser, setPasswordHash } from './repositories/users';
 import { findMembership, insertWorkspace, lockWorkspace, upsertWorkspaceMember } from './repositories/workspaces';
 import { DEMO_ADMINS, DEMO_STUDIES, DEMO_WORKSPACE, type DemoStudy } from './demo/studies';
@@ -55,6 +57,20 @@ export async function insertDemoStudy(trx: Trx, workspaceId: string, owner: stri
   await insertRevision(trx, { studyId: study.id, number: 1, design, checks: runChecks(design), authorId: owner, note: 'Study created' });
   await logActivity(trx, { workspaceId, studyId: study.id, actorId: owner, action: 'study.created', details: { title: s.title } });
   if (s.review) await insertDemoReview(trx, { id: study.id, workspaceId, revision: 1 }, design, s.review, ids);
+  const signer = s.signoff && ids.get(s.signoff.by);
+  if (s.signoff && signer) await signOffFirstVersion(trx, workspaceId, study.id, signer, s.signoff);
+}
+
+/** The consultant names the first version and signs it off, as the app does (closing it first). */
+async function signOffFirstVersion(trx: Trx, workspaceId: string, studyId: string, signer: string, so: NonNullable<DemoStudy['signoff']>) {
+  const at = new Date();
+  const open = await findOpenVersion(trx, studyId);
+  if (!open) return;
+  await closeVersion(trx, studyId, open, at, 'signoff');
+  await setVersionName(trx, studyId, open.number, so.versionName, signer, at);
+  await logActivity(trx, { workspaceId, studyId, actorId: signer, action: 'version.named', details: { version: open.number, name: so.versionName, previous: null } });
+  const id = await insertSignoff(trx, { studyId, versionNumber: open.number, revisionNumber: 1, signerId: signer, statement: so.statement, conditions: so.conditions ?? null, at });
+  await logActivity(trx, { workspaceId, studyId, actorId: signer, action: 'signoff.created', details: { signoffId: id, version: open.number, name: so.versionName, excerpt: so.statement.slice(0, 200) } });
 }
 
 export async function seedDemo(db: Kysely<Database>, password: string, studies: DemoStudy[] = DEMO_STUDIES): Promise<SeedResult> {

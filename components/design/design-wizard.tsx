@@ -13,6 +13,7 @@ import { runChecks } from '@/lib/rules/registry';
 import { StepThreadCount } from '@/components/review/step-review';
 import { DesignDiagram } from './design-diagram';
 import { DiagramExport } from './diagram-export';
+import { guardUnsaved, trackSave } from './leave-guard';
 import { AnalysisStep } from './steps/analysis-step';
 import { AssignmentStep } from './steps/assignment-step';
 import { AssumptionsStep } from './steps/assumptions-step';
@@ -25,7 +26,6 @@ type SaveState =
   | { kind: 'saved'; at: string | null; by: string | null }
   | { kind: 'pending' }
   | { kind: 'saving' }
-  | { kind: 'invalid' }
   | { kind: 'error'; message: string }
   | { kind: 'conflict'; message: string };
 
@@ -61,6 +61,8 @@ export function DesignWizard({
 }) {
   const [design, setDesign] = useState<Design>(initial.design);
   const [save, setSave] = useState<SaveState>({ kind: 'saved', at: initial.savedAt, by: initial.savedBy });
+  // A field of the current step shows an error: nothing is saved, so the status never says "Saved".
+  const [invalid, setInvalid] = useState(false);
   const revision = useRef(initial.revision);
   const timer = useRef<ReturnType<typeof setTimeout> | null>(null);
   const latest = useRef(design);
@@ -70,10 +72,12 @@ export function DesignWizard({
     if (!canEdit) return;
     setSave({ kind: 'saving' });
     try {
-      const res = await apiFetch<DesignSaved>(`/api/v1/studies/${studyId}/design`, {
-        method: 'PUT',
-        json: { baseRevision: revision.current, design: latest.current },
-      });
+      const res = await trackSave(
+        apiFetch<DesignSaved>(`/api/v1/studies/${studyId}/design`, {
+          method: 'PUT',
+          json: { baseRevision: revision.current, design: latest.current },
+        }),
+      );
       revision.current = res.revision;
       if (res.merged) setDesign(res.design);
       window.localStorage.removeItem(DRAFT_KEY(studyId));
@@ -127,8 +131,23 @@ export function DesignWizard({
     [schedule, studyId],
   );
   const onDraft = useCallback((valid: boolean) => {
-    if (!valid) setSave((s) => (s.kind === 'conflict' || s.kind === 'error' ? s : { kind: 'invalid' }));
+    setInvalid(!valid);
   }, []);
+
+  // Edits that would be lost by leaving: a field with an error or a refused save; at unload also a save not sent yet.
+  const lost = useRef({ unsavable: false, waiting: false });
+  lost.current = {
+    unsavable: canEdit && (invalid || save.kind === 'error' || save.kind === 'conflict'),
+    waiting: canEdit && (save.kind === 'pending' || save.kind === 'saving'),
+  };
+  useEffect(
+    () =>
+      guardUnsaved(
+        () => lost.current.unsavable || lost.current.waiting,
+        () => lost.current.unsavable,
+      ),
+    [],
+  );
 
   const states = stepStates(design);
   const checks = useMemo(() => runChecks(design), [design]);
@@ -180,16 +199,16 @@ export function DesignWizard({
           <p role="status" aria-live="polite" className="text-sm text-muted">
             {!canEdit
               ? 'Read only: your role cannot edit the design.'
-              : save.kind === 'saving'
-                ? 'Saving…'
-                : save.kind === 'pending'
-                  ? 'Unsaved changes…'
-                  : save.kind === 'saved'
-                    ? save.at
-                      ? `Saved · revision ${revision.current}${save.by ? ` by ${save.by}` : ''}`
-                      : 'Nothing saved yet'
-                    : save.kind === 'invalid'
-                      ? 'Fix the highlighted fields to save'
+              : invalid
+                ? 'Not saved: fix the highlighted fields to save'
+                : save.kind === 'saving'
+                  ? 'Saving…'
+                  : save.kind === 'pending'
+                    ? 'Unsaved changes…'
+                    : save.kind === 'saved'
+                      ? save.at
+                        ? `Saved · revision ${revision.current}${save.by ? ` by ${save.by}` : ''}`
+                        : 'Nothing saved yet'
                       : 'Not saved'}
           </p>
         </div>

@@ -8,7 +8,7 @@ import { analysisLabel } from '@/lib/sim/analysis-words';
 import { bestAnalysis, LIBERAL_BOUND, mcInterval, verdictOf, type CellVerdict, type Verdict } from '@/lib/sim/verdict';
 import type { ResultRow } from './results-table';
 import { MAX_TAB_REPLICATES } from './run-form-schema';
-import { formatRate, type MetricValue } from './words';
+import { formatRate, VERDICT_LOOK, type MetricValue } from './words';
 
 export interface GridScenario {
   key: string;
@@ -34,16 +34,6 @@ export interface VerdictGridProps {
   starting?: boolean;
 }
 
-/** Word, icon and colour of each cell verdict: the word and the icon carry it, the colour repeats it (AA on its tint). */
-const LOOK: Record<CellVerdict, { word: string; icon: string; tone: string }> = {
-  holds: { word: 'Holds', icon: '✓', tone: 'border-ok bg-ok-light text-ok' },
-  underpowered: { word: 'Holds, low power', icon: '↓', tone: 'border-caution bg-caution-light text-caution' },
-  caution: { word: 'Slightly off', icon: '!', tone: 'border-caution bg-caution-light text-caution' },
-  // Neutral, with a dashed border: not a pass, not a failure.
-  undecided: { word: 'Too few runs to tell', icon: '?', tone: 'border-dashed border-muted bg-white text-ink' },
-  broken: { word: 'Fails', icon: '✕', tone: 'border-danger bg-danger-light text-danger' },
-  'no-result': { word: 'No result', icon: '–', tone: 'border-line bg-white text-muted' },
-};
 
 interface Cell {
   verdict: Verdict;
@@ -92,7 +82,7 @@ function VerdictCell({ cell, scenario, analysis, alpha, targetPower, replicates 
     setPlace({ position: 'fixed', top: r.bottom + 4, left: Math.max(8, Math.min(r.left, window.innerWidth - width - 8)), width });
   };
   const setOpen = (on: boolean) => (on ? show() : setPlace(null));
-  const look = LOOK[cell.verdict.cell];
+  const look = VERDICT_LOOK[cell.verdict.cell];
   const v = cell.verdict;
   const power = cell.metrics.power?.value;
   const powerLine =

@@ -6,6 +6,7 @@
 import { formatNumber, formatPercent } from '@/lib/format';
 import type { AnalysisName } from '@/lib/models/types';
 import type { Scenario, Violation } from '@/lib/sim/spec';
+import type { CellVerdict } from '@/lib/sim/verdict';
 
 export const VIOLATIONS = ['none', 'skewed', 'heavy-tailed', 'outliers', 'unequal-variance', 'nonlinear', 'serial', 'carry-over'] as const satisfies readonly Violation[];
 
@@ -107,3 +108,14 @@ export function formatFailedFits(m: MetricValue | undefined, replicates: number)
 export function rateMcse(p: number, replicates: number): number {
   return Math.sqrt((p * (1 - p)) / replicates);
 }
+
+/** Word, icon and colour of each cell verdict: the word and the icon carry it, the colour repeats it (AA on its tint). */
+export const VERDICT_LOOK: Record<CellVerdict, { word: string; icon: string; tone: string }> = {
+  holds: { word: 'Holds', icon: '✓', tone: 'border-ok bg-ok-light text-ok' },
+  underpowered: { word: 'Holds, low power', icon: '↓', tone: 'border-caution bg-caution-light text-caution' },
+  caution: { word: 'Slightly off', icon: '!', tone: 'border-caution bg-caution-light text-caution' },
+  // Neutral, with a dashed border: not a pass, not a failure.
+  undecided: { word: 'Too few runs to tell', icon: '?', tone: 'border-dashed border-muted bg-white text-ink' },
+  broken: { word: 'Fails', icon: '✕', tone: 'border-danger bg-danger-light text-danger' },
+  'no-result': { word: 'No result', icon: '–', tone: 'border-line bg-white text-muted' },
+};

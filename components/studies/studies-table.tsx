@@ -8,12 +8,13 @@ import { usePathname, useRouter, useSearchParams } from 'next/navigation';
 import { useEffect, useMemo, useState } from 'react';
 import { Alert } from '@/components/ui/alert';
 import { Badge } from '@/components/ui/badge';
+import { STATUS_WORDS } from '@/components/review/review-banner';
 import { apiFetch } from '@/lib/api/client';
 import type { StudyDto, StudyPage as Page } from '@/lib/api/dto';
 
 type SortKey = 'title' | 'status' | 'role' | 'updated' | 'created';
 
-const STATUS_LABEL: Record<string, string> = { draft: 'Draft', 'in-review': 'In review', 'signed-off': 'Signed off', archived: 'Archived' };
+const STATUS_LABEL: Record<string, string> = STATUS_WORDS;
 
 /**
  * The studies of one workspace: search, status filter, sort and pages, all kept in the URL so a

@@ -16,6 +16,8 @@ export interface DemoStudy {
   design: DesignInput;
   /** Threads and suggestions of a review in progress (db/demo/review.ts). */
   review?: DemoReview;
+  /** A consultant's sign-off of the first version, under a name (issue 12: a signed-off version). */
+  signoff?: { by: string; versionName: string; statement: string; conditions?: string };
 }
 
 const PRIYA = 'priya.nair@harrowvale.example';
@@ -41,6 +43,12 @@ export const DEMO_STUDIES: DemoStudy[] = [
       'Two substrates are compared in a greenhouse. Each tray holds several plants and receives one substrate; several leaves are measured on each plant. Trays, plants and leaves are nested levels.',
     members: { [PRIYA]: 'owner', [LENA]: 'consultant', [ADA]: 'viewer' },
     design: GREENHOUSE_DESIGN,
+    signoff: {
+      by: LENA,
+      versionName: 'Sent to the funder',
+      statement: 'Reviewed the design, the checks and the Plan: trays are the unit of randomisation and the sample size counts trays, not leaves.',
+      conditions: 'Report the between-tray ICC and its source in the protocol.',
+    },
   },
   {
     title: 'Sleep timing and next-day reaction time',

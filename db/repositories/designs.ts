@@ -1,5 +1,6 @@
 import type { Kysely, Transaction } from 'kysely';
 import type { Database, FindingNoteStatus } from '../schema';
+import { placeRevision, type Placement } from './versions';
 
 type Db = Kysely<Database> | Transaction<Database>;
 
@@ -27,32 +28,49 @@ export async function findRevision(db: Db, studyId: string, number: number): Pro
 /**
  * Appends revision `expected + 1`, but only if the study is still at `expected`: the compare-and-
  * set on studies.current_revision is what turns two simultaneous saves into one save and one
- * conflict instead of a silent overwrite. Returns the new number, or undefined on conflict.
+ * conflict instead of a silent overwrite. The revision joins a version (db/repositories/versions.ts).
+ * Returns the new number and its version, or undefined on conflict.
  */
 export async function appendRevision(
   db: Db,
-  input: { studyId: string; expected: number; design: unknown; checks: unknown; authorId: string; note?: string | null },
-): Promise<number | undefined> {
+  input: { studyId: string; expected: number; design: unknown; checks: unknown; authorId: string; note?: string | null; at?: Date } & Pick<
+    Placement,
+    'coAuthorId' | 'suggestionId' | 'restoredFrom'
+  >,
+): Promise<{ number: number; version: number } | undefined> {
+  const at = input.at ?? new Date();
   const claimed = await db
     .updateTable('studies')
-    .set({ current_revision: input.expected + 1, updated_at: new Date() })
+    .set({ current_revision: input.expected + 1, updated_at: at })
     .where('id', '=', input.studyId)
     .where('current_revision', '=', input.expected)
     .returning('current_revision')
     .executeTakeFirst();
   if (!claimed) return undefined;
+  const number = claimed.current_revision;
+  const version = await placeRevision(db, {
+    studyId: input.studyId,
+    revision: number,
+    authorId: input.authorId,
+    at,
+    coAuthorId: input.coAuthorId,
+    suggestionId: input.suggestionId,
+    restoredFrom: input.restoredFrom,
+  });
   await db
     .insertInto('study_revisions')
     .values({
       study_id: input.studyId,
-      number: claimed.current_revision,
+      number,
       design: JSON.stringify(input.design),
       checks: JSON.stringify(input.checks),
       author_id: input.authorId,
       note: input.note ?? null,
+      created_at: at,
+      version_number: version,
     })
     .execute();
-  return claimed.current_revision;
+  return { number, version };
 }
 
 export interface FindingNote {

@@ -1,5 +1,6 @@
 import { sql, type Kysely, type Transaction } from 'kysely';
 import type { Database, StudyRole, StudyStatus } from '../schema';
+import { placeRevision } from './versions';
 import type { RowLock } from './workspaces';
 
 type Db = Kysely<Database> | Transaction<Database>;
@@ -18,6 +19,41 @@ export interface Study {
 
 export interface StudyWithRole extends Study {
   role: StudyRole;
+}
+
+/** Activity that puts a study in review (issue 12): comments, suggestions and their decisions, sign-offs. */
+export const REVIEW_ACTIONS = [
+  'comment.created',
+  'comment.replied',
+  'comment.resolved',
+  'comment.reopened',
+  'suggestion.created',
+  'suggestion.accepted',
+  'suggestion.declined',
+  'signoff.created',
+  'signoff.withdrawn',
+] as const;
+
+/**
+ * The study's status, derived on read, never chosen: archived when archived; signed off when a
+ * sign-off that is not withdrawn covers the newest revision; in review once anyone commented,
+ * suggested or signed off (a change after a sign-off brings it back to in review); else draft.
+ */
+export const studyStatusSql = sql<StudyStatus>`(case
+  when studies.status = 'archived' then 'archived'
+  when exists (select 1 from study_signoffs s where s.study_id = studies.id and s.withdrawn_at is null and s.revision_number = studies.current_revision) then 'signed-off'
+  when exists (select 1 from activity_log a where a.study_id = studies.id and a.action in (${sql.join(REVIEW_ACTIONS.map((a) => sql.lit(a)))})) then 'in-review'
+  else 'draft'
+end)`;
+
+/**
+ * The study with its derived status, read by a query of its own: the row's own query may hold a
+ * lock, and stays short and plain.
+ */
+async function withDerivedStatus(db: Db, study: Study): Promise<Study> {
+  if (study.status === 'archived') return study;
+  const row = await db.selectFrom('studies').select(studyStatusSql.as('status')).where('studies.id', '=', study.id).executeTakeFirstOrThrow();
+  return { ...study, status: row.status };
 }
 
 const STUDY_COLUMNS = [
@@ -92,7 +128,7 @@ export async function findStudyForUser(
   const locked = lock === 'share' ? query.forShare('studies') : lock === 'update' ? query.forNoKeyUpdate('studies') : query;
   const row = await locked.executeTakeFirst();
   if (!row) return undefined;
-  return { study: rowToStudy(row), role: row.role, workspaceRole: row.workspace_role };
+  return { study: await withDerivedStatus(db, rowToStudy(row)), role: row.role, workspaceRole: row.workspace_role };
 }
 
 export interface StudyListFilter {
@@ -113,7 +149,7 @@ export async function listStudiesForUser(db: Db, f: StudyListFilter): Promise<{ 
     .where('studies.workspace_id', '=', f.workspaceId)
     .where('study_members.user_id', '=', f.userId);
   if (f.status === 'active') q = q.where('studies.status', '!=', 'archived');
-  else if (f.status !== 'all') q = q.where('studies.status', '=', f.status);
+  else if (f.status !== 'all') q = q.where(sql<boolean>`${studyStatusSql} = ${f.status}`);
   if (f.q) {
     const pattern = `%${f.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
     q = q.where((eb) => eb.or([eb('studies.title', 'ilike', pattern), eb('studies.description', 'ilike', pattern)]));
@@ -121,13 +157,13 @@ export async function listStudiesForUser(db: Db, f: StudyListFilter): Promise<{ 
   const totalRow = await q.select((eb) => eb.fn.countAll<string>().as('n')).executeTakeFirstOrThrow();
   const sortColumn = {
     title: sql`lower(studies.title)`,
-    status: sql`studies.status`,
+    status: studyStatusSql,
     role: sql`array_position(array['owner','editor','consultant','writer','viewer'], study_members.role)`,
     updated: sql`studies.updated_at`,
     created: sql`studies.created_at`,
   }[f.sort];
   const rows = await q
-    .select([...STUDY_COLUMNS, 'study_members.role as role'])
+    .select([...STUDY_COLUMNS.filter((c) => c !== 'studies.status'), studyStatusSql.as('status'), 'study_members.role as role'])
     .orderBy(sortColumn, f.dir)
     .orderBy('studies.id')
     .limit(f.pageSize)
@@ -157,9 +193,10 @@ export async function updateStudyRow(
     .updateTable('studies')
     .set({ ...patch, updated_at: new Date() })
     .where('id', '=', studyId)
-    .returningAll()
+    .returning('id')
     .executeTakeFirstOrThrow();
-  return rowToStudy(row);
+  // Read back through the derived status (an update does not choose it).
+  return withDerivedStatus(db, rowToStudy(await db.selectFrom('studies').select(STUDY_COLUMNS).where('studies.id', '=', row.id).executeTakeFirstOrThrow()));
 }
 
 export async function upsertStudyMember(db: Db, studyId: string, userId: string, role: StudyRole): Promise<void> {
@@ -228,11 +265,15 @@ export async function countStudiesOwnedInWorkspace(db: Db, workspaceId: string, 
 /** Appends a revision; the unique (study, number) constraint rejects a concurrent save. */
 export async function insertRevision(
   db: Db,
-  input: { studyId: string; number: number; design: unknown; authorId: string; note?: string | null; checks?: unknown },
+  input: { studyId: string; number: number; design: unknown; authorId: string; note?: string | null; checks?: unknown; at?: Date },
 ): Promise<void> {
+  const at = input.at ?? new Date();
+  const version = await placeRevision(db, { studyId: input.studyId, revision: input.number, authorId: input.authorId, at });
   await db
     .insertInto('study_revisions')
     .values({
+      created_at: at,
+      version_number: version,
       study_id: input.studyId,
       number: input.number,
       design: JSON.stringify(input.design),

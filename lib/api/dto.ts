@@ -167,7 +167,10 @@ export const designStateSchema = z
 export type DesignState = z.output<typeof designStateSchema>;
 
 export const designSavedSchema = designStateSchema
-  .extend({ merged: z.boolean().meta({ description: 'True when the edit was merged onto a revision someone saved meanwhile.' }) })
+  .extend({
+    merged: z.boolean().meta({ description: 'True when the edit was merged onto a revision someone saved meanwhile.' }),
+    version: z.number().int().meta({ description: 'The version the save belongs to: one person’s continuous editing (see /versions).' }),
+  })
   .meta({ id: 'DesignSaved' });
 export type DesignSaved = z.output<typeof designSavedSchema>;
 

@@ -57,14 +57,18 @@ import {
 import { simulationRunSchema, simulationSpecQuerySchema } from '@/lib/validation/simulation-run';
 import {
   invitationParamsSchema,
+  signoffParamsSchema,
   simulationParamsSchema,
   studyMemberParamsSchema,
   suggestionParamsSchema,
   threadParamsSchema,
   studyParamsSchema as studyParams,
+  versionParamsSchema,
   workspaceMemberParamsSchema,
   workspaceParamsSchema as workspaceParams,
 } from '@/lib/validation/params';
+import { signoffCreateSchema, signoffWithdrawSchema, versionCompareQuerySchema, versionNameSchema } from '@/lib/validation/versions';
+import { comparisonSchema, signoffDtoSchema, signoffListSchema, versionClosedSchema, versionDetailSchema, versionDtoSchema, versionListSchema } from './versions';
 
 const json = <T extends z.ZodType>(schema: T, description: string) => ({ description, content: { 'application/json': { schema } } });
 const err = (description: string) => json(errorSchema, description);
@@ -361,6 +365,70 @@ export const API_ROUTES: RouteConfig[] = [
     summary: 'Cancel a queued or running stress test (its creator; on a study: owner, editor, consultant)',
     request: { params: simulationParamsSchema },
     responses: { 200: json(simulationDtoSchema, 'The run, cancelled (or as it was, if it had already ended)'), ...writeErrors },
+  },
+  // Review: versions (one person's continuous editing), their comparison, sign-offs.
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/versions',
+    summary: 'Versions of the design, newest first, with the study’s review state',
+    request: { params: studyParams },
+    responses: { 200: json(versionListSchema, 'Versions'), ...standardErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/versions/compare',
+    summary: 'Two versions side by side: changed fields, findings, the Plan’s size and power, stress-test verdicts',
+    request: { params: studyParams, query: versionCompareQuerySchema },
+    responses: { 200: json(comparisonSchema, 'The comparison'), ...standardErrors, 400: err('Invalid input: see error.fields.') },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/versions/close',
+    summary: 'Close your open version (the wizard calls this when you leave it; owner, editor)',
+    request: { params: studyParams },
+    responses: { 200: json(versionClosedSchema, 'Whether a version was closed'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/versions/{version}',
+    summary: 'One version: its design and its saves',
+    request: { params: versionParamsSchema },
+    responses: { 200: json(versionDetailSchema, 'The version'), ...standardErrors },
+  },
+  {
+    method: 'patch',
+    path: '/api/v1/studies/{studyId}/versions/{version}',
+    summary: 'Name a version, or clear its name (owner, editor, consultant); naming the open version closes it',
+    request: { params: versionParamsSchema, body: { content: { 'application/json': { schema: versionNameSchema } } } },
+    responses: { 200: json(versionDtoSchema, 'The version'), ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/versions/{version}/restore',
+    summary: 'Restore a version: a new version with its design (owner, editor)',
+    request: { params: versionParamsSchema },
+    responses: { 201: json(versionDtoSchema, 'The new version'), ...writeErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/signoffs',
+    summary: 'Sign-offs, newest first, withdrawn ones included, with the study’s review state',
+    request: { params: studyParams },
+    responses: { 200: json(signoffListSchema, 'Sign-offs'), ...standardErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/signoffs',
+    summary: 'Sign off a named version with a statement of what was reviewed (consultant)',
+    request: { params: studyParams, body: { content: { 'application/json': { schema: signoffCreateSchema } } } },
+    responses: { 201: json(signoffDtoSchema, 'The sign-off'), ...writeErrors },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/studies/{studyId}/signoffs/{signoffId}/withdraw',
+    summary: 'Withdraw a sign-off with a reason (consultant)',
+    request: { params: signoffParamsSchema, body: { content: { 'application/json': { schema: signoffWithdrawSchema } } } },
+    responses: { 200: json(signoffDtoSchema, 'The sign-off, withdrawn'), ...writeErrors },
   },
   {
     method: 'get',

@@ -8,9 +8,9 @@ import { ASSIGNABLE_STUDY_ROLES, canResolveThread, canStudy, canWorkspace, STUDY
  * route enforces the matrix.
  */
 const EXPECTED: Record<(typeof STUDY_ROLES)[number], StudyAction[]> = {
-  owner: ['study.read', 'study.update', 'study.archive', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'comment.resolve', 'suggestion.create', 'suggestion.decide', 'justification.edit', 'justification.export', 'members.read', 'members.manage', 'activity.read'],
-  editor: ['study.read', 'study.update', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'comment.resolve', 'suggestion.create', 'suggestion.decide', 'justification.edit', 'justification.export', 'members.read', 'activity.read'],
-  consultant: ['study.read', 'finding.address', 'simulation.run', 'comment.create', 'comment.resolve', 'suggestion.create', 'study.signoff', 'justification.export', 'members.read', 'activity.read'],
+  owner: ['study.read', 'study.update', 'study.archive', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'comment.resolve', 'suggestion.create', 'suggestion.decide', 'justification.edit', 'justification.export', 'members.read', 'members.manage', 'activity.read', 'version.name'],
+  editor: ['study.read', 'study.update', 'design.edit', 'finding.address', 'calculation.save', 'simulation.run', 'comment.create', 'comment.resolve', 'suggestion.create', 'suggestion.decide', 'justification.edit', 'justification.export', 'members.read', 'activity.read', 'version.name'],
+  consultant: ['study.read', 'finding.address', 'simulation.run', 'comment.create', 'comment.resolve', 'suggestion.create', 'study.signoff', 'justification.export', 'members.read', 'activity.read', 'version.name'],
   writer: ['study.read', 'comment.create', 'justification.edit', 'justification.export', 'members.read', 'activity.read'],
   viewer: ['study.read', 'justification.export', 'members.read', 'activity.read'],
 };

@@ -48,6 +48,8 @@ const ACTION_WORDS: Partial<Record<StudyAction | WorkspaceAction, string>> = {
   'comment.resolve': 'resolve or reopen threads started by others',
   'suggestion.create': 'suggest changes to the design',
   'suggestion.decide': 'accept or decline suggestions',
+  'study.signoff': 'sign off this study (consultants do)',
+  'version.name': 'name versions',
 };
 
 export async function requireStudy(

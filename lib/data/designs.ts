@@ -45,16 +45,22 @@ function changedParts(a: Design, b: Design): DesignPart[] {
 
 const PART_LABEL = Object.fromEntries(DESIGN_STEPS.map((s) => [s.part, s.label])) as Record<DesignPart, string>;
 
+export interface SaveOptions {
+  /** An accepted suggestion: who proposed it. The save is a version of its own, by both. */
+  coAuthorId?: string;
+  suggestionId?: string;
+  /** The time of the save (tests inject it; versions group saves by it). */
+  now?: Date;
+}
+
 /**
- * `options.suggestionId`: the save carries out that suggestion (lib/data/suggestions.ts), which is
- * marked accepted in the same transaction; `coAuthorId` is its author.
+ * Saves the design as a new revision, which joins the author's open version or starts a new one
+ * (db/repositories/versions.ts). `options.suggestionId`: the save carries out that suggestion
+ * (lib/data/suggestions.ts), which is marked accepted in the same transaction; `coAuthorId` is its
+ * author, and the save is a version of its own, by both.
  */
-export async function saveDesign(
-  actor: Actor | null,
-  studyId: string,
-  input: DesignSaveInput,
-  options: { coAuthorId?: string; suggestionId?: string; now?: Date } = {},
-): Promise<DesignSaved> {
+export async function saveDesign(actor: Actor | null, studyId: string, input: DesignSaveInput, options: SaveOptions = {}): Promise<DesignSaved> {
+  const now = options.now ?? new Date();
   return transaction(async (trx) => {
     const { actor: a, study } = await requireStudy(actor, studyId, 'design.edit', { trx, lock: 'update' });
     if (input.baseRevision > study.currentRevision) {
@@ -93,8 +99,18 @@ export async function saveDesign(
 
     const checks = runChecks(design);
     // The study's row is locked, so the compare-and-set cannot miss; it stays as a guard.
-    const number = await appendRevision(trx, { studyId, expected: study.currentRevision, design, checks, authorId: a.id, note: input.note ?? null });
-    if (number === undefined) {
+    const saved = await appendRevision(trx, {
+      studyId,
+      expected: study.currentRevision,
+      design,
+      checks,
+      authorId: a.id,
+      note: input.note ?? null,
+      at: now,
+      coAuthorId: options.coAuthorId,
+      suggestionId: options.suggestionId,
+    });
+    if (saved === undefined) {
       throw new AppError('conflict', 'Someone saved the design at the same moment. Your edit is kept in this browser: reload, then apply it again.');
     }
     await logActivity(trx, {
@@ -102,10 +118,10 @@ export async function saveDesign(
       studyId,
       actorId: a.id,
       action: 'design.saved',
-      details: { revision: number, merged, ...(options.suggestionId ? { suggestionId: options.suggestionId, coAuthorId: options.coAuthorId ?? null } : {}) },
+      details: { revision: saved.number, version: saved.version, merged, ...(options.suggestionId ? { suggestionId: options.suggestionId, coAuthorId: options.coAuthorId ?? null } : {}) },
     });
-    if (options.suggestionId) await recordDecision(trx, a, study, options.suggestionId, { status: 'accepted', revision: number });
-    return { revision: number, design, savedAt: new Date().toISOString(), savedBy: a.name ?? a.email, readable: true, merged };
+    if (options.suggestionId) await recordDecision(trx, a, study, options.suggestionId, { status: 'accepted', revision: saved.number });
+    return { revision: saved.number, version: saved.version, design, savedAt: now.toISOString(), savedBy: a.name ?? a.email, readable: true, merged };
   });
 }
 

@@ -47,7 +47,8 @@ export const LIBERAL_BOUND = 1.5;
 
 export type RateVerdict = 'holds' | 'undecided' | 'inflated' | 'broken' | 'unknown';
 export type PowerVerdict = 'meets' | 'below' | 'unknown';
-export type CellVerdict = 'holds' | 'underpowered' | 'caution' | 'undecided' | 'broken' | 'no-result';
+export const CELL_VERDICTS = ['holds', 'underpowered', 'caution', 'undecided', 'broken', 'no-result'] as const;
+export type CellVerdict = (typeof CELL_VERDICTS)[number];
 
 export interface Verdict {
   cell: CellVerdict;

@@ -15,3 +15,8 @@ export const invitationParamsSchema = z.object({ invitationId: pathId('The invit
 export const simulationParamsSchema = z.object({ simulationId: pathId('The stress test') });
 export const threadParamsSchema = studyParamsSchema.extend({ threadId: pathId('The thread') });
 export const suggestionParamsSchema = studyParamsSchema.extend({ suggestionId: pathId('The suggestion') });
+
+/** A version is named in an address by its number within the study (1, 2, …); read it with Number(). */
+const versionNumber = z.string().regex(/^[1-9][0-9]{0,8}$/, { error: 'That version was not found: the address does not hold a version number.' });
+export const versionParamsSchema = studyParamsSchema.extend({ version: versionNumber });
+export const signoffParamsSchema = studyParamsSchema.extend({ signoffId: pathId('That sign-off') });

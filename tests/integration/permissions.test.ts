@@ -45,6 +45,14 @@ import * as suggestionAccept from '@/app/api/v1/studies/[studyId]/suggestions/[s
 import * as suggestionDecline from '@/app/api/v1/studies/[studyId]/suggestions/[suggestionId]/decline/route';
 import { createThread, resolveThread } from '@/lib/data/threads';
 import { createSuggestion } from '@/lib/data/suggestions';
+import * as versions from '@/app/api/v1/studies/[studyId]/versions/route';
+import * as version from '@/app/api/v1/studies/[studyId]/versions/[version]/route';
+import * as versionRestore from '@/app/api/v1/studies/[studyId]/versions/[version]/restore/route';
+import * as versionCompare from '@/app/api/v1/studies/[studyId]/versions/compare/route';
+import * as versionClose from '@/app/api/v1/studies/[studyId]/versions/close/route';
+import * as signoffs from '@/app/api/v1/studies/[studyId]/signoffs/route';
+import * as signoffWithdraw from '@/app/api/v1/studies/[studyId]/signoffs/[signoffId]/withdraw/route';
+import { insertSignoff } from '@/db/repositories/signoffs';
 
 type Handler = (req: Request, c: { params: Promise<Record<string, string>> }) => Promise<Response>;
 
@@ -75,6 +83,7 @@ interface Extra {
   resolvedThreadId: string;
   /** Pending, made by the owner. */
   suggestionId: string;
+  signoffId: string;
 }
 
 /** A stress test small enough to queue in every case below (no worker runs here). */
@@ -124,6 +133,15 @@ const ROUTES: RouteCase[] = [
   { name: 'suggest a change', method: 'POST', handler: suggestions.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/suggestions`, params: (w) => ({ studyId: w.studyId }), body: () => ({ path: 'outcome.unit', value: 'points', reason: 'Name the unit of the score.' }), rule: { kind: 'study', action: 'suggestion.create' }, ok: 201 },
   { name: 'accept a suggestion', method: 'POST', handler: suggestionAccept.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/suggestions/x/accept`, params: (w, e) => ({ studyId: w.studyId, suggestionId: e.suggestionId }), body: () => ({}), rule: { kind: 'study', action: 'suggestion.decide' }, ok: 200 },
   { name: 'decline a suggestion', method: 'POST', handler: suggestionDecline.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/suggestions/x/decline`, params: (w, e) => ({ studyId: w.studyId, suggestionId: e.suggestionId }), body: () => ({ reason: 'Already settled.' }), rule: { kind: 'study', action: 'suggestion.decide' }, ok: 200 },
+  { name: 'list versions', method: 'GET', handler: versions.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/versions`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'read a version', method: 'GET', handler: version.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/versions/1`, params: (w) => ({ studyId: w.studyId, version: '1' }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'name a version', method: 'PATCH', handler: version.PATCH as Handler, path: (w) => `/api/v1/studies/${w.studyId}/versions/1`, params: (w) => ({ studyId: w.studyId, version: '1' }), body: () => ({ name: 'Sent to the funder' }), rule: { kind: 'study', action: 'version.name' }, ok: 200 },
+  { name: 'restore a version', method: 'POST', handler: versionRestore.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/versions/1/restore`, params: (w) => ({ studyId: w.studyId, version: '1' }), rule: { kind: 'study', action: 'design.edit' }, ok: 201 },
+  { name: 'compare versions', method: 'GET', handler: versionCompare.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/versions/compare?from=1&to=1`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'close my version', method: 'POST', handler: versionClose.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/versions/close`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'design.edit' }, ok: 200 },
+  { name: 'list sign-offs', method: 'GET', handler: signoffs.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/signoffs`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
+  { name: 'sign off a version', method: 'POST', handler: signoffs.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/signoffs`, params: (w) => ({ studyId: w.studyId }), body: () => ({ version: 1, name: 'Sent to the funder', statement: 'Reviewed the design and the Plan.' }), rule: { kind: 'study', action: 'study.signoff' }, ok: 201 },
+  { name: 'withdraw a sign-off', method: 'POST', handler: signoffWithdraw.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/signoffs/x/withdraw`, params: (w, e) => ({ studyId: w.studyId, signoffId: e.signoffId }), body: () => ({ reason: 'The ICC source was wrong.' }), rule: { kind: 'study', action: 'study.signoff' }, ok: 200 },
   { name: 'revoke invitation', method: 'DELETE', handler: invitation.DELETE as Handler, path: (_w) => '/api/v1/invitations/x', params: (_w, e) => ({ invitationId: e.invitationId }), rule: { kind: 'revoke' }, ok: 204 },
   { name: 'send invitation again', method: 'POST', handler: invitationResend.POST as Handler, path: (_w) => '/api/v1/invitations/x/resend', params: (_w, e) => ({ invitationId: e.invitationId }), rule: { kind: 'revoke' }, ok: 200 },
 ];
@@ -183,10 +201,12 @@ describe.each(ROUTES)('$method $name', (route) => {
     const { id: resolvedThreadId } = await createThread(owner, w.studyId, { anchor: { kind: 'section', part: 'analysis' }, body: 'Settled.' });
     await resolveThread(owner, w.studyId, resolvedThreadId);
     const { id: suggestionId } = await createSuggestion(owner, w.studyId, { path: 'outcome.name', value: 'Reading score', reason: 'Name the primary outcome.' });
+    // A sign-off to withdraw (only there: a signed-off version keeps its name).
+    const signoffId = route.name !== 'withdraw a sign-off' ? '00000000-0000-4000-8000-000000000000' : await insertSignoff(db(), { studyId: w.studyId, versionNumber: 1, revisionNumber: 1, signerId: w.byRole.owner.id, statement: 'Reviewed.', conditions: null, at: new Date() });
     const user = who(w, principal);
     const res = await route.handler(
       request(route.method, route.path(w), { user, body: route.body?.(w) }),
-      ctx(route.params(w, { invitationId: inv.id, simulationId: sim.id, threadId, resolvedThreadId, suggestionId })),
+      ctx(route.params(w, { invitationId: inv.id, simulationId: sim.id, threadId, resolvedThreadId, suggestionId, signoffId })),
     );
     const want = expected(route, principal);
     const body = res.status === 204 ? null : await res.json();

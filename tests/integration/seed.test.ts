@@ -50,6 +50,24 @@ describe('demo seed', () => {
     }
   });
 
+  it('seeds a named, signed-off version on the greenhouse study: signed off by the consultant, the study signed off', async () => {
+    await seedDemo(db(), PASSWORD);
+    const greenhouse = (await demoStudies()).find((s) => s.title.startsWith('Greenhouse'))!;
+    const signoff = await db()
+      .selectFrom('study_signoffs')
+      .innerJoin('User', 'User.id', 'study_signoffs.signer_id')
+      .innerJoin('study_versions', (j) => j.onRef('study_versions.study_id', '=', 'study_signoffs.study_id').onRef('study_versions.number', '=', 'study_signoffs.version_number'))
+      .select(['User.email', 'study_versions.name', 'study_versions.close_reason', 'study_signoffs.withdrawn_at'])
+      .where('study_signoffs.study_id', '=', greenhouse.id)
+      .executeTakeFirstOrThrow();
+    expect(signoff).toMatchObject({ email: 'lena.vogel@harrowvale.example', name: 'Sent to the funder', close_reason: 'signoff', withdrawn_at: null });
+    const { findStudyForUser } = await import('@/db/repositories/studies');
+    const owner = await db().selectFrom('User').select('id').where('email', '=', DEMO_ADMINS[0]!).executeTakeFirstOrThrow();
+    expect((await findStudyForUser(db(), greenhouse.id, owner.id))!.study.status).toBe('signed-off');
+    const others = (await demoStudies()).filter((s) => s.id !== greenhouse.id);
+    expect(await db().selectFrom('study_signoffs').select('id').where('study_id', 'in', others.map((s) => s.id)).execute()).toEqual([]);
+  });
+
   it('adds a demo study that a database seeded before it lacks, once', async () => {
     const before = DEMO_STUDIES.filter((s) => s.title !== FALLS);
     expect(await seedDemo(db(), PASSWORD, before)).toEqual({ created: true });

@@ -1,7 +1,19 @@
 'use client';
 
 import { useState } from 'react';
-import { DF_METHOD_WORDS, GLM_FAMILY_WORDS, optionsOf, STANDARD_ERROR_WORDS } from '../analysis-words';
+import {
+  BLOCK_EFFECT_WORDS,
+  COVARIANCE_WORDS,
+  DF_METHOD_WORDS,
+  GLM_FAMILY_WORDS,
+  METHOD_WORDS,
+  MISSING_DATA_WORDS,
+  MULTIPLICITY_WORDS,
+  STANDARD_ERROR_WORDS,
+  TIME_MODEL_WORDS,
+  TRANSFORMATION_WORDS,
+} from '@/lib/design/fields';
+import { Options } from '../options';
 import { SelectField, TextAreaField } from '@/components/ui/field';
 import { analysisSchema } from '@/lib/design/schema';
 import { asOptional, errorAt, useStepForm } from '../step-form';
@@ -28,18 +40,7 @@ export function AnalysisStep({ value, design, onValid, onDraft, disabled }: Step
       <p className="text-sm text-muted">What the team intends to run. The checks compare it with the design and say what the design calls for.</p>
       <SelectField label="Planned analysis" {...register('method', asOptional)} error={errorAt(e, 'method')}>
         <option value="">Choose…</option>
-        <option value="t-test">t-test comparing the arms</option>
-        <option value="paired-t-test">Paired t-test (differences within pairs or units)</option>
-        <option value="per-occasion-tests">A separate test or ANOVA at each occasion</option>
-        <option value="linear-regression">Linear regression (ordinary least squares)</option>
-        <option value="ancova">ANCOVA adjusting for baseline</option>
-        <option value="mixed-model">Linear mixed model (random effects)</option>
-        <option value="gee">GEE</option>
-        <option value="cluster-means">Analysis of cluster or unit means</option>
-        <option value="glm">Generalised linear model (GLM)</option>
-        <option value="glmm">Generalised linear mixed model (GLMM)</option>
-        <option value="robust-regression">Robust regression</option>
-        <option value="other">Other</option>
+        <Options words={METHOD_WORDS} />
       </SelectField>
       <SelectField
         label="Unit counted as n"
@@ -88,63 +89,34 @@ export function AnalysisStep({ value, design, onValid, onDraft, disabled }: Step
           {...register('blockEffect', asOptional)}
         >
           <option value="">Not in the model</option>
-          <option value="fixed">As a fixed effect</option>
-          <option value="random">As a random effect</option>
+          <Options words={BLOCK_EFFECT_WORDS} />
         </SelectField>
       )}
       <div className="grid gap-3 @md:grid-cols-2">
         <SelectField label="Family (for a GLM or GLMM)" {...register('glmFamily', asOptional)}>
           <option value="">Not applicable</option>
-          {optionsOf(GLM_FAMILY_WORDS).map(([value, words]) => (
-            <option key={value} value={value}>
-              {words}
-            </option>
-          ))}
+          <Options words={GLM_FAMILY_WORDS} />
         </SelectField>
         <SelectField label="Standard errors" {...register('standardErrors')}>
-          {optionsOf(STANDARD_ERROR_WORDS).map(([value, words]) => (
-            <option key={value} value={value}>
-              {words}
-            </option>
-          ))}
+          <Options words={STANDARD_ERROR_WORDS} />
         </SelectField>
         <SelectField label="Degrees of freedom" {...register('dfMethod')}>
-          {optionsOf(DF_METHOD_WORDS).map(([value, words]) => (
-            <option key={value} value={value}>
-              {words}
-            </option>
-          ))}
+          <Options words={DF_METHOD_WORDS} />
         </SelectField>
         <SelectField label="Scale of the outcome" {...register('transformation')}>
-          <option value="none">As measured</option>
-          <option value="log">Log scale</option>
-          <option value="other">Other transformation</option>
+          <Options words={TRANSFORMATION_WORDS} />
         </SelectField>
         <SelectField label="Time in the model" {...register('timeModel')}>
-          <option value="not-applicable">Not applicable</option>
-          <option value="categorical">Each occasion separately</option>
-          <option value="linear">Linear trend</option>
-          <option value="polynomial">Polynomial</option>
-          <option value="spline">Spline</option>
+          <Options words={TIME_MODEL_WORDS} />
         </SelectField>
         <SelectField label="Correlation between occasions in the model" {...register('covarianceStructure')}>
-          <option value="not-applicable">Not applicable</option>
-          <option value="independence">Independence</option>
-          <option value="exchangeable">Exchangeable</option>
-          <option value="ar1">AR(1)</option>
-          <option value="unstructured">Unstructured</option>
+          <Options words={COVARIANCE_WORDS} />
         </SelectField>
         <SelectField label="Missing data" {...register('missingData')}>
-          <option value="not-planned">Not planned yet</option>
-          <option value="complete-case">Complete cases only</option>
-          <option value="mixed-model-mar">All data, mixed model (missing at random)</option>
-          <option value="multiple-imputation">Multiple imputation</option>
+          <Options words={MISSING_DATA_WORDS} />
         </SelectField>
         <SelectField label="Several primary outcomes" {...register('multiplicity')}>
-          <option value="none">No adjustment</option>
-          <option value="bonferroni">Bonferroni</option>
-          <option value="holm">Holm</option>
-          <option value="hierarchical">Fixed order (hierarchical testing)</option>
+          <Options words={MULTIPLICITY_WORDS} />
         </SelectField>
       </div>
       <label className="flex items-center gap-2 text-sm">

@@ -2,7 +2,9 @@
 
 import { useFieldArray } from 'react-hook-form';
 import { Button } from '@/components/ui/button';
+import { Options } from '../options';
 import { SelectField, TextField } from '@/components/ui/field';
+import { ASSIGNMENT_KIND_WORDS, BLOCKING_WORDS } from '@/lib/design/fields';
 import { assignmentSchema } from '@/lib/design/schema';
 import { asNumber, asOptional, errorAt, useStepForm } from '../step-form';
 import type { StepProps } from './types';
@@ -20,9 +22,7 @@ export function AssignmentStep({ value, design, onValid, onDraft, disabled }: St
       <legend className="sr-only">Assignment</legend>
       <SelectField label="What varies" {...register('kind', asOptional)} error={errorAt(e, 'kind')}>
         <option value="">Choose…</option>
-        <option value="randomised">A randomised treatment</option>
-        <option value="observed">An observed exposure (not assigned by the team)</option>
-        <option value="continuous">A continuous explanatory variable</option>
+        <Options words={ASSIGNMENT_KIND_WORDS} />
       </SelectField>
       <TextField label="Name of the treatment or variable" {...register('variableName')} error={errorAt(e, 'variableName')} />
       <SelectField
@@ -60,11 +60,7 @@ export function AssignmentStep({ value, design, onValid, onDraft, disabled }: St
       )}
       <div className="grid gap-3 @md:grid-cols-2">
         <SelectField label="Blocking, stratification or matching" {...register('blocking.kind')}>
-          <option value="none">None</option>
-          <option value="blocked">Blocked</option>
-          <option value="stratified">Stratified</option>
-          <option value="matched">Matched sets</option>
-          <option value="paired">Pairs (twins, left and right, before and after)</option>
+          <Options words={BLOCKING_WORDS} />
         </SelectField>
         <TextField label="Blocking factor" help="e.g. school, bench, litter" {...register('blocking.factor')} />
       </div>

@@ -4,7 +4,9 @@ import { useMemo } from 'react';
 import type { UseFormRegister } from 'react-hook-form';
 import { z } from 'zod';
 import { HAYES_BENNETT_1999 } from '@/lib/citations';
+import { Options } from '../options';
 import { SelectField, TextField } from '@/components/ui/field';
+import { CERTAINTY_WORDS, PROPORTION_EFFECT_WORDS, SOURCE_KIND_WORDS } from '@/lib/design/fields';
 import { designFacts } from '@/lib/design/facts';
 import { clusterRandomised, iccLevels } from '@/lib/design/progress';
 import { assumptionsSchema, type Assumptions, type Design } from '@/lib/design/schema';
@@ -42,16 +44,11 @@ function SourceFields({ path, register, e }: { path: string; register: UseFormRe
   return (
     <div className="grid gap-2 @md:grid-cols-2 @2xl:grid-cols-3">
       <SelectField label="Source" {...register(`${path}.source.kind` as never)}>
-        <option value="none">No source yet</option>
-        <option value="published">A published study</option>
-        <option value="pilot">Pilot data</option>
-        <option value="expert">Expert judgement</option>
+        <Options words={SOURCE_KIND_WORDS} />
       </SelectField>
       <TextField label="Citation or note" {...register(`${path}.source.citation` as never)} error={errorAt(e, `${path}.source.citation`)} />
       <SelectField label="How sure the team is" {...register(`${path}.source.certainty` as never)}>
-        <option value="low">Not sure</option>
-        <option value="medium">Fairly sure</option>
-        <option value="high">Sure</option>
+        <Options words={CERTAINTY_WORDS} />
       </SelectField>
     </div>
   );
@@ -93,10 +90,7 @@ export function AssumptionsStep({ value, design, onValid, onDraft, disabled }: S
           <section className="space-y-2 rounded-md border border-line bg-white p-3">
             <div className="grid gap-2 @md:grid-cols-2">
               <SelectField label="State the effect worth detecting as" {...register('proportionEffect.measure')}>
-                <option value="p2">The proportion expected with the intervention</option>
-                <option value="difference">A difference in proportions</option>
-                <option value="riskRatio">A risk ratio</option>
-                <option value="oddsRatio">An odds ratio</option>
+                <Options words={PROPORTION_EFFECT_WORDS} />
               </SelectField>
               <TextField
                 label="Effect worth detecting"

@@ -2,7 +2,9 @@
 
 import { useFieldArray } from 'react-hook-form';
 import { Button } from '@/components/ui/button';
+import { Options } from '../options';
 import { SelectField, TextField } from '@/components/ui/field';
+import { CORRELATION_STRUCTURE_WORDS } from '@/lib/design/fields';
 import { occasionsSchema } from '@/lib/design/schema';
 import { asNumber, errorAt, useStepForm } from '../step-form';
 import type { StepProps } from './types';
@@ -55,9 +57,7 @@ export function OccasionsStep({ value, onValid, onDraft, disabled }: StepProps<'
         help="Exchangeable: any two occasions of a unit are equally alike. AR(1): occasions close in time are more alike than distant ones."
         {...register('correlationStructure')}
       >
-        <option value="unknown">Not known</option>
-        <option value="exchangeable">Exchangeable (compound symmetry)</option>
-        <option value="ar1">AR(1): decays with distance in time</option>
+        <Options words={CORRELATION_STRUCTURE_WORDS} />
       </SelectField>
     </fieldset>
   );

@@ -2,19 +2,12 @@
 
 import { useFieldArray } from 'react-hook-form';
 import { Button } from '@/components/ui/button';
+import { Options } from '../options';
 import { SelectField, TextField } from '@/components/ui/field';
-import { outcomeSchema, type Outcome } from '@/lib/design/schema';
+import { OUTCOME_SHAPE_WORDS, OUTCOME_TYPE_WORDS, VARIABLE_KIND_WORDS, VARIABLE_ROLE_WORDS } from '@/lib/design/fields';
+import { outcomeSchema } from '@/lib/design/schema';
 import { asNumber, asOptional, errorAt, makeId, useStepForm } from '../step-form';
 import type { StepProps } from './types';
-
-const TYPES: [Outcome['type'] & string, string][] = [
-  ['continuous', 'Continuous (a measurement, a score with many values)'],
-  ['binary', 'Binary (yes or no)'],
-  ['count', 'Count (0, 1, 2, …)'],
-  ['proportion', 'Proportion or ratio'],
-  ['bounded-score', 'Bounded score (a scale with a floor and a ceiling)'],
-  ['time-to-event', 'Time to an event'],
-];
 
 export function OutcomeStep({ value, onValid, onDraft, disabled }: StepProps<'outcome'>) {
   const form = useStepForm(outcomeSchema, value, onValid, onDraft);
@@ -30,18 +23,11 @@ export function OutcomeStep({ value, onValid, onDraft, disabled }: StepProps<'ou
       </div>
       <SelectField label="Type of outcome" help="It decides the model family: a binary or count outcome needs a GLM, not a linear model." {...register('type', asOptional)} error={errorAt(e, 'type')}>
         <option value="">Choose…</option>
-        {TYPES.map(([v, l]) => (
-          <option key={v} value={v}>
-            {l}
-          </option>
-        ))}
+        <Options words={OUTCOME_TYPE_WORDS} />
       </SelectField>
       <SelectField label="Expected shape" help="Positive measurements such as times or concentrations are often right-skewed." {...register('shape', asOptional)} error={errorAt(e, 'shape')}>
         <option value="">Not known yet</option>
-        <option value="symmetric">Roughly symmetric</option>
-        <option value="right-skewed">Right-skewed (a long tail of large values)</option>
-        <option value="heavy-tailed">Heavy-tailed (more extreme values than a normal curve)</option>
-        <option value="floor-or-ceiling">Floor or ceiling (many at the lowest or highest value)</option>
+        <Options words={OUTCOME_SHAPE_WORDS} />
       </SelectField>
       <div className="flex flex-wrap gap-6 text-sm">
         <label className="flex items-center gap-2">
@@ -69,13 +55,10 @@ export function OutcomeStep({ value, onValid, onDraft, disabled }: StepProps<'ou
           <div key={(f as unknown as { _key: string })._key} className="grid gap-2 rounded-md border border-line p-3 @md:grid-cols-2 @2xl:grid-cols-4">
             <TextField label="Name" {...register(`explanatoryVariables.${i}.name`)} error={errorAt(e, `explanatoryVariables.${i}.name`)} />
             <SelectField label="Role" {...register(`explanatoryVariables.${i}.role`)}>
-              <option value="treatment">Treatment</option>
-              <option value="exposure">Exposure</option>
-              <option value="covariate">Covariate</option>
+              <Options words={VARIABLE_ROLE_WORDS} />
             </SelectField>
             <SelectField label="Kind" {...register(`explanatoryVariables.${i}.kind`)}>
-              <option value="categorical">Categorical</option>
-              <option value="continuous">Continuous</option>
+              <Options words={VARIABLE_KIND_WORDS} />
             </SelectField>
             <div className="flex items-end">
               <Button variant="ghost" onClick={() => vars.remove(i)}>

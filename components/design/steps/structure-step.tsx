@@ -2,7 +2,9 @@
 
 import { useFieldArray } from 'react-hook-form';
 import { Button } from '@/components/ui/button';
+import { Options } from '../options';
 import { SelectField, TextField } from '@/components/ui/field';
+import { LEVEL_KIND_WORDS } from '@/lib/design/fields';
 import { GROUPING_TYPES, MAX_LEVELS, structureSchema } from '@/lib/design/schema';
 import { asNumber, asOptional, errorAt, makeId, useStepForm } from '../step-form';
 import type { StepProps } from './types';
@@ -60,10 +62,7 @@ export function StructureStep({ value, onValid, onDraft, disabled }: StepProps<'
               <div className="grid gap-3 @md:grid-cols-2 @2xl:grid-cols-3">
                 <TextField label="Name" {...register(`levels.${i}.name`)} error={errorAt(e, `levels.${i}.name`)} />
                 <SelectField label="Kind of level" help={kind ? KIND_HELP[kind] : undefined} {...register(`levels.${i}.kind`)}>
-                  <option value="independent">Independent units</option>
-                  <option value="grouping">Grouping of units (cluster)</option>
-                  <option value="repeated">Repeated measurements over time</option>
-                  <option value="replicate">Technical replicates or sub-samples</option>
+                  <Options words={LEVEL_KIND_WORDS} />
                 </SelectField>
                 <TextField
                   label={i === 0 ? 'Number in the study' : `Number per ${parent ?? 'parent'}`}

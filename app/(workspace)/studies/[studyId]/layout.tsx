@@ -5,6 +5,8 @@ import { RememberWorkspace } from '@/components/workspace/remember-workspace';
 import { Badge } from '@/components/ui/badge';
 import { ReviewRights } from '@/components/review/review-rights';
 import { canStudy } from '@/lib/auth/permissions';
+import { ChangedSinceSignoff, STATUS_WORDS } from '@/components/review/review-banner';
+import { getReviewState } from '@/lib/data/versions';
 import { currentActor } from '@/lib/auth/session';
 import { getStudy } from '@/lib/data/studies';
 import { countOpenThreads } from '@/lib/data/threads';
@@ -15,7 +17,7 @@ export default async function StudyLayout({ children, params }: { children: Reac
   const { studyId } = await params;
   const actor = await currentActor();
   const study = await load(getStudy(actor, studyId), `/studies/${studyId}`);
-  const [ws, openThreads] = await Promise.all([getWorkspace(actor, study.workspaceId), countOpenThreads(actor, study.id)]);
+  const [ws, openThreads, review] = await Promise.all([getWorkspace(actor, study.workspaceId), countOpenThreads(actor, study.id), getReviewState(actor, studyId)]);
   return (
     <div className="space-y-5">
       <RememberWorkspace id={ws.id} />
@@ -28,9 +30,16 @@ export default async function StudyLayout({ children, params }: { children: Reac
         <div className="mt-1 flex flex-wrap items-center gap-2">
           <h1 className="text-2xl font-bold">{study.title}</h1>
           <Badge tone="brand">Your role: {study.role}</Badge>
-          {study.status === 'archived' && <Badge>Archived</Badge>}
+          {study.status === 'archived' ? (
+            <Badge>Archived</Badge>
+          ) : (
+            <Link href={`/studies/${study.id}/review/versions`} className="rounded-md focus-visible:outline-2">
+              <Badge tone={study.status === 'signed-off' ? 'ok' : study.status === 'in-review' ? 'caution' : 'neutral'}>Status: {STATUS_WORDS[study.status]}</Badge>
+            </Link>
+          )}
         </div>
       </div>
+      <ChangedSinceSignoff studyId={study.id} review={review} />
       <StudyTabs studyId={study.id} openThreads={openThreads} />
       <ReviewRights canComment={canStudy(study.role, 'comment.create') && study.status !== 'archived'}>
         <div>{children}</div>
