@@ -11,6 +11,7 @@ import * as mailQueue from './20261203T100000_mail_queue';
 import * as pacedRateLimits from './20261203T100100_paced_rate_limits';
 import * as idempotencyKeys from './20261203T110000_idempotency_keys';
 import * as fairQueue from './20261203T120000_fair_queue';
+import * as notifications from './20261204T120000_notifications';
 
 export const migrations: Record<string, Migration> = {
   '20261201T100000_foundation': foundation,
@@ -21,4 +22,5 @@ export const migrations: Record<string, Migration> = {
   '20261203T100100_paced_rate_limits': pacedRateLimits,
   '20261203T110000_idempotency_keys': idempotencyKeys,
   '20261203T120000_fair_queue': fairQueue,
+  '20261204T120000_notifications': notifications,
 };
