@@ -5,6 +5,7 @@
  * `summary`) takes its words from here. Actions are logged by the code that does the write
  * (names in the issue-12 brief); an action this file does not know still reads as a sentence.
  */
+import { plural } from '@/lib/format';
 
 export interface ActivityLike {
   action: string;
@@ -57,7 +58,7 @@ const WORDS: Record<string, Words> = {
   'invitation.revoked': () => 'revoked an invitation',
   'member.role-changed': (d) => `changed a member’s role${str(d, 'from') && str(d, 'to') ? ` from ${str(d, 'from')} to ${str(d, 'to')}` : ''}`,
   'member.removed': () => 'removed a member',
-  'activity.exported': (d) => `downloaded the activity log${str(d, 'rows') ? ` (${str(d, 'rows')} rows)` : ''}`,
+  'activity.exported': (d) => `downloaded the activity log${typeof d.rows === 'number' ? ` (${plural(d.rows, 'entry')})` : ''}`,
   'justification.exported': () => 'exported the justification',
 };
 
