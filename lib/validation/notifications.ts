@@ -19,5 +19,7 @@ export type NotificationSettingsUpdate = z.infer<typeof notificationSettingsUpda
 
 /** The unsubscribe address's token (checked for its signature by lib/notifications/unsubscribe-token.ts). */
 export const unsubscribeParamsSchema = z.object({
-  token: z.string({ error: 'This unsubscribe link is not valid.' }).max(200, { error: 'This unsubscribe link is not valid.' }),
+  token: z
+    .string({ error: 'This unsubscribe link is not valid.' })
+    .regex(/^[0-9a-f-]{36}\.[a-z]{1,20}\.[A-Za-z0-9_-]{43}$/, { error: 'This unsubscribe link is not valid: copy the whole link from the e-mail.' }),
 });
