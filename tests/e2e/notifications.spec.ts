@@ -88,7 +88,7 @@ test('a mention reaches the outbox; its link unsubscribes without signing in', a
     const unsubscribePage = new UnsubscribePage(guestPage);
     await guestPage.goto(unsubscribe!);
     await expect(unsubscribePage.heading('mentions of you')).toBeVisible();
-    await expect(guestPage.getByText(owner.email)).toBeVisible();
+    await expect(guestPage.getByText(owner.email, { exact: true })).toBeVisible();
     await expectNoSeriousA11yViolations(guestPage, 'Unsubscribe page');
     await unsubscribePage.stop.click();
     await expect(guestPage.getByRole('status')).toContainText('will no longer get e-mails about mentions of you');
