@@ -19,7 +19,7 @@ export class NotificationSettingsPage {
   }
 
   choice(kind: string, delivery: 'At once' | 'Daily digest' | 'None'): Locator {
-    return this.page.getByRole('group', { name: kind }).getByRole('radio', { name: new RegExp(`^${delivery}`) });
+    return this.page.getByRole('group', { name: kind, exact: true }).getByRole('radio', { name: new RegExp(`^${delivery}`) });
   }
 }
 
