@@ -235,6 +235,40 @@ export interface MailTable {
   sent_at: NullableTimestamp;
   created_at: Generated<Date>;
   updated_at: Generated<Date>;
+  /** Extra header lines (List-Unsubscribe on notifications); null for none. */
+  headers: ColumnType<Record<string, string> | null, string | null | undefined, string | null>;
+}
+
+export const NOTIFICATION_DELIVERIES = ['immediate', 'digest', 'none'] as const;
+export type NotificationDelivery = (typeof NOTIFICATION_DELIVERIES)[number];
+
+/** One recipient's copy of a review event (lib/notifications/notify.ts). */
+export interface NotificationTable {
+  id: Generated<string>;
+  recipient_id: string;
+  study_id: string;
+  actor_id: string | null;
+  kind: string;
+  subject: string;
+  text: string;
+  /** Path inside the app that shows the thing. */
+  path: string;
+  dedupe_key: string;
+  /** The recipient's choice when it happened. */
+  delivery: NotificationDelivery;
+  /** The message that carried it (immediate, or the digest's). */
+  mail_id: string | null;
+  /** When an immediate message was queued for it or a digest took it. */
+  delivered_at: NullableTimestamp;
+  created_at: Generated<Date>;
+}
+
+/** A person's choice per kind of notification; no row means the kind's default. */
+export interface NotificationSettingTable {
+  user_id: string;
+  kind: string;
+  delivery: NotificationDelivery;
+  updated_at: Generated<Date>;
 }
 
 export const SIMULATION_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
@@ -384,6 +418,8 @@ export interface Database {
   review_threads: ReviewThreadTable;
   review_comments: ReviewCommentTable;
   review_suggestions: ReviewSuggestionTable;
+  notifications: NotificationTable;
+  notification_settings: NotificationSettingTable;
 }
 
 export type UserRow = Selectable<UserTable>;

@@ -19,6 +19,8 @@ export interface OutboxMessage {
   subject: string;
   text: string;
   html?: string;
+  /** List-Unsubscribe and List-Unsubscribe-Post, when the message has them. */
+  headers?: Record<string, string>;
 }
 
 const LOOPBACK_NAMES = new Set(['localhost', '127.0.0.1', '::1', '[::1]']);

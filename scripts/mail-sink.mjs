@@ -9,9 +9,9 @@
  *
  * Each message becomes `<dir>/<time>-<random>.json`, where <time> is the ISO-8601 receive time with
  * ':' and '.' replaced by '-' (file names sort by time), holding
- *   { id, receivedAt, from, to: string[], subject, text, html }
+ *   { id, receivedAt, from, to: string[], subject, text, html, headers? }
  * `id` is the file name without `.json`; `to` lists the SMTP envelope recipients (so Bcc too);
- * `html` is null for text-only mail. The file is written under a dot-prefixed temporary name and
+ * `html` is null for text-only mail; `headers` holds List-Unsubscribe and List-Unsubscribe-Post when sent. The file is written under a dot-prefixed temporary name and
  * then renamed, so readers never see half a message. Listens on 127.0.0.1 only, without STARTTLS.
  */
 import crypto from 'node:crypto';
@@ -20,6 +20,14 @@ import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { simpleParser } from 'mailparser';
 import { SMTPServer } from 'smtp-server';
+
+/** @param {{ key: string, line: string }[]} lines */
+function listHeaders(lines) {
+  const wanted = ['list-unsubscribe', 'list-unsubscribe-post'];
+  const found = lines.filter((h) => wanted.includes(h.key));
+  if (!found.length) return {};
+  return { headers: Object.fromEntries(found.map((h) => [h.line.slice(0, h.line.indexOf(':')), h.line.slice(h.line.indexOf(':') + 1).replace(/\r?\n[ \t]+/g, ' ').trim()])) };
+}
 
 /**
  * @param {{ port?: number, host?: string, dir: string, log?: (line: string) => void }} opts
@@ -41,6 +49,8 @@ export async function startMailSink({ port = 2525, host = '127.0.0.1', dir, log 
       subject: mail.subject ?? '',
       text: mail.text ?? '',
       html: mail.html || null,
+      // The unsubscribe headers of notifications (RFC 2369, RFC 8058), as sent; absent on other mail.
+      ...listHeaders(mail.headerLines),
     };
     const tmp = path.join(dir, `.${id}.tmp`);
     await fs.writeFile(tmp, JSON.stringify(message, null, 2) + '\n');

@@ -24,6 +24,9 @@ export default async function WorkspaceLayout({ children }: { children: ReactNod
             <Link href="/calculators" className="font-semibold text-ink hover:text-brand">
               Calculators
             </Link>
+            <Link href="/settings/notifications" className="font-semibold text-ink hover:text-brand">
+              Notifications
+            </Link>
             <span className="hidden text-muted sm:inline" title={actor.email}>
               {actor.name ?? actor.email}
             </span>

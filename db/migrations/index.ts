@@ -13,6 +13,7 @@ import * as idempotencyKeys from './20261203T110000_idempotency_keys';
 import * as fairQueue from './20261203T120000_fair_queue';
 import * as versionsAndSignoffs from './20261204T100000_versions_and_signoffs';
 import * as reviewThreads from './20261204T110000_review_threads';
+import * as notifications from './20261204T120000_notifications';
 
 export const migrations: Record<string, Migration> = {
   '20261201T100000_foundation': foundation,
@@ -25,4 +26,5 @@ export const migrations: Record<string, Migration> = {
   '20261203T120000_fair_queue': fairQueue,
   '20261204T100000_versions_and_signoffs': versionsAndSignoffs,
   '20261204T110000_review_threads': reviewThreads,
+  '20261204T120000_notifications': notifications,
 };

@@ -12,6 +12,7 @@ export interface NewMail {
   text: string | null;
   html: string | null;
   status: 'queued' | 'suppressed';
+  headers?: Record<string, string>;
 }
 
 /** Inserts a message; returns its id, or undefined when its idempotency key was queued before. */
@@ -26,6 +27,7 @@ export async function insertMail(db: Db, mail: NewMail): Promise<string | undefi
       text: mail.text,
       html: mail.html,
       status: mail.status,
+      headers: mail.headers ? JSON.stringify(mail.headers) : null,
     })
     .onConflict((oc) => oc.constraint('mail_idempotency_key_key').doNothing())
     .returning('id')
@@ -40,6 +42,7 @@ export interface ClaimedMail {
   text: string;
   html: string;
   attempts: number;
+  headers?: Record<string, string>;
 }
 
 /**
@@ -59,9 +62,11 @@ export async function claimMail(db: Db, id: string, staleSeconds: number): Promi
         eb.and([eb('status', '=', 'sending'), eb('claimed_at', '<', sql<Date>`now() - make_interval(secs => ${staleSeconds})`)]),
       ]),
     )
-    .returning(['id', 'recipient', 'subject', 'text', 'html', 'attempts'])
+    .returning(['id', 'recipient', 'subject', 'text', 'html', 'attempts', 'headers'])
     .executeTakeFirst();
-  return row ? { ...row, text: row.text ?? '', html: row.html ?? '' } : undefined;
+  if (!row) return undefined;
+  const { headers, ...rest } = row;
+  return { ...rest, text: row.text ?? '', html: row.html ?? '', ...(headers ? { headers } : {}) };
 }
 
 export async function mailStatus(db: Db, id: string): Promise<MailStatus | undefined> {
@@ -69,11 +74,11 @@ export async function mailStatus(db: Db, id: string): Promise<MailStatus | undef
   return row?.status;
 }
 
-/** Marks a message sent and erases its bodies, which may hold single-use links. */
+/** Marks a message sent and erases its bodies and extra headers, which may hold links. */
 export async function markMailSent(db: Db, id: string): Promise<void> {
   await db
     .updateTable('mail')
-    .set({ status: 'sent', sent_at: sql`now()`, updated_at: sql`now()`, text: null, html: null, last_error: null })
+    .set({ status: 'sent', sent_at: sql`now()`, updated_at: sql`now()`, text: null, html: null, headers: null, last_error: null })
     .where('id', '=', id)
     .where('status', '=', 'sending')
     .execute();

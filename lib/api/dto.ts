@@ -10,6 +10,9 @@ import type { FindingNote } from '@/db/repositories/designs';
 import type { StudyMember, StudyWithRole } from '@/db/repositories/studies';
 import type { WorkspaceMember } from '@/db/repositories/workspaces';
 import type { ActivityItem } from '@/db/repositories/activity';
+import { UNSUBSCRIBE_SCOPES } from '@/lib/notifications/kinds';
+import { actorWords, describeActivity } from '@/lib/activity/words';
+import { notificationSettingsSchema } from '@/lib/validation/notifications';
 import { STUDY_ROLES, STUDY_STATUSES, WORKSPACE_ROLES, type MailStatus } from '@/db/schema';
 import { analysisSchema, designSchema } from '@/lib/design/schema';
 import { calculationOutputSchema } from '@/lib/stats/calculations/types';
@@ -133,13 +136,46 @@ export type InvitationAccepted = z.output<typeof invitationAcceptedSchema>;
 // Activity.
 
 export const activityDtoSchema = z
-  .object({ id: z.string(), action: z.string(), details: z.record(z.string(), z.unknown()), actor: z.string().nullable(), createdAt: iso })
+  .object({
+    id: z.string(),
+    action: z.string(),
+    details: z.record(z.string(), z.unknown()),
+    actor: z.string().nullable(),
+    summary: z.string().meta({ description: 'What happened, in words: the person’s name and what they did.' }),
+    createdAt: iso,
+  })
   .meta({ id: 'ActivityItem' });
 export type ActivityDto = z.output<typeof activityDtoSchema>;
 
 export function activityDto(a: ActivityItem): ActivityDto {
-  return { id: a.id, action: a.action, details: a.details, actor: a.actorName ?? a.actorEmail, createdAt: a.createdAt.toISOString() };
+  return {
+    id: a.id,
+    action: a.action,
+    details: a.details,
+    actor: a.actorName ?? a.actorEmail,
+    summary: `${actorWords(a)} ${describeActivity(a)}`,
+    createdAt: a.createdAt.toISOString(),
+  };
 }
+
+export const activityPageSchema = z
+  .object({
+    items: z.array(activityDtoSchema),
+    total: z.number().int().meta({ description: 'Entries that match the filters in all.' }),
+    page: z.number().int(),
+    pageSize: z.number().int(),
+  })
+  .meta({ id: 'ActivityPage' });
+
+// Notification settings and unsubscribe links.
+
+export const unsubscribedSchema = z
+  .object({
+    scope: z.enum(UNSUBSCRIBE_SCOPES).meta({ description: 'A kind of notification, or digest: every kind the person received in the daily digest.' }),
+    settings: notificationSettingsSchema,
+  })
+  .meta({ id: 'Unsubscribed' });
+export type Unsubscribed = z.output<typeof unsubscribedSchema>;
 
 // Errors.
 

@@ -23,7 +23,7 @@ import { calculationOutputSchema } from '@/lib/stats/calculations/types';
 import { runCalculation } from './calculations';
 import { CALCULATION_EXAMPLES } from './calculation-examples';
 import {
-  activityDtoSchema,
+  activityPageSchema,
   checkResultSchema,
   designSavedSchema,
   designStateSchema,
@@ -39,6 +39,7 @@ import {
   studyDtoSchema,
   studyMemberDtoSchema,
   studyPageSchema,
+  unsubscribedSchema,
   workspaceDtoSchema,
   workspaceMemberDtoSchema,
 } from './dto';
@@ -54,6 +55,8 @@ import {
   threadListQuerySchema,
   threadResolveSchema,
 } from '@/lib/validation/review';
+import { ACTIVITY_PAGE_SIZE, activityExportQuerySchema, activityQuerySchema } from '@/lib/validation/activity';
+import { notificationSettingsSchema, notificationSettingsUpdateSchema, unsubscribeParamsSchema } from '@/lib/validation/notifications';
 import { simulationRunSchema, simulationSpecQuerySchema } from '@/lib/validation/simulation-run';
 import {
   invitationParamsSchema,
@@ -257,9 +260,60 @@ export const API_ROUTES: RouteConfig[] = [
   {
     method: 'get',
     path: '/api/v1/studies/{studyId}/activity',
-    summary: 'Recent activity on a study',
-    request: { params: studyParams },
-    responses: { 200: json(list(activityDtoSchema), 'Newest first, at most 50'), ...standardErrors },
+    summary: 'A study’s activity log, newest first, filtered by kind of event, person and days (every member)',
+    description: `Pages of ${ACTIVITY_PAGE_SIZE} entries. from and to are whole days in UTC, both included. Each entry says what happened in words (summary).`,
+    request: { params: studyParams, query: activityQuerySchema },
+    responses: { 200: json(activityPageSchema, 'One page of entries'), 400: err('Invalid query'), ...standardErrors },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/studies/{studyId}/activity/export',
+    summary: 'The activity log as a CSV file, with the same filters (every member; the download is itself logged)',
+    description:
+      'RFC 4180: comma-separated, CRLF line ends, a header row. A cell that would start with = + - or @ starts with an apostrophe instead, so that a spreadsheet does not read typed text as a formula.',
+    request: { params: studyParams, query: activityExportQuerySchema },
+    responses: {
+      200: { description: 'The CSV file (attachment)', content: { 'text/csv': { schema: z.string() } } },
+      400: err('Invalid query'),
+      ...standardErrors,
+    },
+  },
+  // Notifications by e-mail.
+  {
+    method: 'get',
+    path: '/api/v1/me/notification-settings',
+    summary: 'How you get each kind of review notification: at once, in a daily digest, or none',
+    responses: { 200: json(notificationSettingsSchema, 'Your settings (defaults where you chose nothing)'), 401: err('Not signed in.') },
+  },
+  {
+    method: 'put',
+    path: '/api/v1/me/notification-settings',
+    summary: 'Change how you get some kinds of notification (the kinds left out stay as they are)',
+    request: { body: { content: { 'application/json': { schema: notificationSettingsUpdateSchema } } } },
+    responses: {
+      200: json(notificationSettingsSchema, 'Your settings after the change'),
+      400: err('Invalid body'),
+      401: err('Not signed in.'),
+      403: err('Cross-site request.'),
+    },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/unsubscribe/{token}',
+    summary: 'One-click unsubscribe (RFC 8058) with the token of a notification e-mail; no sign-in',
+    description:
+      'The address in the List-Unsubscribe header of every notification e-mail. Sets the kind the token names (or, for a digest’s token, every kind received in the digest) to none. Doing it again changes nothing. A token changed by a single character is refused (404).',
+    security: [],
+    request: { params: unsubscribeParamsSchema },
+    responses: { 200: json(unsubscribedSchema, 'Unsubscribed'), 404: err('Not a valid unsubscribe link.'), 403: err('Cross-site request from a browser.') },
+  },
+  {
+    method: 'get',
+    path: '/api/v1/unsubscribe/{token}',
+    summary: 'Sends a browser that opens a one-click address to the confirmation page',
+    security: [],
+    request: { params: unsubscribeParamsSchema },
+    responses: { 303: { description: 'To /unsubscribe/{token}, which asks before changing anything' } },
   },
   {
     method: 'get',

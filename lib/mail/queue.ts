@@ -36,7 +36,14 @@ const JOB_EXPIRE_SECONDS = 120;
 /** A message left `sending` this long belongs to a sender that died. */
 export const STALE_SENDING_SECONDS = 300;
 
-export type MailKind = 'verify-email' | 'already-registered' | 'reset-password' | 'magic-link' | 'invitation';
+export type MailKind =
+  | 'verify-email'
+  | 'already-registered'
+  | 'reset-password'
+  | 'magic-link'
+  | 'invitation'
+  | 'notification'
+  | 'notification-digest';
 
 export interface MailJob {
   mailId: string;
@@ -91,6 +98,7 @@ export async function queueMail(trx: Transaction<Database>, q: QueuedMail): Prom
     text: q.suppressed ? null : q.mail.text,
     html: q.suppressed ? null : q.mail.html,
     status: q.suppressed ? 'suppressed' : 'queued',
+    headers: q.mail.headers,
   });
   if (!id) {
     const earlier = await trx.selectFrom('mail').select('id').where('idempotency_key', '=', q.idempotencyKey).executeTakeFirstOrThrow();
@@ -141,7 +149,14 @@ export async function deliverMail(db: Kysely<Database>, id: string, options: { f
     return 'settled';
   }
   try {
-    await sendMail({ to: mail.recipient, subject: mail.subject, text: mail.text, html: mail.html, messageId: `<${mail.id}@unitwise.mail>` });
+    await sendMail({
+      to: mail.recipient,
+      subject: mail.subject,
+      text: mail.text,
+      html: mail.html,
+      messageId: `<${mail.id}@unitwise.mail>`,
+      ...(mail.headers ? { headers: mail.headers } : {}),
+    });
   } catch (err) {
     const message = (err as Error).message || String(err);
     log.warn(`attempt ${mail.attempts} at message ${mail.id} failed${options.final ? ' (no retries left)' : ''}: ${message}`);

@@ -33,6 +33,8 @@ export interface Mail {
   subject: string;
   text: string;
   html: string;
+  /** Extra header lines, e.g. List-Unsubscribe (RFC 2369) and List-Unsubscribe-Post (RFC 8058). */
+  headers?: Record<string, string>;
 }
 
 /**

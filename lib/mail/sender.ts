@@ -12,18 +12,22 @@
  *
  * Starts in the background: while the database cannot be reached it tries again (2 s, growing to
  * 30 s), and messages wait in the queue meanwhile. Once an hour it deletes settled messages older
- * than MAIL_RETENTION_DAYS, a thousand at a time.
+ * than MAIL_RETENTION_DAYS, a thousand at a time. Every DIGEST_POLL_SECONDS it queues the daily
+ * digests that are due (lib/notifications/digest.ts; safe to run on several servers at once).
  */
 import type PgBoss from 'pg-boss';
 import { deleteSettledMail } from '@/db/repositories/mail';
 import { db } from '@/lib/db';
 import { consume, Wakeup } from '@/lib/jobs/consume';
 import { logger } from '@/lib/log';
+import { sendDueDigests } from '@/lib/notifications/digest';
 import { deliverMail, mailBoss, MAIL_QUEUE, type MailJob } from './queue';
 
 export const MAIL_RETENTION_DAYS = 30;
 /** An idle sender looks for new messages this often; a message queued by this process wakes it at once. */
 const POLL_SECONDS = 2;
+/** How often the sender looks for digests that are due; a digest goes out within this of its hour. */
+const DIGEST_POLL_SECONDS = 300;
 
 const log = logger('mail');
 
@@ -33,6 +37,7 @@ interface Running {
   done: Promise<void>;
   wake: Wakeup;
   timer: NodeJS.Timeout;
+  digestTimer: NodeJS.Timeout;
 }
 
 const holder = globalThis as unknown as { unitwiseMailSender?: { started: Promise<Running | undefined>; stopped: boolean } };
@@ -52,8 +57,19 @@ async function subscribe(): Promise<Running> {
   const timer = setInterval(() => void pruneSettledMail(), 3600_000);
   timer.unref();
   void pruneSettledMail();
+  const digestTimer = setInterval(() => void queueDueDigests(wake), DIGEST_POLL_SECONDS * 1000);
+  digestTimer.unref();
+  void queueDueDigests(wake);
   log.info('sending queued mail');
-  return { boss, stop, done, wake, timer };
+  return { boss, stop, done, wake, timer, digestTimer };
+}
+
+async function queueDueDigests(wake: Wakeup): Promise<void> {
+  try {
+    if (await sendDueDigests(db())) wake.ring();
+  } catch (err) {
+    log.warn(`could not queue the daily digests: ${(err as Error).message}`);
+  }
 }
 
 async function pruneSettledMail(): Promise<void> {
@@ -100,6 +116,7 @@ export async function stopMailSender(): Promise<void> {
   const running = await state.started;
   if (!running) return;
   clearInterval(running.timer);
+  clearInterval(running.digestTimer);
   running.stop.abort();
   await running.done;
 }

@@ -24,6 +24,10 @@ import * as studyMembers from '@/app/api/v1/studies/[studyId]/members/route';
 import * as studyMember from '@/app/api/v1/studies/[studyId]/members/[userId]/route';
 import * as studyInvitations from '@/app/api/v1/studies/[studyId]/invitations/route';
 import * as activity from '@/app/api/v1/studies/[studyId]/activity/route';
+import * as activityExport from '@/app/api/v1/studies/[studyId]/activity/export/route';
+import * as notificationSettings from '@/app/api/v1/me/notification-settings/route';
+import * as unsubscribeRoute from '@/app/api/v1/unsubscribe/[token]/route';
+import { unsubscribeToken } from '@/lib/notifications/unsubscribe-token';
 import * as invitation from '@/app/api/v1/invitations/[invitationId]/route';
 import * as invitationResend from '@/app/api/v1/invitations/[invitationId]/resend/route';
 import * as design from '@/app/api/v1/studies/[studyId]/design/route';
@@ -109,6 +113,10 @@ const ROUTES: RouteCase[] = [
   { name: 'list study invitations', method: 'GET', handler: studyInvitations.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/invitations`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'members.manage' }, ok: 200 },
   { name: 'invite to study', method: 'POST', handler: studyInvitations.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/invitations`, params: (w) => ({ studyId: w.studyId }), body: () => ({ email: 'lena@test.example', role: 'consultant' }), rule: { kind: 'study', action: 'members.manage' }, ok: 201 },
   { name: 'study activity', method: 'GET', handler: activity.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/activity`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'activity.read' }, ok: 200 },
+  { name: 'activity as CSV', method: 'GET', handler: activityExport.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/activity/export`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'activity.read' }, ok: 200 },
+  { name: 'read my notification settings', method: 'GET', handler: notificationSettings.GET as Handler, path: () => '/api/v1/me/notification-settings', params: () => ({}), rule: { kind: 'signed-in' }, ok: 200 },
+  { name: 'change my notification settings', method: 'PUT', handler: notificationSettings.PUT as Handler, path: () => '/api/v1/me/notification-settings', params: () => ({}), body: () => ({ reply: 'none' }), rule: { kind: 'signed-in' }, ok: 200 },
+  { name: 'one-click unsubscribe (the token is the credential)', method: 'POST', handler: unsubscribeRoute.POST as Handler, path: (w) => `/api/v1/unsubscribe/${unsubscribeToken(w.byRole.viewer.id, 'reply')}`, params: (w) => ({ token: unsubscribeToken(w.byRole.viewer.id, 'reply') }), rule: { kind: 'public' }, ok: 200 },
   { name: 'read design', method: 'GET', handler: design.GET as Handler, path: (w) => `/api/v1/studies/${w.studyId}/design`, params: (w) => ({ studyId: w.studyId }), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
   { name: 'save design', method: 'PUT', handler: design.PUT as Handler, path: (w) => `/api/v1/studies/${w.studyId}/design`, params: (w) => ({ studyId: w.studyId }), body: () => ({ baseRevision: 1, design: { outcome: { name: 'Reading score' } } }), rule: { kind: 'study', action: 'design.edit' }, ok: 200 },
   { name: 'run checks', method: 'POST', handler: checks.POST as Handler, path: (w) => `/api/v1/studies/${w.studyId}/checks`, params: (w) => ({ studyId: w.studyId }), body: () => ({}), rule: { kind: 'study', action: 'study.read' }, ok: 200 },
@@ -209,7 +217,7 @@ describe.each(ROUTES)('$method $name', (route) => {
       ctx(route.params(w, { invitationId: inv.id, simulationId: sim.id, threadId, resolvedThreadId, suggestionId, signoffId })),
     );
     const want = expected(route, principal);
-    const body = res.status === 204 ? null : await res.json();
+    const body = res.status === 204 ? null : (res.headers.get('content-type') ?? '').includes('json') ? await res.json() : await res.text();
     expect(res.status, `${route.method} ${route.name} as ${principal}: ${JSON.stringify(body)}`).toBe(want);
     if (want >= 400) {
       expect(body.error.code).toBe({ 401: 'unauthorized', 403: 'forbidden', 404: 'not_found' }[want as 401 | 403 | 404]);

@@ -1,5 +1,5 @@
 /** Mail captured by the integration tests' stand-in for lib/mail/send. */
-export const sentMail: { to: string; subject: string; text: string; html: string; messageId?: string }[] = [];
+export const sentMail: { to: string; subject: string; text: string; html: string; messageId?: string; headers?: Record<string, string> }[] = [];
 
 /**
  * The stand-in SMTP server: `down` makes every send fail as if the server could not be reached;

@@ -60,6 +60,15 @@ export default async function OutboxPage({ searchParams }: { searchParams: Promi
                 <p className="text-sm text-muted">
                   To {m.to.join(', ')} · <time dateTime={m.receivedAt}>{formatDateTime(m.receivedAt)}</time>
                 </p>
+                {m.headers && (
+                  <dl className="mt-2 text-xs text-muted">
+                    {Object.entries(m.headers).map(([name, value]) => (
+                      <div key={name} className="break-all">
+                        <dt className="inline font-semibold">{name}:</dt> <dd className="inline">{value}</dd>
+                      </div>
+                    ))}
+                  </dl>
+                )}
                 <pre className="mt-3 whitespace-pre-wrap font-sans text-sm">
                   <Linked text={m.text} />
                 </pre>

@@ -14,6 +14,8 @@ export interface OutboxMail {
   subject: string;
   text: string;
   html: string | null;
+  /** List-Unsubscribe and List-Unsubscribe-Post of a notification. */
+  headers?: Record<string, string>;
 }
 
 export interface MailQuery {

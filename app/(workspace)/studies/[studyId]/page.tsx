@@ -11,30 +11,10 @@ import { ASSIGNABLE_STUDY_ROLES, canStudy, STUDY_ROLE_DESCRIPTIONS, STUDY_ROLE_L
 import { currentActor } from '@/lib/auth/session';
 import { getStudy, listStudyActivity } from '@/lib/data/studies';
 import { load } from '@/lib/page-guard';
+import { actorWords, describeActivity } from '@/lib/activity/words';
 
 export const metadata: Metadata = { title: 'Study overview' };
 
-const ACTIVITY_WORDS: Record<string, string> = {
-  'study.created': 'created the study',
-  'study.updated': 'edited the study details',
-  'study.archived': 'archived the study',
-  'study.restored': 'restored the study',
-  'invitation.created': 'sent an invitation',
-  'invitation.accepted': 'accepted an invitation',
-  'invitation.revoked': 'revoked an invitation',
-  'member.role-changed': 'changed a member’s role',
-  'member.removed': 'removed a member',
-  'design.saved': 'saved the design',
-  'version.named': 'named a version',
-  'version.restored': 'restored a version',
-  'signoff.created': 'signed off a version',
-  'signoff.withdrawn': 'withdrew a sign-off',
-  'finding.addressed': 'marked a finding addressed',
-  'finding.reopened': 'reopened a finding',
-  'plan.saved': 'saved a sample-size result',
-  'simulation.started': 'started a stress test',
-  'simulation.cancelled': 'cancelled a stress test',
-};
 
 export default async function StudyOverviewPage({ params }: { params: Promise<{ studyId: string }> }) {
   const { studyId } = await params;
@@ -102,13 +82,18 @@ export default async function StudyOverviewPage({ params }: { params: Promise<{ 
       </div>
 
       <aside aria-labelledby="activity-heading" className="space-y-3">
-        <h2 id="activity-heading" className="text-lg font-bold">
-          Activity
-        </h2>
+        <div className="flex flex-wrap items-baseline justify-between gap-2">
+          <h2 id="activity-heading" className="text-lg font-bold">
+            Activity
+          </h2>
+          <Link href={`/studies/${study.id}/review/activity`} className="text-sm font-semibold text-brand underline">
+            All activity
+          </Link>
+        </div>
         <ol className="space-y-2 text-sm">
           {activity.map((a) => (
             <li key={a.id} className="rounded-md border border-line bg-white px-3 py-2">
-              <span className="font-semibold">{a.actorName ?? a.actorEmail ?? 'Someone'}</span> {ACTIVITY_WORDS[a.action] ?? a.action}
+              <span className="font-semibold">{actorWords(a)}</span> {describeActivity(a)}
               <br />
               <time dateTime={a.createdAt.toISOString()} className="text-xs text-muted">
                 {formatDateTime(a.createdAt)}

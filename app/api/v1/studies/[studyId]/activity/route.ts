@@ -1,11 +1,13 @@
-import { api } from '@/lib/api/handler';
+import { api, parseQuery } from '@/lib/api/handler';
 import { activityDto } from '@/lib/api/dto';
-import { listStudyActivity } from '@/lib/data/studies';
+import { listActivity } from '@/lib/data/activity';
+import { activityQuerySchema } from '@/lib/validation/activity';
 import { studyParamsSchema } from '@/lib/validation/params';
 
 export const GET = api(
-  async ({ actor, params }) => ({
-    items: (await listStudyActivity(actor, params.studyId)).map(activityDto),
-  }),
+  async ({ req, actor, params }) => {
+    const page = await listActivity(actor, params.studyId, parseQuery(req, activityQuerySchema));
+    return { ...page, items: page.items.map(activityDto) };
+  },
   { params: studyParamsSchema },
 );
