@@ -7,11 +7,13 @@
  * consultant's suggestion, which becomes a new revision of the design. Filters live in the
  * address. Every screen passes axe (no serious or critical violations).
  *
- * The rest of the issue's scenario — the mention e-mail in the outbox, the sign-off of the named
- * version, an edit that marks it changed since sign-off, the comparison — is the notices' and the
- * versions' work: see the JOIN markers below.
+ * Then the rest of the issue's scenario: the mention e-mail reaches the owner's outbox; the
+ * consultant signs off the named version; an edit marks it changed since sign-off; the comparison
+ * shows the difference.
  */
 import { expect, test } from '@playwright/test';
+import { DesignWizardPage } from './pages/design-wizard-page';
+import { OutboxHelper } from './pages/outbox';
 import { ReviewPage } from './pages/review-page';
 import { expectNoSeriousA11yViolations as checkA11y } from './support/axe';
 import { seedClassroomReview } from './support/demo-review';
@@ -43,6 +45,7 @@ test('the consultant comments on the classroom study and mentions the owner; the
       await checkA11y(ownerPage, 'review tab (owner)');
     });
 
+    const since = new Date();
     await test.step('the consultant comments on the unit-of-analysis finding from the Checks tab and mentions the owner', async () => {
       await signInToWorkspace(page, consultant.email, consultant.password);
       await page.goto(`/studies/${studyId}/checks`);
@@ -59,7 +62,12 @@ test('the consultant comments on the classroom study and mentions the owner; the
       await checkA11y(page, 'checks tab with a comment marker (consultant)');
     });
 
-    // JOIN(notices): the owner gets the mention e-mail in the outbox (subject "Lena Vogel mentioned you on …").
+    await test.step('the owner gets the mention by e-mail, with a link to the thread and a one-click unsubscribe', async () => {
+      const mail = await new OutboxHelper().waitForMail({ to: owner.email, subject: 'mentioned you on', since, timeoutMs: 20_000 });
+      expect(mail.subject).toContain('Lena Vogel mentioned you on');
+      expect(mail.text).toContain('please size the study on the 20 classrooms');
+      expect(mail.text).toContain(`/studies/${studyId}/review`);
+    });
 
     const newThread = ownerReview.thread(UNIT_FINDING, ownerReview.openThreads).filter({ hasText: 'please size the study on the 20 classrooms' });
     await test.step('the owner sees the new comment without reloading, and replies', async () => {
@@ -102,7 +110,31 @@ test('the consultant comments on the classroom study and mentions the owner; the
       await checkA11y(page, 'review tab filtered (consultant)');
     });
 
-    // JOIN(versions): the consultant signs off the named version → an edit marks it changed since sign-off → the comparison shows the difference.
+    await test.step('the consultant signs off the newest version under a name', async () => {
+      await page.goto(`/studies/${studyId}/review/versions`);
+      await page.getByLabel('Name of the version').fill('Ethics board v1');
+      await page.getByLabel('What you reviewed').fill('The design, the checks and the Plan; the analysis accounts for classrooms.');
+      await page.getByRole('button', { name: /^Sign off version \d+$/ }).click();
+      await expect(page.getByText('Status: Signed off')).toBeVisible();
+      await checkA11y(page, 'versions page after a sign-off (consultant)');
+    });
+
+    await test.step('an edit by the owner marks the study changed since sign-off, and the comparison shows it', async () => {
+      const wizard = new DesignWizardPage(ownerPage);
+      await wizard.open(studyId, 'outcome');
+      await ownerPage.getByLabel('Unit', { exact: true }).fill('points on the reading test');
+      await wizard.waitSaved();
+      await ownerPage.goto(`/studies/${studyId}/review/versions`);
+      const banner = ownerPage.getByRole('note', { name: 'Changed since sign-off' });
+      await expect(banner).toContainText('Ethics board v1');
+      await banner.getByRole('link', { name: 'See what changed' }).click();
+      await ownerPage.waitForURL(/\/review\/compare\?from=\d+&to=\d+$/);
+      const change = ownerPage.getByTestId('change');
+      await expect(change).toHaveCount(1);
+      await expect(change).toContainText('Unit');
+      await expect(change).toContainText('points on the reading test');
+      await checkA11y(ownerPage, 'compare page from the changed-since-sign-off banner (owner)');
+    });
   } finally {
     await ownerContext.close();
   }

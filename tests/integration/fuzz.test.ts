@@ -28,6 +28,8 @@ import { upsertWorkspaceMember } from '@/db/repositories/workspaces';
 import { API_ROUTES } from '@/lib/api/openapi';
 import { db } from '@/lib/db';
 import { unsubscribeToken } from '@/lib/notifications/unsubscribe-token';
+import { createThread } from '@/lib/data/threads';
+import { createSuggestion } from '@/lib/data/suggestions';
 import { DATABASE_INPUT_MESSAGE } from '@/lib/errors';
 import { inviteToStudy } from '@/lib/data/invitations';
 import { deliverWaitingMail } from '@/lib/mail/queue';
@@ -75,6 +77,9 @@ const RUNS_PER_BATCH = Number(process.env.FUZZ_RUNS ?? 40 * ROUTES.length);
 /** Per table: the exact change, or a [min, max] range where it depends on the state. */
 type Delta = Record<string, number | [number, number]>;
 
+/** What telling the study's members may add: a notification each, and an e-mail with its job for those told at once. */
+const TOLD: Delta = { notifications: [0, 20], mail: [0, 20], 'pgboss.job': [0, 20] };
+
 /** The rows each successful answer creates or removes; every other table must not change. */
 const EXPECTED: Record<string, (body: Record<string, unknown>) => Delta> = {
   'POST /api/v1/workspaces': () => ({ workspaces: 1, workspace_members: 1, activity_log: 1 }),
@@ -95,9 +100,20 @@ const EXPECTED: Record<string, (body: Record<string, unknown>) => Delta> = {
   'PUT /api/v1/studies/{studyId}/design': () => ({ study_revisions: 1, study_versions: [0, 1], activity_log: 1 }),
   'PATCH /api/v1/studies/{studyId}/versions/{version}': () => ({ activity_log: 1 }),
   'POST /api/v1/studies/{studyId}/versions/{version}/restore': () => ({ study_revisions: 1, study_versions: 1, activity_log: 1 }),
-  // Signing off names the version first when the request names it.
-  'POST /api/v1/studies/{studyId}/signoffs': () => ({ study_signoffs: 1, activity_log: [1, 2] }),
-  'POST /api/v1/studies/{studyId}/signoffs/{signoffId}/withdraw': () => ({ activity_log: 1 }),
+  // Signing off names the version first when the request names it; owners, editors and writers are
+  // told (a notification each, and an e-mail with its job for those who take them at once).
+  'POST /api/v1/studies/{studyId}/signoffs': () => ({ study_signoffs: 1, activity_log: [1, 2], ...TOLD }),
+  'POST /api/v1/studies/{studyId}/signoffs/{signoffId}/withdraw': () => ({ activity_log: 1, ...TOLD }),
+  // Review threads: a thread is its first comment; mentions, replies and suggestions tell members.
+  'POST /api/v1/studies/{studyId}/threads': () => ({ review_threads: 1, review_comments: 1, activity_log: 1, ...TOLD }),
+  // A reply to a resolved thread reopens it.
+  'POST /api/v1/studies/{studyId}/threads/{threadId}/replies': () => ({ review_comments: 1, activity_log: [1, 2], ...TOLD }),
+  'POST /api/v1/studies/{studyId}/threads/{threadId}/resolve': () => ({ activity_log: [0, 1] }),
+  'POST /api/v1/studies/{studyId}/threads/{threadId}/reopen': () => ({ activity_log: [0, 1] }),
+  'POST /api/v1/studies/{studyId}/suggestions': () => ({ review_suggestions: 1, activity_log: 1, ...TOLD }),
+  // Accepting saves the design: a revision, a version of its own (closing the open one first).
+  'POST /api/v1/studies/{studyId}/suggestions/{suggestionId}/accept': () => ({ study_revisions: 1, study_versions: [0, 1], activity_log: [1, 3], ...TOLD }),
+  'POST /api/v1/studies/{studyId}/suggestions/{suggestionId}/decline': () => ({ activity_log: 1, ...TOLD }),
   'POST /api/v1/studies/{studyId}/finding-notes': () => ({ finding_notes: 1, activity_log: 1 }),
   'POST /api/v1/studies/{studyId}/plans': () => ({ plan_results: 1, activity_log: 1 }),
   'DELETE /api/v1/invitations/{invitationId}': () => ({ activity_log: 1 }),
@@ -314,6 +330,12 @@ const BODIES: Record<string, unknown[]> = {
   'POST /api/v1/studies/{studyId}/signoffs/{signoffId}/withdraw': [{ reason: 'The ICC changed.' }],
   'PUT /api/v1/me/notification-settings': [{ reply: 'none' }, { mention: 'digest', signoff: 'immediate' }],
   'POST /api/v1/unsubscribe/{token}': [{}],
+  'POST /api/v1/studies/{studyId}/threads': [{ anchor: { kind: 'section', part: 'outcome' }, body: 'Which outcome is primary?' }, { anchor: { kind: 'field', path: 'outcome.unit' }, body: 'Name the unit.' }],
+  'POST /api/v1/studies/{studyId}/threads/{threadId}/replies': [{ body: 'Agreed.' }],
+  'POST /api/v1/studies/{studyId}/threads/{threadId}/resolve': [{}],
+  'POST /api/v1/studies/{studyId}/suggestions': [{ path: 'outcome.unit', value: 'points', reason: 'Name the unit of the score.' }, { path: 'outcome.name', value: 'Reading score', reason: 'Name the outcome.' }],
+  'POST /api/v1/studies/{studyId}/suggestions/{suggestionId}/accept': [{}],
+  'POST /api/v1/studies/{studyId}/suggestions/{suggestionId}/decline': [{ reason: 'Already settled.' }],
 };
 
 /** Valid queries per route ('$workspaceId' is resolved when sent). */
@@ -426,6 +448,8 @@ interface Pools {
   simulationId: string[];
   version: string[];
   signoffId: string[];
+  threadId: string[];
+  suggestionId: string[];
   token: string[];
   /** One-click unsubscribe tokens: the path parameter `token` of /api/v1/unsubscribe/{token}. */
   unsubscribe: string[];
@@ -477,6 +501,8 @@ async function runBatch(batch: number) {
     simulationId: [run.id],
     version: ['1', '2'],
     signoffId: [await insertSignoff(db(), { studyId: w.studyId, versionNumber: 1, revisionNumber: 1, signerId: w.byRole.owner.id, statement: 'Reviewed.', conditions: null, at: new Date() })],
+    threadId: [(await createThread(owner, w.studyId, { anchor: { kind: 'section', part: 'assumptions' }, body: 'Where does the ICC come from?' })).id],
+    suggestionId: [(await createSuggestion(owner, w.studyId, { path: 'outcome.unit', value: 'score points', reason: 'Name the unit.' })).id],
     token: [acceptToken ?? 'x'.repeat(43)],
     unsubscribe: [unsubscribeToken(w.byRole.viewer.id, 'reply'), unsubscribeToken(w.byRole.owner.id, 'digest')],
     email: [...Object.values(users).map((u) => u.email), 'nobody@example.org'],
@@ -581,6 +607,8 @@ async function runBatch(batch: number) {
       if (route.key === 'POST /api/v1/studies') pools.studyId.push(answer.id);
       if (route.key === 'POST /api/v1/simulations') pools.simulationId.push(answer.id);
       if (route.key === 'POST /api/v1/studies/{studyId}/signoffs') pools.signoffId.push(answer.id);
+      if (route.key === 'POST /api/v1/studies/{studyId}/threads') pools.threadId.push(answer.id);
+      if (route.key === 'POST /api/v1/studies/{studyId}/suggestions') pools.suggestionId.push(answer.id);
       if (route.key.endsWith('/invitations') && route.method === 'POST') {
         pools.invitationId.push(answer.id);
         await deliverWaitingMail(db());

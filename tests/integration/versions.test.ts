@@ -12,6 +12,7 @@ import * as restoreRoute from '@/app/api/v1/studies/[studyId]/versions/[version]
 import * as signoffsRoute from '@/app/api/v1/studies/[studyId]/signoffs/route';
 import * as studiesRoute from '@/app/api/v1/studies/route';
 import { saveDesign } from '@/lib/data/designs';
+import { createSuggestion } from '@/lib/data/suggestions';
 import { closeMyVersion, compareStudyVersions, getVersion, listSignoffs, listVersions, nameVersion, restoreVersion, signOff, withdrawSignoff } from '@/lib/data/versions';
 import { designSchema, type Design } from '@/lib/design/schema';
 import { db } from '@/lib/db';
@@ -86,12 +87,14 @@ describe('grouping autosaves into versions', () => {
     const w = await makeWorld();
     const at = clock();
     await save(w, w.byRole.owner, classroom, at(0));
-    const accepted = await save(w, w.byRole.owner, edit(classroom, (d) => void (d.assumptions.iccs[0]!.value = 0.2)), at(1), { coAuthorId: w.byRole.consultant.id, suggestionId: 'sugg-1' });
+    const icc = classroom.assumptions.iccs[0]!;
+    const suggestion = await createSuggestion(actor(w.byRole.consultant), w.studyId, { path: `assumptions.iccs[${icc.levelId}].value`, value: 0.2, reason: 'The published ICC for reading scores is nearer 0.2.' });
+    const accepted = await save(w, w.byRole.owner, edit(classroom, (d) => void (d.assumptions.iccs[0]!.value = 0.2)), at(1), { coAuthorId: w.byRole.consultant.id, suggestionId: suggestion.id });
     expect(accepted.version).toBe(3);
     const after = await save(w, w.byRole.owner, edit(classroom, (d) => void (d.outcome.unit = 'pts')), at(2));
     expect(after.version).toBe(4);
     const v3 = (await getVersion(actor(w.byRole.viewer), w.studyId, 3, { now: at(3) }));
-    expect(v3).toMatchObject({ saves: 1, closeReason: 'suggestion', suggestionId: 'sugg-1', authorName: expect.stringContaining('owner'), coAuthorName: expect.stringContaining('consultant') });
+    expect(v3).toMatchObject({ saves: 1, closeReason: 'suggestion', suggestionId: suggestion.id, authorName: expect.stringContaining('owner'), coAuthorName: expect.stringContaining('consultant') });
   });
 });
 
