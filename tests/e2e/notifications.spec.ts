@@ -14,6 +14,7 @@ import { ActivityPage, NotificationSettingsPage, UnsubscribePage } from './pages
 import { OutboxHelper, OutboxPage, linksIn } from './pages/outbox';
 import { WorkspacePage } from './pages/workspace-page';
 import { expectNoSeriousA11yViolations } from './support/axe';
+import { atBothWidths } from './support/widths';
 import { registerAndSignIn } from './support/flows';
 import { notifyFromOutside } from './support/notify';
 import { APP_ORIGIN, distinctClientHeaders, STRONG_PASSWORD, uniqueEmail } from './support/test-data';
@@ -46,7 +47,7 @@ test('notification settings: reached from the header, saved, kept', async () => 
   await settings.openFromHeader();
   await expect(settings.choice('Mentions', 'At once')).toBeChecked();
   await expect(settings.choice('Replies in your threads', 'Daily digest')).toBeChecked();
-  await expectNoSeriousA11yViolations(page, 'Notification settings');
+  await atBothWidths(page, 'notification-settings');
   await settings.choice('Withdrawn sign-offs', 'Daily digest').check();
   await settings.save.click();
   await expect(settings.status).toContainText('Saved.');
@@ -111,7 +112,7 @@ test('activity: filters in the address, words for each event, CSV download', asy
   const activity = new ActivityPage(page);
   await activity.goto(studyId);
   await expect(activity.events).toContainText('Priya Nair created the study');
-  await expectNoSeriousA11yViolations(page, 'Activity page');
+  await atBothWidths(page, 'activity-page');
 
   await activity.kind.selectOption({ label: 'Members and invitations' });
   await activity.show.click();

@@ -16,6 +16,7 @@ import { DesignWizardPage } from './pages/design-wizard-page';
 import { OutboxHelper } from './pages/outbox';
 import { ReviewPage } from './pages/review-page';
 import { expectNoSeriousA11yViolations as checkA11y } from './support/axe';
+import { atBothWidths } from './support/widths';
 import { seedClassroomReview } from './support/demo-review';
 import { signInToWorkspace } from './support/flows';
 import { APP_ORIGIN, distinctClientHeaders } from './support/test-data';
@@ -42,7 +43,7 @@ test('the consultant comments on the classroom study and mentions the owner; the
       await expect(ownerReview.thread(UNIT_FINDING, ownerReview.openThreads)).toContainText('@Priya Nair the programme is given to whole classrooms');
       await expect(ownerReview.thread(/Intracluster correlation \(ICC\) for Classroom/, ownerReview.resolvedThreads)).toContainText('Resolved');
       await expect(ownerReview.suggestion(/Adjusts for the baseline measurement/)).toContainText('Waiting for a decision');
-      await checkA11y(ownerPage, 'review tab (owner)');
+      await atBothWidths(ownerPage, 'review-tab-owner');
     });
 
     const since = new Date();
@@ -116,7 +117,7 @@ test('the consultant comments on the classroom study and mentions the owner; the
       await page.getByLabel('What you reviewed').fill('The design, the checks and the Plan; the analysis accounts for classrooms.');
       await page.getByRole('button', { name: /^Sign off version \d+$/ }).click();
       await expect(page.getByText('Status: Signed off')).toBeVisible();
-      await checkA11y(page, 'versions page after a sign-off (consultant)');
+      await atBothWidths(page, 'versions-after-signoff-consultant');
     });
 
     await test.step('an edit by the owner marks the study changed since sign-off, and the comparison shows it', async () => {
@@ -133,7 +134,7 @@ test('the consultant comments on the classroom study and mentions the owner; the
       await expect(change).toHaveCount(1);
       await expect(change).toContainText('Unit');
       await expect(change).toContainText('points on the reading test');
-      await checkA11y(ownerPage, 'compare page from the changed-since-sign-off banner (owner)');
+      await atBothWidths(ownerPage, 'compare-after-signoff-owner');
     });
   } finally {
     await ownerContext.close();
