@@ -3,7 +3,7 @@ import type { ReviewStateDto } from '@/lib/api/versions';
 import { formatDateTime } from '@/lib/format';
 
 /**
- * "Changed since sign-off": shown in the study's header and on the versions page while the newest
+ * "Changed since sign-off": shown in the study's header (on every tab) while the newest
  * sign-off that stands covers an older revision than the newest, with a link to the comparison.
  */
 export function ChangedSinceSignoff({ studyId, review }: { studyId: string; review: ReviewStateDto }) {

@@ -1,5 +1,4 @@
 import type { Metadata } from 'next';
-import { ChangedSinceSignoff } from '@/components/review/review-banner';
 import { SignoffPanel, SignoffRecord } from '@/components/review/signoffs';
 import { VersionHistory } from '@/components/review/version-history';
 import { canStudy } from '@/lib/auth/permissions';
@@ -34,7 +33,6 @@ export default async function VersionsPage({ params }: { params: Promise<{ study
           edits, when its author leaves the design, or when it is named or signed off. A closed version never changes.
         </p>
       </div>
-      <ChangedSinceSignoff studyId={studyId} review={versions.review} />
       <div className="grid gap-5 lg:grid-cols-[1fr_26rem]">
         <VersionHistory studyId={studyId} versions={versions.items} canName={active && canStudy(study.role, 'version.name')} canRestore={active && canStudy(study.role, 'design.edit')} />
         <div className="space-y-5">
